@@ -1,0 +1,10 @@
+// The main navigation. Each entry names the roles that see it; the pages
+// themselves check permissions again on the server.
+import type { Role } from "~/lib/permissions";
+
+export type NavItem = { to: string; label: string; roles: Role[] };
+
+export const NAV_ITEMS: NavItem[] = [
+  { to: "/tubs", label: "Tubs", roles: ["owner", "technician", "admin"] },
+  { to: "/dev/inbox", label: "Mail inbox", roles: ["admin"] },
+];

@@ -1,0 +1,29 @@
+// Outgoing e-mail over SMTP with nodemailer: any provider in production
+// (SMTP_URL), the local mail catcher when developing and testing.
+import nodemailer, { type Transporter } from "nodemailer";
+import { env } from "./env.server";
+
+export type Mail = { to: string; subject: string; text: string; html: string; headers?: Record<string, string> };
+
+let transport: Transporter | undefined;
+
+function transporter() {
+  if (!transport) {
+    const url = new URL(env().SMTP_URL);
+    transport = nodemailer.createTransport({
+      host: url.hostname,
+      port: Number(url.port) || (url.protocol === "smtps:" ? 465 : 587),
+      secure: url.protocol === "smtps:",
+      auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
+      connectionTimeout: 10_000,
+      greetingTimeout: 10_000,
+      socketTimeout: 20_000,
+    });
+  }
+  return transport;
+}
+
+export async function sendMail(mail: Mail) {
+  const info = await transporter().sendMail({ from: env().MAIL_FROM, ...mail });
+  return { messageId: info.messageId as string };
+}

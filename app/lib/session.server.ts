@@ -1,0 +1,52 @@
+// Who is asking: the root middleware reads better-auth's session cookie once per
+// request; loaders and actions then ask for the user they need.
+import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
+import { auth, type SessionUser } from "./auth.server";
+import { userContext } from "./context";
+import { hasRole, type Role } from "./permissions";
+
+export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request, context }, next) => {
+  const found = await auth.api.getSession({ headers: request.headers });
+  context.set(userContext, found?.user ?? null);
+  return next();
+};
+
+type Ctx = Readonly<RouterContextProvider>;
+
+export function optionalUser(context: Ctx): SessionUser | null {
+  return context.get(userContext);
+}
+
+/** The signed-in user, or a redirect to the sign-in page that comes back here afterwards. */
+export function requireUser(context: Ctx, request: Request): SessionUser {
+  const user = context.get(userContext);
+  if (!user) {
+    const url = new URL(request.url);
+    const back = url.pathname + url.search;
+    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(back)}`);
+  }
+  return user;
+}
+
+/** The signed-in user if they hold one of the roles; 403 otherwise. */
+export function requireRole(context: Ctx, request: Request, ...roles: Role[]): SessionUser {
+  const user = requireUser(context, request);
+  if (!hasRole(user, ...roles)) {
+    throw data({ message: "This page is for " + roles.join(" or ") + " accounts." }, { status: 403 });
+  }
+  return user;
+}
+
+/** Keeps a redirect target on this site. */
+export function safeRedirect(to: FormDataEntryValue | string | null | undefined, fallback = "/tubs") {
+  if (typeof to !== "string" || !to.startsWith("/") || to.startsWith("//")) return fallback;
+  return to;
+}
+
+/** Copies every Set-Cookie from a better-auth response onto a redirect. */
+export function redirectWithCookies(to: string, from: Response | Headers) {
+  const headers = new Headers();
+  const source = from instanceof Response ? from.headers : from;
+  for (const cookie of source.getSetCookie()) headers.append("Set-Cookie", cookie);
+  return redirect(to, { headers });
+}

@@ -1,0 +1,108 @@
+// `npm test`: the same set-up as `npm start`, isolated for tests (its own
+// cluster in .test-run/, its own ports, fresh databases), then the type check,
+// Vitest (unit, integration against real PostgreSQL, s3rver and SMTP) and the
+// browser tests in Debian's Chromium against the production build.
+import { spawn, spawnSync } from "node:child_process";
+import { existsSync, rmSync } from "node:fs";
+import path from "node:path";
+import { migrateDatabase } from "./migrate";
+import { TEST_PORTS as P } from "./ports";
+import {
+  SetupError, assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres,
+  startS3, stopChildren, waitForPort,
+} from "./services";
+
+const root = process.cwd();
+const publicUrl = `http://127.0.0.1:${P.app}`;
+const run = path.join(root, ".test-run");
+const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
+
+function ensureChromium() {
+  const candidates = [process.env.CHROMIUM_PATH, "/usr/bin/chromium", "/usr/bin/chromium-browser"].filter(Boolean) as string[];
+  const found = candidates.find((c) => existsSync(c));
+  if (found) return found;
+  if (process.getuid?.() !== 0) throw new SetupError("Chromium is not installed. Install Debian's package: sudo apt-get install -y chromium");
+  console.log("Installing Chromium (apt-get install chromium)…");
+  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
+  spawnSync("apt-get", ["update"], { stdio: "inherit", env });
+  const r = spawnSync("apt-get", ["install", "-y", "--no-install-recommends", "chromium", "fonts-dejavu-core"], { stdio: "inherit", env });
+  if (r.status !== 0 || !existsSync("/usr/bin/chromium")) throw new SetupError("Could not install Chromium with apt-get.");
+  return "/usr/bin/chromium";
+}
+
+function step(title: string, cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env) {
+  console.log(`\n== ${title}`);
+  const r = spawnSync(cmd, args, { cwd: root, stdio: "inherit", env });
+  return r.status ?? 1;
+}
+
+async function main() {
+  const vitestArgs = process.argv.slice(2);
+  const chromium = ensureChromium();
+  for (const d of ["s3", "mail"]) rmSync(path.join(run, d), { recursive: true, force: true });
+
+  console.log("Starting the test services…");
+  const postgres = await startPostgres({ projectRoot: root, folder: ".test-run", port: P.postgres });
+  const cleanup = () => {
+    stopChildren();
+    postgres.stop();
+  };
+  process.on("SIGINT", () => (cleanup(), process.exit(130)));
+  process.on("SIGTERM", () => (cleanup(), process.exit(143)));
+
+  try {
+    const admin = postgres.url("postgres");
+    await createDatabase(admin, "dipwell_template", { fresh: true });
+    await migrateDatabase(postgres.url("dipwell_template"), root);
+    await createDatabase(admin, "dipwell_e2e", { fresh: true, template: "dipwell_template" });
+    await startS3({ projectRoot: root, dataDir: path.join(run, "s3"), port: P.s3, bucket: "dipwell-photos", allowedOrigins: [publicUrl] });
+    await startMailCatcher({ projectRoot: root, dataDir: path.join(run, "mail"), smtpPort: P.smtp, webPort: P.mailWeb });
+
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      ...serviceEnv({ databaseUrl: postgres.url("dipwell_e2e"), s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl }),
+      DIPWELL_TEST_RUN: "1",
+      TEST_ADMIN_DATABASE_URL: admin,
+      TEST_DATABASE_URL_PATTERN: postgres.url("dipwell_w{id}"),
+      E2E_BASE_URL: publicUrl,
+      CHROMIUM_PATH: chromium,
+    };
+
+    let failed = 0;
+    failed += step("Type check", bin("react-router"), ["typegen"], env);
+    failed += step("Type check (tsc)", bin("tsc"), ["--noEmit"], env);
+
+    console.log("\n== Seeding the browser tests' database and building the app");
+    Object.assign(process.env, { DATABASE_URL: env.DATABASE_URL });
+    const { seedDemo } = await import("./seed");
+    await seedDemo();
+    const build = spawnSync(bin("react-router"), ["build"], { cwd: root, stdio: ["ignore", "ignore", "inherit"], env: { ...env, NODE_ENV: "production" } });
+    if (build.status !== 0) throw new SetupError("The app did not build; see the messages above.");
+
+    await assertPortFree(P.app, "the Dipwell app under test");
+    const appEnv = { ...env, NODE_ENV: "production", PORT: String(P.app), HOST: "127.0.0.1" };
+    spawnService("app", bin("react-router-serve"), ["./build/server/index.js"], { cwd: root, env: appEnv, quiet: true });
+    if (existsSync(path.join(root, "app", "jobs", "worker.ts"))) {
+      spawnService("worker", bin("tsx"), ["app/jobs/worker.ts"], { cwd: root, env: appEnv, quiet: true });
+    }
+    await waitForPort(P.app, "the Dipwell app", 60_000);
+
+    console.log("\n== Vitest: unit, integration and browser tests");
+    const code = await new Promise<number>((resolve) => {
+      const child = spawn(bin("vitest"), ["run", ...vitestArgs], { cwd: root, stdio: "inherit", env });
+      child.on("exit", (c) => resolve(c ?? 1));
+    });
+    failed += code;
+    cleanup();
+    process.exit(failed ? 1 : 0);
+  } catch (error) {
+    cleanup();
+    throw error;
+  }
+}
+
+main().catch((error) => {
+  console.error(error instanceof SetupError ? error.message : error);
+  stopChildren();
+  process.exit(1);
+});

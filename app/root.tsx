@@ -1,0 +1,70 @@
+import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import type { Route } from "./+types/root";
+import { sessionMiddleware } from "./lib/session.server";
+import "./app.css";
+
+export const middleware: Route.MiddlewareFunction[] = [sessionMiddleware];
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Dipwell · hot tub water care" },
+  { name: "description", content: "Read your hot tub test strips from a photo and get the next safe step." },
+];
+
+export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
+export function Layout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <meta name="theme-color" content="#0f5c54" />
+        <Meta />
+        <Links />
+      </head>
+      <body className="min-h-screen">
+        {children}
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App() {
+  return <Outlet />;
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  let title = "Something went wrong";
+  let detail = "Please try again in a moment. If it keeps happening, tell us what you were doing.";
+  let stack: string | undefined;
+  if (isRouteErrorResponse(error)) {
+    const message = (error.data as { message?: string } | undefined)?.message;
+    if (error.status === 404) {
+      title = "Not found";
+      detail = message ?? "We could not find that page.";
+    } else if (error.status === 403) {
+      title = "Not allowed";
+      detail = message ?? "Your account cannot open this page.";
+    } else {
+      title = `Error ${error.status}`;
+      detail = message ?? error.statusText ?? detail;
+    }
+  } else if (import.meta.env.DEV && error instanceof Error) {
+    detail = error.message;
+    stack = error.stack;
+  }
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <div className="rounded-card border border-line bg-shell p-6">
+        <h1 className="text-2xl font-bold text-well-900">{title}</h1>
+        <p className="mt-2 text-ink-soft">{detail}</p>
+        <a className="mt-4 inline-block font-bold text-well-700 underline" href="/tubs">
+          Back to your tubs
+        </a>
+        {stack && <pre className="mt-4 overflow-x-auto text-xs">{stack}</pre>}
+      </div>
+    </main>
+  );
+}
