@@ -1,0 +1,519 @@
+// Finding the strip in a photo and placing its pads.
+//
+// 1. A reduced copy (long side ~500 px) is made from the working image. Each pixel gets a
+//    "whiteness" (luma minus part of its chroma: the strip is a bright, low-chroma plastic),
+//    and the local background's whiteness (a wide box mean) is subtracted.
+// 2. At a few thresholds the mask is labelled into connected components; each component is
+//    scored as a candidate strip (or strip handle) from its image moments: fill of its
+//    moment rectangle, elongation against the chart's strip shape.
+// 3. In the working image the strip's two long edges are located on cross-sections and a
+//    line is fitted through their mid points (axis, width → pixels per millimetre).
+// 4. Along the axis, the inner band is compared with the surface on both sides, giving the
+//    strip's two ends; a profile of "difference from bare plastic" is matched to the chart's
+//    pad layout over offset and scale, for both orientations; the better fit tells the tip.
+import type { StripChart } from "./chart";
+import { ReadingError, type RgbImage } from "./image";
+
+export type Interval = [number, number];
+export type PadPlacement = {
+  /** Position along the axis (work px, from the strip centre). */
+  t: number;
+  centre: [number, number];
+  halfAlong: number;
+  halfAcross: number;
+};
+export type StripGeometry = {
+  centre: [number, number];
+  /** Unit vector along the axis (the t direction). */
+  u: [number, number];
+  /** Unit vector across the axis. */
+  v: [number, number];
+  /** +1 if t grows from the tip towards the handle, −1 otherwise. */
+  dir: 1 | -1;
+  tipT: number;
+  handleT: number;
+  widthPx: number;
+  pxPerMm: number;
+  pads: PadPlacement[];
+  /** Bare-plastic intervals (t) usable as white reference, sorted by t. */
+  bare: Interval[];
+  fitScore: number;
+  warnings: string[];
+};
+
+const NO_STRIP =
+  "No test strip was found in this photo. Lay the strip flat on a plain surface, keep the whole strip in the picture, and take the photo again.";
+
+// ---------------------------------------------------------------- search copy
+
+type Search = { w: number; h: number; f: number; wh: Float32Array };
+
+function makeSearch(img: RgbImage, target = 500): Search {
+  const f = Math.max(1, Math.round(Math.max(img.width, img.height) / target));
+  const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
+  const acc = new Float32Array(w * 3);
+  const wh = new Float32Array(w * h);
+  const data = img.data, W = img.width;
+  const inv = 1 / (f * f * 255);
+  for (let sy = 0; sy < h; sy++) {
+    acc.fill(0);
+    for (let dy = 0; dy < f; dy++) {
+      let o = ((sy * f + dy) * W) * 3;
+      for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
+        let r = 0, g = 0, b = 0;
+        for (let dx = 0; dx < f; dx++, o += 3) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
+        acc[k] += r;
+        acc[k + 1] += g;
+        acc[k + 2] += b;
+      }
+    }
+    for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
+      const r = acc[k] * inv, g = acc[k + 1] * inv, b = acc[k + 2] * inv;
+      const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
+      const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
+      wh[sy * w + sx] = 0.2126 * r + 0.7152 * g + 0.0722 * b - 0.6 * (mx - mn);
+    }
+  }
+  return { w, h, f, wh };
+}
+
+function boxMean(src: Float32Array, w: number, h: number, r: number): Float32Array {
+  const I = new Float64Array((w + 1) * (h + 1));
+  for (let y = 0; y < h; y++) {
+    let row = 0;
+    for (let x = 0; x < w; x++) {
+      row += src[y * w + x];
+      I[(y + 1) * (w + 1) + x + 1] = I[y * (w + 1) + x + 1] + row;
+    }
+  }
+  const out = new Float32Array(w * h);
+  for (let y = 0; y < h; y++) {
+    const y0 = Math.max(0, y - r), y1 = Math.min(h, y + r + 1);
+    for (let x = 0; x < w; x++) {
+      const x0 = Math.max(0, x - r), x1 = Math.min(w, x + r + 1);
+      const s = I[y1 * (w + 1) + x1] - I[y0 * (w + 1) + x1] - I[y1 * (w + 1) + x0] + I[y0 * (w + 1) + x0];
+      out[y * w + x] = s / ((y1 - y0) * (x1 - x0));
+    }
+  }
+  return out;
+}
+
+type Candidate = { cx: number; cy: number; angle: number; length: number; width: number; score: number; n: number };
+
+function components(mask: Uint8Array, w: number, h: number, minArea: number): Candidate[] {
+  const labels = new Int32Array(w * h);
+  const parent: number[] = [0];
+  const find = (a: number) => {
+    while (parent[a] !== a) (parent[a] = parent[parent[a]]), (a = parent[a]);
+    return a;
+  };
+  let next = 1;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      if (!mask[i]) continue;
+      const l = x > 0 ? labels[i - 1] : 0;
+      const t = y > 0 ? labels[i - w] : 0;
+      if (l && t) {
+        const a = find(l), b = find(t);
+        labels[i] = a < b ? a : b;
+        if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
+      } else if (l || t) labels[i] = l || t;
+      else (labels[i] = next), parent.push(next), next++;
+    }
+  }
+  const n = new Float64Array(next), sx = new Float64Array(next), sy = new Float64Array(next);
+  const sxx = new Float64Array(next), syy = new Float64Array(next), sxy = new Float64Array(next);
+  for (let y = 0; y < h; y++)
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      if (!labels[i]) continue;
+      const r = find(labels[i]);
+      n[r]++, (sx[r] += x), (sy[r] += y), (sxx[r] += x * x), (syy[r] += y * y), (sxy[r] += x * y);
+    }
+  const out: Candidate[] = [];
+  for (let r = 1; r < next; r++) {
+    if (n[r] < minArea) continue;
+    const cx = sx[r] / n[r], cy = sy[r] / n[r];
+    const mxx = sxx[r] / n[r] - cx * cx, myy = syy[r] / n[r] - cy * cy, mxy = sxy[r] / n[r] - cx * cy;
+    const tr = mxx + myy, det = mxx * myy - mxy * mxy;
+    const disc = Math.sqrt(Math.max(0, (tr * tr) / 4 - det));
+    const l1 = tr / 2 + disc, l2 = Math.max(1e-6, tr / 2 - disc);
+    const angle = 0.5 * Math.atan2(2 * mxy, mxx - myy);
+    out.push({ cx, cy, angle, length: Math.sqrt(12 * l1), width: Math.sqrt(12 * l2), score: 0, n: n[r] });
+  }
+  return out;
+}
+
+function scoreCandidate(c: Candidate, chart: StripChart): number {
+  const fill = c.n / (c.length * c.width);
+  const e = c.length / c.width;
+  if (c.width < 2 || e < 2.5 || fill < 0.6 || fill > 1.3) return 0;
+  const full = chart.strip.lengthMm / chart.strip.widthMm;
+  const padEnd = Math.max(...chart.pads.map((p) => p.centerMm + p.sizeMm / 2));
+  const handle = Math.max(2.5, ((chart.strip.lengthMm - padEnd) / chart.strip.widthMm) * 0.6);
+  let aspect = 1;
+  if (e < handle) aspect = Math.pow(e / handle, 3);
+  else if (e > full * 1.3) aspect = Math.pow((full * 1.3) / e, 3);
+  const fillScore = Math.pow(Math.min(1, fill / 0.95), 4) * (fill > 1.1 ? 0.7 : 1);
+  return Math.sqrt(c.n) * c.width * fillScore * aspect;
+}
+
+function findCandidates(s: Search, chart: StripChart): Candidate[] {
+  const { w, h, wh } = s;
+  const r = Math.max(8, Math.round(Math.max(w, h) / 10));
+  const bg = boxMean(wh, w, h, r);
+  const d = new Float32Array(w * h);
+  for (let i = 0; i < d.length; i++) d[i] = wh[i] - bg[i];
+  // Percentiles of the difference from a subsample.
+  const step = Math.max(1, Math.floor(d.length / 60000));
+  const sub = new Float32Array(Math.ceil(d.length / step));
+  for (let i = 0, k = 0; i < d.length; i += step, k++) sub[k] = d[i];
+  sub.sort();
+  const q = (p: number) => sub[Math.min(sub.length - 1, Math.max(0, Math.floor(p * (sub.length - 1))))];
+  const top = q(0.999);
+  const noise = 1.4826 * (q(0.75) - q(0.25)) / 1.349;
+  const mask = new Uint8Array(w * h);
+  const minArea = Math.max(12, Math.round((w * h) / 20000));
+  const cands: Candidate[] = [];
+  const thresholds = [0.3, 0.45, 0.6, 0.75].map((k) => top * k).filter((t) => t > 3 * noise && t > 0.01);
+  for (const t of thresholds) {
+    for (let i = 0; i < d.length; i++) mask[i] = d[i] > t ? 1 : 0;
+    for (const c of components(mask, w, h, minArea)) {
+      c.score = scoreCandidate(c, chart);
+      if (c.score > 0) cands.push(c);
+    }
+  }
+  cands.sort((a, b) => b.score - a.score);
+  return cands;
+}
+
+// ---------------------------------------------------------------- working-image sampling
+
+function bilinear(img: RgbImage, x: number, y: number, out: Float32Array, o: number): boolean {
+  const W = img.width, H = img.height, data = img.data;
+  x -= 0.5;
+  y -= 0.5;
+  if (x < 0 || y < 0 || x > W - 1.001 || y > H - 1.001) return false;
+  const x0 = Math.floor(x), y0 = Math.floor(y);
+  const fx = x - x0, fy = y - y0;
+  const i00 = (y0 * W + x0) * 3, i01 = i00 + 3, i10 = i00 + W * 3, i11 = i10 + 3;
+  const w00 = (1 - fx) * (1 - fy), w01 = fx * (1 - fy), w10 = (1 - fx) * fy, w11 = fx * fy;
+  for (let c = 0; c < 3; c++) out[o + c] = data[i00 + c] * w00 + data[i01 + c] * w01 + data[i10 + c] * w10 + data[i11 + c] * w11;
+  return true;
+}
+
+const tmp = new Float32Array(3);
+function whitenessAt(img: RgbImage, x: number, y: number): number {
+  if (!bilinear(img, x, y, tmp, 0)) return NaN;
+  const r = tmp[0], g = tmp[1], b = tmp[2];
+  const mx = Math.max(r, g, b), mn = Math.min(r, g, b);
+  return (0.2126 * r + 0.7152 * g + 0.0722 * b - 0.6 * (mx - mn)) / 255;
+}
+
+function median(a: number[]): number {
+  if (!a.length) return NaN;
+  const s = [...a].sort((x, y) => x - y);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+type Axis = { cx: number; cy: number; ux: number; uy: number; width: number; length: number };
+
+/** Locates both long edges on cross-sections and fits the axis line through their mid points. */
+function refineAxis(img: RgbImage, a: Axis): Axis {
+  const K = 25;
+  const ts: number[] = [], mids: number[] = [], widths: number[] = [];
+  const vx = -a.uy, vy = a.ux;
+  const range = Math.max(4, a.width * 1.6);
+  const ds = 0.5;
+  const ns = Math.floor((2 * range) / ds) + 1;
+  const prof = new Float64Array(ns);
+  for (let k = 0; k < K; k++) {
+    const t = (-0.4 + (0.8 * k) / (K - 1)) * a.length;
+    let valid = true;
+    for (let i = 0; i < ns; i++) {
+      const s = -range + i * ds;
+      let sum = 0;
+      for (let j = -1; j <= 1; j++) {
+        const tt = t + j * Math.max(1, a.width * 0.15);
+        const val = whitenessAt(img, a.cx + tt * a.ux + s * vx, a.cy + tt * a.uy + s * vy);
+        if (Number.isNaN(val)) valid = false;
+        sum += val;
+      }
+      prof[i] = sum / 3;
+    }
+    if (!valid) continue;
+    // derivative over ±1 px
+    const g = (i: number) => (i >= 2 && i < ns - 2 ? prof[i + 2] - prof[i - 2] : 0);
+    let il = -1, ir = -1, gl = 0, gr = 0;
+    const mid = (ns - 1) / 2;
+    for (let i = 2; i < ns - 2; i++) {
+      const d = g(i);
+      if (i <= mid + a.width * 0.25 / ds && d > gl) (gl = d), (il = i);
+      if (i >= mid - a.width * 0.25 / ds && -d > gr) (gr = -d), (ir = i);
+    }
+    if (il < 0 || ir < 0 || ir <= il) continue;
+    const sub = (i: number, sign: number) => {
+      const y0 = sign * g(i - 1), y1 = sign * g(i), y2 = sign * g(i + 1);
+      const den = y0 - 2 * y1 + y2;
+      return i + (Math.abs(den) > 1e-12 ? (0.5 * (y0 - y2)) / den : 0);
+    };
+    const sl = -range + sub(il, 1) * ds, sr = -range + sub(ir, -1) * ds;
+    const wdt = sr - sl;
+    if (wdt < a.width * 0.4 || wdt > a.width * 2.2) continue;
+    ts.push(t), mids.push((sl + sr) / 2), widths.push(wdt);
+  }
+  if (ts.length < 5) return a;
+  // Robust line fit mid = p + q t.
+  let keep = ts.map(() => true);
+  let p = 0, q = 0;
+  for (let it = 0; it < 3; it++) {
+    let n = 0, st = 0, sm = 0, stt = 0, stm = 0;
+    for (let i = 0; i < ts.length; i++) if (keep[i]) n++, (st += ts[i]), (sm += mids[i]), (stt += ts[i] * ts[i]), (stm += ts[i] * mids[i]);
+    const den = n * stt - st * st;
+    q = Math.abs(den) > 1e-9 ? (n * stm - st * sm) / den : 0;
+    p = (sm - q * st) / n;
+    const res = ts.map((t, i) => Math.abs(mids[i] - p - q * t));
+    const mad = median(res.filter((_, i) => keep[i]));
+    keep = res.map((r) => r <= Math.max(1, 3 * mad));
+  }
+  const wk = widths.filter((_, i) => keep[i]);
+  const nx = a.ux + q * vx, ny = a.uy + q * vy;
+  const nn = Math.hypot(nx, ny);
+  return { cx: a.cx + p * vx, cy: a.cy + p * vy, ux: nx / nn, uy: ny / nn, width: median(wk.length >= 3 ? wk : widths), length: a.length };
+}
+
+// ---------------------------------------------------------------- along-axis profile
+
+type Profile = { t0: number; n: number; inner: Float32Array; presence: Float32Array; valid: Uint8Array };
+
+function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profile {
+  const n = Math.max(1, Math.floor(tMax - tMin) + 1);
+  const inner = new Float32Array(n * 3), presence = new Float32Array(n), valid = new Uint8Array(n);
+  const vx = -a.uy, vy = a.ux;
+  const w = a.width;
+  const inS = [-0.3, -0.15, 0, 0.15, 0.3].map((k) => k * w);
+  const g1 = 0.5 * w + Math.max(2, 0.35 * w), g2 = 0.5 * w + Math.max(4, 0.7 * w);
+  const outS = [g1, g2];
+  const px = new Float32Array(3);
+  for (let i = 0; i < n; i++) {
+    const t = tMin + i;
+    const bx = a.cx + t * a.ux, by = a.cy + t * a.uy;
+    let r = 0, g = 0, b = 0, ok = true;
+    for (const s of inS) {
+      if (!bilinear(img, bx + s * vx, by + s * vy, px, 0)) {
+        ok = false;
+        break;
+      }
+      (r += px[0]), (g += px[1]), (b += px[2]);
+    }
+    if (!ok) continue;
+    r /= inS.length, g /= inS.length, b /= inS.length;
+    inner[i * 3] = r, (inner[i * 3 + 1] = g), (inner[i * 3 + 2] = b);
+    let best = Infinity, any = false;
+    for (const side of [-1, 1]) {
+      let or = 0, og = 0, ob = 0, m = 0;
+      for (const s of outS) if (bilinear(img, bx + side * s * vx, by + side * s * vy, px, 0)) (or += px[0]), (og += px[1]), (ob += px[2]), m++;
+      if (!m) continue;
+      any = true;
+      const d = Math.hypot(r - or / m, g - og / m, b - ob / m);
+      if (d < best) best = d;
+    }
+    if (!any) continue;
+    presence[i] = best;
+    valid[i] = 1;
+  }
+  // light smoothing of presence
+  const sm = new Float32Array(n);
+  const k = Math.max(1, Math.round(w * 0.08));
+  for (let i = 0; i < n; i++) {
+    let s = 0, c = 0;
+    for (let j = Math.max(0, i - k); j <= Math.min(n - 1, i + k); j++) if (valid[j]) (s += presence[j]), c++;
+    sm[i] = c ? s / c : 0;
+  }
+  return { t0: tMin, n, inner, presence: sm, valid };
+}
+
+// ---------------------------------------------------------------- layout fit
+
+type Layout = { pads: Interval[]; gaps: Interval[] }; // in mm from the tip
+
+function chartLayout(chart: StripChart): Layout {
+  const order = chart.pads.map((p, i) => ({ p, i })).sort((a, b) => a.p.centerMm - b.p.centerMm);
+  const pads: Interval[] = chart.pads.map((p) => [p.centerMm - p.sizeMm / 2, p.centerMm + p.sizeMm / 2]);
+  const gaps: Interval[] = [];
+  let prev = 0;
+  for (const { i } of order) {
+    const [s] = pads[i];
+    if (s - prev >= 0.6) gaps.push([prev, s]);
+    prev = pads[i][1];
+  }
+  gaps.push([prev, Math.min(chart.strip.lengthMm, prev + 4)]);
+  return { pads, gaps };
+}
+
+export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
+  const search = makeSearch(img);
+  const cands = findCandidates(search, chart);
+  if (!cands.length) throw new ReadingError("no_strip", NO_STRIP);
+  const layout = chartLayout(chart);
+  const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
+  let best: StripGeometry | null = null;
+  const tried: Candidate[] = [];
+  for (const c of cands) {
+    if (tried.length >= 3) break;
+    if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
+    tried.push(c);
+    const f = search.f;
+    const axis0: Axis = {
+      cx: (c.cx + 0.5) * f,
+      cy: (c.cy + 0.5) * f,
+      ux: Math.cos(c.angle),
+      uy: Math.sin(c.angle),
+      width: c.width * f,
+      length: c.length * f,
+    };
+    const g = fitStrip(img, chart, layout, padEndMm, axis0);
+    if (g && (!best || g.fitScore > best.fitScore)) best = g;
+    if (best && best.fitScore > 0 && tried.length >= 1 && c.score < cands[0].score * 0.5) break;
+  }
+  if (!best) throw new ReadingError("no_strip", NO_STRIP);
+  return best;
+}
+
+function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis): StripGeometry | null {
+  let axis = refineAxis(img, axis0);
+  axis = refineAxis(img, axis);
+  const warnings: string[] = [];
+  const wpx = axis.width;
+  if (!(wpx > 2)) return null;
+  const scaleW = wpx / chart.strip.widthMm;
+  const lexp = chart.strip.lengthMm * scaleW;
+  const tMin = -(axis.length / 2 + lexp * 1.3), tMax = axis.length / 2 + lexp * 1.3;
+  const prof = alongProfile(img, axis, tMin, tMax);
+  const idx0 = Math.round(-prof.t0); // index of t = 0
+  // Presence over the handle-like middle of the component.
+  const mid: number[] = [];
+  for (let t = Math.round(-axis.length * 0.4); t <= Math.round(axis.length * 0.4); t++) {
+    const i = idx0 + t;
+    if (i >= 0 && i < prof.n && prof.valid[i]) mid.push(prof.presence[i]);
+  }
+  const pHandle = median(mid);
+  if (!(pHandle > 4)) return null;
+  const thr = Math.max(4, 0.45 * pHandle);
+  const maxPad = Math.max(...chart.pads.map((p) => p.sizeMm));
+  const maxGap = maxPad * scaleW * 1.3 + 2;
+  const walk = (dir: 1 | -1) => {
+    let last = 0, falseRun = 0;
+    for (let t = 0; ; t += dir) {
+      const i = idx0 + t;
+      if (i < 0 || i >= prof.n || !prof.valid[i]) break;
+      if (prof.presence[i] > thr) (last = t), (falseRun = 0);
+      else if (++falseRun > maxGap) break;
+    }
+    return last + dir * 0.5;
+  };
+  const eP = walk(1), eM = walk(-1);
+  const lm = eP - eM;
+  let scale = lm / chart.strip.lengthMm;
+  const ratio = scale / scaleW;
+  let kRange = 0.05;
+  let lengthOk = true;
+  if (ratio < 0.85 || ratio > 1.18) {
+    lengthOk = false;
+    scale = scaleW;
+    kRange = 0.12;
+  }
+  // Bare-plastic colour: median of the inner band over the component's middle.
+  const chs: number[][] = [[], [], []];
+  for (let t = Math.round(-axis.length * 0.4); t <= Math.round(axis.length * 0.4); t++) {
+    const i = idx0 + t;
+    if (i >= 0 && i < prof.n && prof.valid[i]) for (let c = 0; c < 3; c++) chs[c].push(prof.inner[i * 3 + c]);
+  }
+  const bare = chs.map(median);
+  // Q: difference from bare plastic, prefix-summed.
+  const Qp = new Float64Array(prof.n + 1);
+  for (let i = 0; i < prof.n; i++) {
+    const q = prof.valid[i] ? Math.hypot(prof.inner[i * 3] - bare[0], prof.inner[i * 3 + 1] - bare[1], prof.inner[i * 3 + 2] - bare[2]) : 0;
+    Qp[i + 1] = Qp[i] + q;
+  }
+  const meanQ = (t0: number, t1: number) => {
+    let a = Math.round(t0 - prof.t0), b = Math.round(t1 - prof.t0);
+    if (b < a) [a, b] = [b, a];
+    a = Math.max(0, a), b = Math.min(prof.n - 1, b);
+    if (b < a) return 0;
+    return (Qp[b + 1] - Qp[a]) / (b - a + 1);
+  };
+  type Fit = { score: number; tip: number; dir: 1 | -1; k: number; off: number };
+  let bestFit: Fit | null = null;
+  const fits: Fit[] = [];
+  for (const tipSide of [1, -1] as const) {
+    const tip = tipSide === 1 ? eP : eM;
+    const dir = (-tipSide) as 1 | -1; // t direction from tip to handle
+    let bf: Fit | null = null;
+    const offMax = 2 * scale;
+    for (let k = 1 - kRange; k <= 1 + kRange + 1e-9; k += 0.01) {
+      const s = scale * k;
+      for (let off = -offMax; off <= offMax; off += 0.5) {
+        const at = (mm: number) => tip + dir * (off + mm * s);
+        let ps = 0;
+        for (const [a, b] of layout.pads) {
+          const m = (a + b) / 2, h = ((b - a) / 2) * 0.7;
+          ps += meanQ(at(m - h), at(m + h));
+        }
+        ps /= layout.pads.length;
+        let gs = 0;
+        for (const [a, b] of layout.gaps) {
+          const m = (a + b) / 2, h = Math.max(0.15, ((b - a) / 2) * 0.6);
+          gs += meanQ(at(m - h), at(m + h));
+        }
+        gs /= layout.gaps.length;
+        const score = ps - gs - Math.abs(off / scale) * 0.5 - Math.abs(k - 1) * 20;
+        if (!bf || score > bf.score) bf = { score, tip, dir, k, off };
+      }
+    }
+    if (bf) fits.push(bf);
+    if (bf && (!bestFit || bf.score > bestFit.score)) bestFit = bf;
+  }
+  if (!bestFit) return null;
+  if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2)
+    warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+  if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
+  const s = scale * bestFit.k;
+  const { dir, tip, off } = bestFit;
+  const vx = -axis.uy, vy = axis.ux;
+  const widthMm = chart.strip.widthMm;
+  const pads: PadPlacement[] = chart.pads.map((p) => {
+    const t = tip + dir * (off + p.centerMm * s);
+    return {
+      t,
+      centre: [axis.cx + t * axis.ux, axis.cy + t * axis.uy],
+      halfAlong: (p.sizeMm / 2) * s,
+      halfAcross: (Math.min(p.sizeMm, widthMm) / 2) * (wpx / widthMm),
+    };
+  });
+  const bareIv: Interval[] = layout.gaps.map(([a, b]) => {
+    const t0 = tip + dir * (off + a * s), t1 = tip + dir * (off + b * s);
+    return t0 < t1 ? [t0, t1] : [t1, t0];
+  });
+  bareIv.sort((x, y) => x[0] - y[0]);
+  const handleT = tip + dir * (off + chart.strip.lengthMm * s);
+  void padEndMm;
+  void vx;
+  void vy;
+  return {
+    centre: [axis.cx, axis.cy],
+    u: [axis.ux, axis.uy],
+    v: [-axis.uy, axis.ux],
+    dir,
+    tipT: tip + dir * off,
+    handleT,
+    widthPx: wpx,
+    pxPerMm: s,
+    pads,
+    bare: bareIv,
+    fitScore: bestFit.score,
+    warnings,
+  };
+}

@@ -1,0 +1,208 @@
+// Photo decoding and robust region sampling.
+import sharp from "sharp";
+import { SRGB8_TO_LINEAR, linearRgbToLab, deltaE2000, type Rgb } from "./colour";
+
+export type ReadingErrorCode = "not_an_image" | "truncated" | "too_small" | "too_large" | "no_strip" | "too_few_pads" | "bad_chart";
+
+export class ReadingError extends Error {
+  code: ReadingErrorCode;
+  constructor(code: ReadingErrorCode, message: string) {
+    super(message);
+    this.name = "ReadingError";
+    this.code = code;
+  }
+}
+
+/** An 8-bit sRGB image, 3 channels interleaved, row-major. */
+export type RgbImage = { width: number; height: number; data: Uint8Array };
+
+/** Photos above this many pixels are refused before decoding (decompression bombs). */
+export const MAX_INPUT_PIXELS = 50_000_000;
+/** The shortest side a photo may have. */
+export const MIN_SIDE = 200;
+/** Long side of the copy the reader works on. */
+export const WORK_LONG_SIDE = 1600;
+
+export function sharpInputOptions() {
+  return { limitInputPixels: MAX_INPUT_PIXELS, failOn: "truncated" as const, sequentialRead: true };
+}
+
+/** The sharp pipeline the reader decodes with (also used by the benchmark as the baseline). */
+export function workingPipeline(photo: Buffer, longSide = WORK_LONG_SIDE) {
+  return sharp(photo, sharpInputOptions())
+    .rotate()
+    .resize({ width: longSide, height: longSide, fit: "inside", withoutEnlargement: true })
+    .removeAlpha()
+    .toColourspace("srgb")
+    .raw();
+}
+
+function explain(err: unknown): ReadingError {
+  const msg = String((err as Error)?.message ?? err);
+  if (/pixel limit|exceeds.*limit/i.test(msg))
+    return new ReadingError("too_large", `This image is too large to read (more than ${MAX_INPUT_PIXELS / 1e6} megapixels). Please send a smaller photo.`);
+  if (/premature|truncat|end of (file|data|stream)|corrupt|incomplete|short read|not enough|unexpected end/i.test(msg))
+    return new ReadingError("truncated", "This photo file is incomplete or damaged (it may have been cut off while uploading). Please send it again.");
+  if (/unsupported image format|input buffer|bad seek|not a known file format|does not contain|empty/i.test(msg))
+    return new ReadingError("not_an_image", "This file is not a photo the reader understands. Please send a JPEG, PNG, WebP or HEIC picture.");
+  return new ReadingError("not_an_image", "This photo could not be opened; the file seems to be damaged or not an image.");
+}
+
+export type DecodedPhoto = { image: RgbImage; original: { width: number; height: number } };
+
+export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Promise<DecodedPhoto> {
+  if (!Buffer.isBuffer(photo) && !((photo as unknown) instanceof Uint8Array))
+    throw new ReadingError("not_an_image", "No photo was given.");
+  if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
+  let meta: sharp.Metadata;
+  try {
+    meta = await sharp(photo, sharpInputOptions()).metadata();
+  } catch (e) {
+    throw explain(e);
+  }
+  const w0 = meta.width ?? 0, h0 = meta.height ?? 0;
+  if (w0 * h0 > MAX_INPUT_PIXELS)
+    throw new ReadingError(
+      "too_large",
+      `This image is too large to read (${w0} × ${h0} pixels, more than ${MAX_INPUT_PIXELS / 1e6} megapixels). Please send a smaller photo.`,
+    );
+  if (Math.min(w0, h0) < MIN_SIDE)
+    throw new ReadingError("too_small", `This image is too small (${w0} × ${h0} pixels) to show a test strip. Please send a photo at least ${MIN_SIDE} pixels on each side.`);
+  const swap = (meta.orientation ?? 1) >= 5;
+  let out: { data: Buffer; info: sharp.OutputInfo };
+  try {
+    out = await workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
+  } catch (e) {
+    throw explain(e);
+  }
+  if (out.info.channels !== 3) throw new ReadingError("not_an_image", "This photo has an unusual colour format the reader cannot use.");
+  return {
+    image: { width: out.info.width, height: out.info.height, data: new Uint8Array(out.data.buffer, out.data.byteOffset, out.data.length) },
+    original: swap ? { width: h0, height: w0 } : { width: w0, height: h0 },
+  };
+}
+
+export type RegionSample = {
+  /** Robust linear-light sRGB of the region (trimmed mean of the kept pixels). */
+  linear: Rgb;
+  /** Linear RGB at the 25th and 75th percentiles per channel (for spread). */
+  q25: Rgb;
+  q75: Rgb;
+  /** ΔE00 between the quartile colours, halved: a robust spread of the region. */
+  spreadDeltaE: number;
+  pixels: number;
+  kept: number;
+  glareFraction: number;
+  clippedFraction: number;
+};
+
+function quantile(a: Float32Array, q: number): number {
+  if (a.length === 0) return NaN;
+  const p = q * (a.length - 1);
+  const i = Math.floor(p), f = p - i;
+  return i + 1 < a.length ? a[i] * (1 - f) + a[i + 1] * f : a[i];
+}
+function trimmedMean(sorted: Float32Array, trim: number): number {
+  const n = sorted.length;
+  const k = Math.floor(n * trim);
+  let s = 0, c = 0;
+  for (let i = k; i < n - k; i++) (s += sorted[i]), c++;
+  return c ? s / c : quantile(sorted, 0.5);
+}
+
+/**
+ * Samples a convex quadrilateral of an 8-bit sRGB image robustly, in linear light.
+ * Clipped pixels (a channel at 252 or more) and glare (much brighter than the region's
+ * median and less saturated) are dropped, then a 25 % trimmed mean is taken per channel.
+ * corners: four [x, y] points in order around the quad (pixel centres at integer + 0.5).
+ */
+export function sampleQuad(img: RgbImage, corners: [number, number][]): RegionSample | null {
+  const { width: W, height: H, data } = img;
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  for (const [x, y] of corners) (x0 = Math.min(x0, x)), (x1 = Math.max(x1, x)), (y0 = Math.min(y0, y)), (y1 = Math.max(y1, y));
+  const ix0 = Math.max(0, Math.floor(x0)), ix1 = Math.min(W - 1, Math.ceil(x1));
+  const iy0 = Math.max(0, Math.floor(y0)), iy1 = Math.min(H - 1, Math.ceil(y1));
+  if (ix1 < ix0 || iy1 < iy0) return null;
+  // orientation sign of the quad
+  let area = 0;
+  for (let i = 0; i < 4; i++) {
+    const [ax, ay] = corners[i], [bx, by] = corners[(i + 1) % 4];
+    area += ax * by - bx * ay;
+  }
+  const sgn = area >= 0 ? 1 : -1;
+  const cap = (ix1 - ix0 + 1) * (iy1 - iy0 + 1);
+  const idx = new Int32Array(cap);
+  let n = 0;
+  for (let y = iy0; y <= iy1; y++) {
+    const py = y + 0.5;
+    for (let x = ix0; x <= ix1; x++) {
+      const px = x + 0.5;
+      let inside = true;
+      for (let i = 0; i < 4 && inside; i++) {
+        const [ax, ay] = corners[i], [bx, by] = corners[(i + 1) % 4];
+        if (sgn * ((bx - ax) * (py - ay) - (by - ay) * (px - ax)) < 0) inside = false;
+      }
+      if (inside) idx[n++] = (y * W + x) * 3;
+    }
+  }
+  if (n === 0) return null;
+  // first pass: clipping, luminance and chroma
+  const Y = new Float32Array(n), C = new Float32Array(n);
+  const clipped = new Uint8Array(n);
+  let nClip = 0;
+  for (let k = 0; k < n; k++) {
+    const o = idx[k];
+    const r = data[o], g = data[o + 1], b = data[o + 2];
+    if (r >= 252 || g >= 252 || b >= 252) (clipped[k] = 1), nClip++;
+    const lr = SRGB8_TO_LINEAR[r], lg = SRGB8_TO_LINEAR[g], lb = SRGB8_TO_LINEAR[b];
+    Y[k] = 0.2126 * lr + 0.7152 * lg + 0.0722 * lb;
+    const mx = Math.max(r, g, b), mn = Math.min(r, g, b);
+    C[k] = (mx - mn) / (mx + 1);
+  }
+  const ys = Float32Array.from(Y).sort(), cs = Float32Array.from(C).sort();
+  const medY = quantile(ys, 0.5), medC = quantile(cs, 0.5);
+  const keep = new Uint8Array(n);
+  let nGlare = 0, nKeep = 0;
+  for (let k = 0; k < n; k++) {
+    const glare = Y[k] > medY * 1.5 || (Y[k] > medY * 1.15 && C[k] < medC * 0.8);
+    if (glare) nGlare++;
+    if (!glare && !clipped[k]) (keep[k] = 1), nKeep++;
+  }
+  if (nKeep < Math.max(4, n * 0.15)) {
+    // Too little left: fall back to everything but the glare.
+    nKeep = 0;
+    for (let k = 0; k < n; k++) {
+      const glare = Y[k] > medY * 1.5;
+      keep[k] = glare ? 0 : 1;
+      if (keep[k]) nKeep++;
+    }
+    if (nKeep === 0) keep.fill(1), (nKeep = n);
+  }
+  const ch = [new Float32Array(nKeep), new Float32Array(nKeep), new Float32Array(nKeep)];
+  let m = 0;
+  for (let k = 0; k < n; k++) {
+    if (!keep[k]) continue;
+    const o = idx[k];
+    ch[0][m] = SRGB8_TO_LINEAR[data[o]];
+    ch[1][m] = SRGB8_TO_LINEAR[data[o + 1]];
+    ch[2][m] = SRGB8_TO_LINEAR[data[o + 2]];
+    m++;
+  }
+  for (const c of ch) c.sort();
+  const linear: Rgb = [trimmedMean(ch[0], 0.25), trimmedMean(ch[1], 0.25), trimmedMean(ch[2], 0.25)];
+  const q25: Rgb = [quantile(ch[0], 0.25), quantile(ch[1], 0.25), quantile(ch[2], 0.25)];
+  const q75: Rgb = [quantile(ch[0], 0.75), quantile(ch[1], 0.75), quantile(ch[2], 0.75)];
+  const spreadDeltaE = deltaE2000(linearRgbToLab(...q25), linearRgbToLab(...q75)) / 2;
+  return { linear, q25, q75, spreadDeltaE, pixels: n, kept: nKeep, glareFraction: nGlare / n, clippedFraction: nClip / n };
+}
+
+/** Axis-aligned square crop around a point, as a small WebP. */
+export async function cropPad(img: RgbImage, cx: number, cy: number, half: number, size = 96): Promise<Buffer> {
+  const left = Math.max(0, Math.round(cx - half)), top = Math.max(0, Math.round(cy - half));
+  const w = Math.max(1, Math.min(img.width - left, Math.round(2 * half))), h = Math.max(1, Math.min(img.height - top, Math.round(2 * half)));
+  return sharp(Buffer.from(img.data.buffer, img.data.byteOffset, img.data.length), { raw: { width: img.width, height: img.height, channels: 3 } })
+    .extract({ left, top, width: w, height: h })
+    .resize(size, size, { fit: "fill" })
+    .webp({ quality: 80 })
+    .toBuffer();
+}

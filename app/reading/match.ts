@@ -1,0 +1,68 @@
+// Matching a measured pad colour to a pad's printed swatches.
+//
+// The swatches of a pad form a colour path in CIELAB (D65). The measured colour is
+// compared with every segment of that path: the point of the segment with the least
+// CIEDE2000 difference is found, and the segment with the least difference wins. Its
+// fractional position gives the value, linearly between the two swatch values.
+import type { ChartPad } from "./chart";
+import { deltaE2000, lerpLab, type Lab } from "./colour";
+
+export type SwatchMatch = {
+  /** Fractional position on the swatch scale (0 = first swatch). */
+  swatchIndex: number;
+  value: number;
+  /** CIEDE2000 from the measured colour to the nearest point of the colour path. */
+  deltaE: number;
+  /** Half the CIEDE2000 between the two swatches of the chosen segment. */
+  halfStep: number;
+  /** Least ΔE00 reached on a segment that is not next to the chosen one (Infinity if none). */
+  rivalDeltaE: number;
+  rivalIndex: number;
+};
+
+function bestOnSegment(x: Lab, p: Lab, q: Lab): { t: number; d: number } {
+  // Coarse scan then golden-section refinement of ΔE00 along the segment.
+  const N = 16;
+  let bt = 0, bd = Infinity;
+  for (let k = 0; k <= N; k++) {
+    const t = k / N;
+    const d = deltaE2000(x, lerpLab(p, q, t));
+    if (d < bd) (bd = d), (bt = t);
+  }
+  let lo = Math.max(0, bt - 1 / N), hi = Math.min(1, bt + 1 / N);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let c = hi - g * (hi - lo), dd = lo + g * (hi - lo);
+  let fc = deltaE2000(x, lerpLab(p, q, c)), fd = deltaE2000(x, lerpLab(p, q, dd));
+  for (let it = 0; it < 30; it++) {
+    if (fc < fd) (hi = dd), (dd = c), (fd = fc), (c = hi - g * (hi - lo)), (fc = deltaE2000(x, lerpLab(p, q, c)));
+    else (lo = c), (c = dd), (fc = fd), (dd = lo + g * (hi - lo)), (fd = deltaE2000(x, lerpLab(p, q, dd)));
+  }
+  const t = (lo + hi) / 2;
+  const d = deltaE2000(x, lerpLab(p, q, t));
+  return d <= bd ? { t, d } : { t: bt, d: bd };
+}
+
+export function matchSwatches(pad: ChartPad, x: Lab): SwatchMatch {
+  const s = pad.swatches;
+  const segs: { i: number; t: number; d: number }[] = [];
+  for (let i = 0; i < s.length - 1; i++) segs.push({ i, ...bestOnSegment(x, s[i].lab, s[i + 1].lab) });
+  let best = segs[0];
+  for (const g of segs) if (g.d < best.d - 1e-12) best = g;
+  const idx = best.i + best.t;
+  const value = s[best.i].value + best.t * (s[best.i + 1].value - s[best.i].value);
+  const halfStep = Math.max(0.5, deltaE2000(s[best.i].lab, s[best.i + 1].lab) / 2);
+  let rivalDeltaE = Infinity, rivalIndex = -1;
+  for (const g of segs) {
+    const gi = g.i + g.t;
+    if (Math.abs(gi - idx) > 1.5 && g.d < rivalDeltaE) (rivalDeltaE = g.d), (rivalIndex = gi);
+  }
+  return { swatchIndex: idx, value, deltaE: best.d, halfStep, rivalDeltaE, rivalIndex };
+}
+
+/** Value at a fractional swatch position (piecewise linear between swatch values). */
+export function valueAtIndex(pad: ChartPad, index: number): number {
+  const s = pad.swatches;
+  const i = Math.max(0, Math.min(s.length - 2, Math.floor(index)));
+  const t = Math.max(0, Math.min(1, index - i));
+  return s[i].value + t * (s[i + 1].value - s[i].value);
+}
