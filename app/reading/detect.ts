@@ -12,6 +12,7 @@
 //    strip's two ends; a profile of "difference from bare plastic" is matched to the chart's
 //    pad layout over offset and scale, for both orientations; the better fit tells the tip.
 import type { StripChart } from "./chart";
+import { SRGB8_TO_LINEAR } from "./colour";
 import { ReadingError, type RgbImage } from "./image";
 
 export type Interval = [number, number];
@@ -48,20 +49,26 @@ const NO_STRIP =
 
 type Search = { w: number; h: number; f: number; wh: Float32Array };
 
+/**
+ * Reduced copy with a per-pixel whiteness in linear light: luminance times (1 − 0.6 ×
+ * saturation). Both factors scale with the light, so a ratio against the local
+ * background is unchanged by shadows and light falloff.
+ */
 function makeSearch(img: RgbImage, target = 500): Search {
   const f = Math.max(1, Math.round(Math.max(img.width, img.height) / target));
   const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
   const acc = new Float32Array(w * 3);
   const wh = new Float32Array(w * h);
   const data = img.data, W = img.width;
-  const inv = 1 / (f * f * 255);
+  const inv = 1 / (f * f);
+  const lut = SRGB8_TO_LINEAR;
   for (let sy = 0; sy < h; sy++) {
     acc.fill(0);
     for (let dy = 0; dy < f; dy++) {
       let o = ((sy * f + dy) * W) * 3;
       for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
         let r = 0, g = 0, b = 0;
-        for (let dx = 0; dx < f; dx++, o += 3) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
+        for (let dx = 0; dx < f; dx++, o += 3) (r += lut[data[o]]), (g += lut[data[o + 1]]), (b += lut[data[o + 2]]);
         acc[k] += r;
         acc[k + 1] += g;
         acc[k + 2] += b;
@@ -71,7 +78,8 @@ function makeSearch(img: RgbImage, target = 500): Search {
       const r = acc[k] * inv, g = acc[k + 1] * inv, b = acc[k + 2] * inv;
       const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
       const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
-      wh[sy * w + sx] = 0.2126 * r + 0.7152 * g + 0.0722 * b - 0.6 * (mx - mn);
+      const sat = mx > 1e-4 ? (mx - mn) / mx : 0;
+      wh[sy * w + sx] = (0.2126 * r + 0.7152 * g + 0.0722 * b) * (1 - 0.6 * sat) + 0.002;
     }
   }
   return { w, h, f, wh };
@@ -161,22 +169,23 @@ function scoreCandidate(c: Candidate, chart: StripChart): number {
 
 function findCandidates(s: Search, chart: StripChart): Candidate[] {
   const { w, h, wh } = s;
-  const r = Math.max(8, Math.round(Math.max(w, h) / 10));
+  const r = Math.max(6, Math.round(Math.max(w, h) / 16));
   const bg = boxMean(wh, w, h, r);
   const d = new Float32Array(w * h);
-  for (let i = 0; i < d.length; i++) d[i] = wh[i] - bg[i];
-  // Percentiles of the difference from a subsample.
+  for (let i = 0; i < d.length; i++) d[i] = Math.log(wh[i] / bg[i]);
+  // Percentiles of the log ratio from a subsample.
   const step = Math.max(1, Math.floor(d.length / 60000));
   const sub = new Float32Array(Math.ceil(d.length / step));
   for (let i = 0, k = 0; i < d.length; i += step, k++) sub[k] = d[i];
   sub.sort();
   const q = (p: number) => sub[Math.min(sub.length - 1, Math.max(0, Math.floor(p * (sub.length - 1))))];
   const top = q(0.999);
-  const noise = 1.4826 * (q(0.75) - q(0.25)) / 1.349;
+  const noise = (q(0.75) - q(0.25)) / 1.349;
   const mask = new Uint8Array(w * h);
   const minArea = Math.max(12, Math.round((w * h) / 20000));
   const cands: Candidate[] = [];
-  const thresholds = [0.3, 0.45, 0.6, 0.75].map((k) => top * k).filter((t) => t > 3 * noise && t > 0.01);
+  const ladder = [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6];
+  const thresholds = [...ladder, ...[0.35, 0.55].map((k) => top * k)].filter((t) => t > 3 * noise && t > 0.025 && t < top);
   for (const t of thresholds) {
     for (let i = 0; i < d.length; i++) mask[i] = d[i] > t ? 1 : 0;
     for (const c of components(mask, w, h, minArea)) {
@@ -401,26 +410,31 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   }
   const pHandle = median(mid);
   if (!(pHandle > 4)) return null;
-  const thr = Math.max(4, 0.45 * pHandle);
+  const thr = Math.max(6, Math.min(0.4 * pHandle, 30));
   const maxPad = Math.max(...chart.pads.map((p) => p.sizeMm));
   const maxGap = maxPad * scaleW * 1.3 + 2;
   const walk = (dir: 1 | -1) => {
-    let last = 0, falseRun = 0;
+    let last = 0, falseRun = 0, truncated = false;
     for (let t = 0; ; t += dir) {
       const i = idx0 + t;
-      if (i < 0 || i >= prof.n || !prof.valid[i]) break;
+      if (i < 0 || i >= prof.n || !prof.valid[i]) {
+        truncated = true;
+        break;
+      }
       if (prof.presence[i] > thr) (last = t), (falseRun = 0);
       else if (++falseRun > maxGap) break;
     }
-    return last + dir * 0.5;
+    return { end: last + dir * 0.5, truncated };
   };
-  const eP = walk(1), eM = walk(-1);
+  const wP = walk(1), wM = walk(-1);
+  if (process.env.DIPWELL_DEBUG) console.error("walk", wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
+  const eP = wP.end, eM = wM.end;
   const lm = eP - eM;
   let scale = lm / chart.strip.lengthMm;
   const ratio = scale / scaleW;
   let kRange = 0.05;
   let lengthOk = true;
-  if (ratio < 0.85 || ratio > 1.18) {
+  if (wP.truncated || wM.truncated || ratio < 0.85 || ratio > 1.18) {
     lengthOk = false;
     scale = scaleW;
     kRange = 0.12;
@@ -449,10 +463,14 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   let bestFit: Fit | null = null;
   const fits: Fit[] = [];
   for (const tipSide of [1, -1] as const) {
-    const tip = tipSide === 1 ? eP : eM;
     const dir = (-tipSide) as 1 | -1; // t direction from tip to handle
+    const tipEnd = tipSide === 1 ? wP : wM, handleEnd = tipSide === 1 ? wM : wP;
+    const anchors: number[] = [];
+    if (!tipEnd.truncated || handleEnd.truncated) anchors.push(tipEnd.end);
+    if (!lengthOk && !handleEnd.truncated) anchors.push(handleEnd.end - dir * chart.strip.lengthMm * scale);
     let bf: Fit | null = null;
-    const offMax = 2 * scale;
+    const offMax = (lengthOk ? 2 : 3) * scale;
+    for (const tip of anchors)
     for (let k = 1 - kRange; k <= 1 + kRange + 1e-9; k += 0.01) {
       const s = scale * k;
       for (let off = -offMax; off <= offMax; off += 0.5) {

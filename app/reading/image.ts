@@ -116,7 +116,15 @@ function trimmedMean(sorted: Float32Array, trim: number): number {
  * median and less saturated) are dropped, then a 25 % trimmed mean is taken per channel.
  * corners: four [x, y] points in order around the quad (pixel centres at integer + 0.5).
  */
-export function sampleQuad(img: RgbImage, corners: [number, number][]): RegionSample | null {
+export type SampleOptions = {
+  /**
+   * Keep clipped pixels and take the per-channel median: for a white reference, whose
+   * brightest pixels clip first, the median stays right while fewer than half are clipped.
+   */
+  whiteReference?: boolean;
+};
+
+export function sampleQuad(img: RgbImage, corners: [number, number][], opts: SampleOptions = {}): RegionSample | null {
   const { width: W, height: H, data } = img;
   let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
   for (const [x, y] of corners) (x0 = Math.min(x0, x)), (x1 = Math.max(x1, x)), (y0 = Math.min(y0, y)), (y1 = Math.max(y1, y));
@@ -166,7 +174,7 @@ export function sampleQuad(img: RgbImage, corners: [number, number][]): RegionSa
   for (let k = 0; k < n; k++) {
     const glare = Y[k] > medY * 1.5 || (Y[k] > medY * 1.15 && C[k] < medC * 0.8);
     if (glare) nGlare++;
-    if (!glare && !clipped[k]) (keep[k] = 1), nKeep++;
+    if (!glare && (opts.whiteReference || !clipped[k])) (keep[k] = 1), nKeep++;
   }
   if (nKeep < Math.max(4, n * 0.15)) {
     // Too little left: fall back to everything but the glare.
@@ -189,7 +197,9 @@ export function sampleQuad(img: RgbImage, corners: [number, number][]): RegionSa
     m++;
   }
   for (const c of ch) c.sort();
-  const linear: Rgb = [trimmedMean(ch[0], 0.25), trimmedMean(ch[1], 0.25), trimmedMean(ch[2], 0.25)];
+  const linear: Rgb = opts.whiteReference
+    ? [quantile(ch[0], 0.5), quantile(ch[1], 0.5), quantile(ch[2], 0.5)]
+    : [trimmedMean(ch[0], 0.25), trimmedMean(ch[1], 0.25), trimmedMean(ch[2], 0.25)];
   const q25: Rgb = [quantile(ch[0], 0.25), quantile(ch[1], 0.25), quantile(ch[2], 0.25)];
   const q75: Rgb = [quantile(ch[0], 0.75), quantile(ch[1], 0.75), quantile(ch[2], 0.75)];
   const spreadDeltaE = deltaE2000(linearRgbToLab(...q25), linearRgbToLab(...q75)) / 2;

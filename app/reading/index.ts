@@ -8,7 +8,7 @@
 // -> CIELAB D65 -> CIEDE2000 match along the pad's swatch path (match.ts).
 import type { StripChart } from "./chart";
 import { ChartError, parseChart } from "./chart";
-import { correctLinear, deltaE2000, hexToRgb, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, type Lab, type Rgb } from "./colour";
+import { correctLinear, deltaE2000, hexToRgb, linearRgbToLab, linearToSrgb, srgbToLinear, whiteCorrectionMatrix, type Lab, type Rgb } from "./colour";
 import { locateStrip, type StripGeometry } from "./detect";
 import { ReadingError, cropPad, decodePhoto, sampleQuad, type RegionSample, type RgbImage } from "./image";
 import { matchSwatches } from "./match";
@@ -50,7 +50,11 @@ export type StripReading = {
   warnings: string[];
 };
 
-export type ReadOptions = { crops?: boolean };
+export type ReadOptions = {
+  crops?: boolean;
+  /** Refuse a strip whose pads look like bare plastic where the chart puts pads (default true). */
+  checkPads?: boolean;
+};
 
 /**
  * White-reference light correction: measured bare plastic (linear RGB) -> the chart's
@@ -82,10 +86,16 @@ function bareSamples(img: RgbImage, g: StripGeometry): { t: number; s: RegionSam
       if (b - a < 3) continue;
     }
     const lo = b2 - a2 < 1.5 ? a + (b - a) * 0.3 : a2, hi = b2 - a2 < 1.5 ? b - (b - a) * 0.3 : b2;
-    const s = sampleQuad(img, quadAt(g, (lo + hi) / 2, (hi - lo) / 2, halfAcross));
+    const s = sampleQuad(img, quadAt(g, (lo + hi) / 2, (hi - lo) / 2, halfAcross), { whiteReference: true });
     if (s && s.kept >= 4) out.push({ t: (lo + hi) / 2, s });
   }
   return out;
+}
+
+function median(a: number[]): number {
+  const s = [...a].sort((x, y) => x - y);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 function lumY(c: readonly number[]) {
@@ -107,6 +117,17 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   if (!bare.length) throw new ReadingError("no_strip", "The strip was found, but no bare plastic could be seen next to its pads to judge the light. Take the photo again with the whole strip in view.");
   const stripLin = hexToRgb(chart.strip.color).map(srgbToLinear);
   const stripLab = chart.strip.lab;
+  // Drop bare-plastic samples whose chromaticity is far from the others (pad bleed, the strip's end).
+  const chrom = (c: readonly number[]) => {
+    const sum = c[0] + c[1] + c[2] + 1e-9;
+    return [c[0] / sum, c[1] / sum];
+  };
+  const medR = median(bare.map((b) => chrom(b.s.linear)[0])), medG = median(bare.map((b) => chrom(b.s.linear)[1]));
+  const consistent = bare.filter((b) => {
+    const [r, gg] = chrom(b.s.linear);
+    return Math.hypot(r - medR, gg - medG) < 0.02;
+  });
+  if (consistent.length) bare.splice(0, bare.length, ...consistent);
   const bareY = bare.map((b) => lumY(b.s.linear));
   const maxBareY = Math.max(...bareY);
   if (bare.some((b) => b.s.clippedFraction > 0.5)) warnings.push("The photo is overexposed on the strip; colours may read too pale.");
@@ -131,6 +152,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
       const w0 = d1 / (d0 + d1), w1 = d0 / (d0 + d1);
       white = [0, 1, 2].map((c) => use[0].s.linear[c] * w0 + use[1].s.linear[c] * w1) as Rgb;
     } else white = use[0].s.linear;
+    if (process.env.DIPWELL_DEBUG) console.error(cp.analyte, 'white', white.map((v) => Math.round(linearToSrgb(v) * 255)), 'pad', sample.linear.map((v) => Math.round(linearToSrgb(v) * 255)), use.map((u) => u.s.clippedFraction.toFixed(2)));
     const m = whiteCorrectionMatrix(white, stripLin);
     const corr = correctLinear(m, sample.linear);
     const lab = linearRgbToLab(corr[0], corr[1], corr[2]);
@@ -181,7 +203,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
     if (options.crops) reading.crop = await cropPad(img, pl.centre[0], pl.centre[1], Math.max(pl.halfAlong, pl.halfAcross) * 1.4);
     pads.push(reading);
   }
-  if (missing.length && missing.length >= Math.max(1, Math.ceil(chart.pads.length / 4))) {
+  if (options.checkPads !== false && missing.length && missing.length >= Math.max(1, Math.ceil(chart.pads.length / 4))) {
     const found = chart.pads.length - missing.length;
     throw new ReadingError(
       "too_few_pads",
