@@ -301,7 +301,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
   return finish();
 }
 
-const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+const cap = (s: string) => (s.startsWith("pH") ? s : s.charAt(0).toUpperCase() + s.slice(1));
 
 function waitForLog(ctx: Ctx, log: LoggedTreatment[], now: Date, timeZone: string): boolean {
   let latest: { until: number; entry: LoggedTreatment; product: Product | null } | null = null;

@@ -42,12 +42,13 @@ export const usGallonsFromLitres = (litres: number): number => litres / LITRES_P
 
 /**
  * Drain-and-refill interval in whole days (rounded down, at least 1):
- * days = (V in US gal ÷ 3) ÷ bathers per day — Maine 10-144 CMR ch. 202 App. B "Water
+ * days = (V in US gal ÷ 3) ÷ bathers per day, capped at 365 — Maine 10-144 CMR ch. 202 App. B "Water
  * Replacement Interval" [P]; the same formula is in Montana ARM 37.115 [P].
  */
 export function drainIntervalDays(volumeLitres: number, bathersPerDay: number): number {
   if (!(Number.isFinite(volumeLitres) && volumeLitres > 0)) throw new RangeError("The volume must be a positive number of litres.");
   if (!(Number.isFinite(bathersPerDay) && bathersPerDay > 0)) throw new RangeError("Bathers per day must be a positive number.");
   const days = usGallonsFromLitres(volumeLitres) / 3 / bathersPerDay;
-  return Math.max(1, Math.floor(days));
+  // Very light use gives very long intervals; cap at a year (common practice: drain at least yearly).
+  return Math.min(365, Math.max(1, Math.floor(days)));
 }
