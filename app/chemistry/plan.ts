@@ -210,7 +210,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
     judge("cyanuric_acid", cya, targets.cyanuric_acid),
   ];
   for (const j of judgements)
-    if (j.status === "not_measured") notes.push(`${cap(PARAMETER_WORDS[j.parameter])} was not measured, so the plan could not judge it.`);
+    if (j.status === "not_measured" && !(j.parameter === "cyanuric_acid" && input.sanitiser === "bromine")) notes.push(`${cap(PARAMETER_WORDS[j.parameter])} was not measured, so the plan could not judge it.`);
   const known = new Set(["free_chlorine", "total_chlorine", "bromine", "ph", "total_alkalinity", "total_hardness", "calcium_hardness", "cyanuric_acid", "borate"]);
   for (const k of Object.keys(rd)) if (!known.has(k)) notes.push(`The reading "${k}" is not one the plan uses; it was ignored.`);
 

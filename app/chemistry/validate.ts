@@ -101,7 +101,7 @@ function describeIssue(issue: z.core.$ZodIssue): string {
   const who = label(issue.path);
   switch (issue.code) {
     case "invalid_type":
-      if ((issue as { input?: unknown }).input === undefined) return `${who} is missing.`;
+      if (/received undefined/.test(issue.message)) return `${who} is missing.`;
       return `${who} must be ${issue.expected === "number" ? "a number" : issue.expected === "string" ? "text" : issue.expected === "array" ? "a list" : issue.expected === "object" ? "an object" : issue.expected}.`;
     case "invalid_value":
       return `${who} must be one of: ${issue.values.map(String).join(", ")}.`;
