@@ -169,28 +169,29 @@ function scoreCandidate(c: Candidate, chart: StripChart): number {
 
 function findCandidates(s: Search, chart: StripChart): Candidate[] {
   const { w, h, wh } = s;
-  const r = Math.max(6, Math.round(Math.max(w, h) / 16));
-  const bg = boxMean(wh, w, h, r);
-  const d = new Float32Array(w * h);
-  for (let i = 0; i < d.length; i++) d[i] = Math.log(wh[i] / bg[i]);
-  // Percentiles of the log ratio from a subsample.
-  const step = Math.max(1, Math.floor(d.length / 60000));
-  const sub = new Float32Array(Math.ceil(d.length / step));
-  for (let i = 0, k = 0; i < d.length; i += step, k++) sub[k] = d[i];
-  sub.sort();
-  const q = (p: number) => sub[Math.min(sub.length - 1, Math.max(0, Math.floor(p * (sub.length - 1))))];
-  const top = q(0.999);
-  const noise = (q(0.75) - q(0.25)) / 1.349;
+  const cands: Candidate[] = [];
   const mask = new Uint8Array(w * h);
   const minArea = Math.max(12, Math.round((w * h) / 20000));
-  const cands: Candidate[] = [];
-  const ladder = [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6];
-  const thresholds = [...ladder, ...[0.35, 0.55].map((k) => top * k)].filter((t) => t > 3 * noise && t > 0.025 && t < top);
-  for (const t of thresholds) {
-    for (let i = 0; i < d.length; i++) mask[i] = d[i] > t ? 1 : 0;
-    for (const c of components(mask, w, h, minArea)) {
-      c.score = scoreCandidate(c, chart);
-      if (c.score > 0) cands.push(c);
+  const d = new Float32Array(w * h);
+  // Two background scales: a wide one, and a narrow one that keeps shadow edges from
+  // reaching far beyond them.
+  for (const div of [16, 40]) {
+    const r = Math.max(5, Math.round(Math.max(w, h) / div));
+    const bg = boxMean(wh, w, h, r);
+    for (let i = 0; i < d.length; i++) d[i] = Math.log(wh[i] / bg[i]);
+    const step = Math.max(1, Math.floor(d.length / 60000));
+    const sub = new Float32Array(Math.ceil(d.length / step));
+    for (let i = 0, k = 0; i < d.length; i += step, k++) sub[k] = d[i];
+    sub.sort();
+    const top = sub[Math.floor(0.999 * (sub.length - 1))];
+    const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
+    const thresholds = [...ladder, ...[0.35, 0.55, 0.75].map((k) => top * k)].filter((t) => t > 0.02 && t < top);
+    for (const t of thresholds) {
+      for (let i = 0; i < d.length; i++) mask[i] = d[i] > t ? 1 : 0;
+      for (const c of components(mask, w, h, minArea)) {
+        c.score = scoreCandidate(c, chart);
+        if (c.score > 0) cands.push(c);
+      }
     }
   }
   cands.sort((a, b) => b.score - a.score);
@@ -371,7 +372,7 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
   let best: StripGeometry | null = null;
   const tried: Candidate[] = [];
   for (const c of cands) {
-    if (tried.length >= 3) break;
+    if (tried.length >= 6) break;
     if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
     tried.push(c);
     const f = search.f;
@@ -385,7 +386,6 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
     };
     const g = fitStrip(img, chart, layout, padEndMm, axis0);
     if (g && (!best || g.fitScore > best.fitScore)) best = g;
-    if (best && best.fitScore > 0 && tried.length >= 1 && c.score < cands[0].score * 0.5) break;
   }
   if (!best) throw new ReadingError("no_strip", NO_STRIP);
   return best;
