@@ -7,8 +7,6 @@ import pg from "pg";
 export async function migrateDatabase(databaseUrl: string, projectRoot = process.cwd()) {
   const pool = new pg.Pool({ connectionString: databaseUrl, max: 1 });
   try {
-    // Drizzle's own notices ("schema drizzle already exists") are not news.
-    pool.on("connect", (client) => void client.query("set client_min_messages to warning"));
     await migrate(drizzle({ client: pool }), { migrationsFolder: path.join(projectRoot, "drizzle") });
   } finally {
     await pool.end();

@@ -1,6 +1,6 @@
 // Seeds the demo scenario. Idempotent: running it again changes nothing that
 // is already there, so `npm start` can call it on every start.
-import { readdirSync, readFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import { hashPassword } from "better-auth/crypto";
 import { and, eq } from "drizzle-orm";
@@ -22,6 +22,7 @@ function prng(seed: number) {
 
 export function loadCalibrationCharts(dir = path.join(process.cwd(), "calibration")) {
   const charts = new Map<string, StripChart>();
+  if (!existsSync(dir)) return charts;
   for (const file of readdirSync(dir).filter((f) => f.endsWith(".json")).sort()) {
     charts.set(file, parseChart(JSON.parse(readFileSync(path.join(dir, file), "utf8"))));
   }

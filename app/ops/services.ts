@@ -2,8 +2,8 @@
 // PostgreSQL cluster, s3rver (the S3 API) and a mail catcher, all bound to
 // 127.0.0.1. Used by `npm start` (start.ts) and `npm test` (test.ts).
 import { type ChildProcess, execFileSync, spawn, spawnSync } from "node:child_process";
-import { createHash } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, writeFileSync } from "node:fs";
+import { createHash, randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import net from "node:net";
 import path from "node:path";
 import pg from "pg";
@@ -195,9 +195,20 @@ export async function startMailCatcher(opts: { projectRoot: string; dataDir: str
   await waitForPort(opts.webPort, "the mail catcher web API");
 }
 
+/** A random signing secret for this machine's local data, made once and kept beside it. */
+function localSecret(dataDir: string) {
+  const file = path.join(dataDir, "auth-secret");
+  if (!existsSync(file)) {
+    mkdirSync(dataDir, { recursive: true });
+    writeFileSync(file, randomBytes(32).toString("hex"), { mode: 0o600 });
+  }
+  return readFileSync(file, "utf8").trim();
+}
+
 /** Environment for the app, the worker and the tests, pointing at the local services. */
-export function serviceEnv(p: { databaseUrl: string; s3Port: number; smtpPort: number; mailWebPort: number; publicUrl: string }) {
+export function serviceEnv(p: { databaseUrl: string; s3Port: number; smtpPort: number; mailWebPort: number; publicUrl: string; dataDir: string }) {
   return {
+    BETTER_AUTH_SECRET: localSecret(p.dataDir),
     DATABASE_URL: p.databaseUrl,
     S3_ENDPOINT: `http://127.0.0.1:${p.s3Port}`,
     S3_BUCKET: "dipwell-photos",

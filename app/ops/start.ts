@@ -41,7 +41,7 @@ async function main() {
   await startMailCatcher({ projectRoot: root, dataDir: path.join(root, ".dev", "mail"), smtpPort: P.smtp, webPort: P.mailWeb });
 
   const env = {
-    ...serviceEnv({ databaseUrl, s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl }),
+    ...serviceEnv({ databaseUrl, s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl, dataDir: path.join(root, ".dev") }),
     NODE_ENV: "production",
     PORT: String(P.app),
     HOST: "127.0.0.1",

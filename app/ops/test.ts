@@ -6,7 +6,7 @@ import { spawn, spawnSync } from "node:child_process";
 import { existsSync, rmSync } from "node:fs";
 import path from "node:path";
 import { migrateDatabase } from "./migrate";
-import { TEST_PORTS as P } from "./ports";
+import { TEST_PORTS as P, TEST_SLOT } from "./ports";
 import {
   SetupError, assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres,
   startS3, stopChildren, waitForPort,
@@ -14,7 +14,9 @@ import {
 
 const root = process.cwd();
 const publicUrl = `http://127.0.0.1:${P.app}`;
-const run = path.join(root, ".test-run");
+const slotSuffix = TEST_SLOT ? `-${TEST_SLOT}` : "";
+const run = path.join(root, `.test-run${slotSuffix}`);
+const buildDir = `build${slotSuffix}`;
 const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
 
 function ensureChromium() {
@@ -42,7 +44,7 @@ async function main() {
   for (const d of ["s3", "mail"]) rmSync(path.join(run, d), { recursive: true, force: true });
 
   console.log("Starting the test services…");
-  const postgres = await startPostgres({ projectRoot: root, folder: ".test-run", port: P.postgres });
+  const postgres = await startPostgres({ projectRoot: root, folder: `.test-run${slotSuffix}`, port: P.postgres });
   const cleanup = () => {
     stopChildren();
     postgres.stop();
@@ -60,12 +62,13 @@ async function main() {
 
     const env: NodeJS.ProcessEnv = {
       ...process.env,
-      ...serviceEnv({ databaseUrl: postgres.url("dipwell_e2e"), s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl }),
+      ...serviceEnv({ databaseUrl: postgres.url("dipwell_e2e"), s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl, dataDir: run }),
       DIPWELL_TEST_RUN: "1",
       TEST_ADMIN_DATABASE_URL: admin,
       TEST_DATABASE_URL_PATTERN: postgres.url("dipwell_w{id}"),
       E2E_BASE_URL: publicUrl,
       CHROMIUM_PATH: chromium,
+      DIPWELL_BUILD_DIR: buildDir,
     };
 
     let failed = 0;
@@ -81,7 +84,7 @@ async function main() {
 
     await assertPortFree(P.app, "the Dipwell app under test");
     const appEnv = { ...env, NODE_ENV: "production", PORT: String(P.app), HOST: "127.0.0.1" };
-    spawnService("app", bin("react-router-serve"), ["./build/server/index.js"], { cwd: root, env: appEnv, quiet: true });
+    spawnService("app", bin("react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env: appEnv, quiet: true });
     if (existsSync(path.join(root, "app", "jobs", "worker.ts"))) {
       spawnService("worker", bin("tsx"), ["app/jobs/worker.ts"], { cwd: root, env: appEnv, quiet: true });
     }

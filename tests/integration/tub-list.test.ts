@@ -1,0 +1,44 @@
+import { beforeAll, describe, expect, it } from "vitest";
+import { callRoute, createTub, createUser, shareTub, type TestUser } from "../support/fixtures";
+import { importRoute } from "../support/routes";
+
+let ash: TestUser, birch: TestUser, tech: TestUser, admin: TestUser;
+let ashTub: string, birchTub: string, otherTub: string;
+
+beforeAll(async () => {
+  [ash, birch, tech, admin] = await Promise.all([createUser("owner"), createUser("owner"), createUser("technician"), createUser("admin")]);
+  ashTub = (await createTub(ash.id, { name: "Ash garden" })).id;
+  birchTub = (await createTub(birch.id, { name: "Birch deck" })).id;
+  otherTub = (await createTub(birch.id, { name: "Birch cabin" })).id;
+  await shareTub(birchTub, tech.id, birch.id);
+});
+
+const ids = (r: { data: unknown }) => ((r.data as { tubs: { id: string }[] }).tubs ?? []).map((t) => t.id);
+
+describe("the tub list", () => {
+  it("shows an owner their own tubs only", async () => {
+    const { loader } = await importRoute("routes/tubs/list.tsx");
+    const r = await callRoute(loader!, { url: "/tubs", user: ash });
+    expect(ids(r)).toEqual([ashTub]);
+  });
+
+  it("shows a technician the tubs shared with them, not the others", async () => {
+    const { loader } = await importRoute("routes/tubs/list.tsx");
+    const r = await callRoute(loader!, { url: "/tubs", user: tech });
+    expect(ids(r)).toContain(birchTub);
+    expect(ids(r)).not.toContain(otherTub);
+    expect(ids(r)).not.toContain(ashTub);
+  });
+
+  it("shows an admin every tub", async () => {
+    const { loader } = await importRoute("routes/tubs/list.tsx");
+    const r = await callRoute(loader!, { url: "/tubs", user: admin });
+    expect(ids(r)).toEqual(expect.arrayContaining([ashTub, birchTub, otherTub]));
+  });
+
+  it("keeps the mail inbox for admins", async () => {
+    const { loader } = await importRoute("routes/dev/inbox.tsx");
+    expect((await callRoute(loader!, { url: "/dev/inbox", user: ash })).status).toBe(403);
+    expect((await callRoute(loader!, { url: "/dev/inbox", user: admin })).status).toBe(200);
+  });
+});
