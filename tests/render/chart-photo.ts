@@ -30,6 +30,7 @@ export type ChartPhotoOptions = {
   height?: number;
   orientation?: "portrait" | "landscape";
   surface?: SurfaceName;
+  surfaceColor?: string;
   /** Card rotation in degrees (default within +-12). */
   rotationDeg?: number;
   perspective?: number;
@@ -143,7 +144,7 @@ export async function renderChartPhoto(chart: RenderChart, options: ChartPhotoOp
   const centre: Point = [width / 2, height / 2];
   const H = sceneHomography(width, height, pxPerMm, rotationDeg, centre, perspective, rng);
   const Hi = inv3(H);
-  const surface = makeSurface(options.surface ?? dSurface, rng, pxPerMm);
+  const surface = makeSurface(options.surface ?? dSurface, rng, pxPerMm, options.surfaceColor);
   const lightFn = makeLightFn(width, height, light);
   const card = hexToLinear(cardColor);
   const cells: (Rgb | null)[][] = chart.pads.map((p) =>

@@ -5,7 +5,7 @@
  *   npx tsx tests/render/cli.ts chart --chart calibration/demo-6pad.json --seed 3 --out /tmp/card.jpg
  *
  * Options (all optional but --chart and --out): --seed N --width N --height N --orientation
- * portrait|landscape --surface paper|counter|wood|cloth|tiles --rotation DEG --perspective F
+ * portrait|landscape --surface paper|counter|wood|cloth|tiles --surface-color #rrggbb --rotation DEG --perspective F
  * --px-per-mm F --cast daylight|warm|cool|fluorescent --exposure F --gradient F --vignette F
  * --shadow yes|no --glare N --noise F --blur F --quality N --values analyte=value,...
  * --pads analyte,... (strip: draw only these) --no-strip (strip: surface only) --pad-mix lab|linear
@@ -55,6 +55,7 @@ const common = {
   height: num("height"),
   orientation: str<"portrait" | "landscape">("orientation"),
   surface: str<NonNullable<StripPhotoOptions["surface"]>>("surface"),
+  surfaceColor: flags.get("surface-color"),
   rotationDeg: num("rotation"),
   perspective: num("perspective"),
   pxPerMm: num("px-per-mm"),

@@ -36,6 +36,8 @@ export type StripPhotoOptions = {
   /** Used only when width/height are not given. */
   orientation?: "portrait" | "landscape";
   surface?: SurfaceName;
+  /** The surface's main colour (#rrggbb); default one picked at random for the surface kind. */
+  surfaceColor?: string;
   /** Strip direction, degrees clockwise from "tip to the left" (any angle). */
   rotationDeg?: number;
   /** Homography strength: image corners moved by up to this share of the shorter side (0..0.1). */
@@ -173,7 +175,7 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
 
   const H = sceneHomography(width, height, pxPerMm, rotationDeg, centre, perspective, rng);
   const Hi = inv3(H);
-  const surface = makeSurface(options.surface ?? dSurface, rng, pxPerMm);
+  const surface = makeSurface(options.surface ?? dSurface, rng, pxPerMm, options.surfaceColor);
   const lightFn = makeLightFn(width, height, light);
 
   // Pads: truth and colours.

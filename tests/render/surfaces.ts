@@ -13,7 +13,12 @@ export type SurfaceFn = (X: number, Y: number, ix: number, iy: number, out: Floa
 
 export type SurfaceInfo = { name: SurfaceName; base: string; fn: SurfaceFn };
 
-export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): SurfaceInfo {
+/** `color` (#rrggbb) replaces the surface's randomly picked main colour. */
+export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number, color?: string): SurfaceInfo {
+  const pick = (items: string[]) => {
+    const c = rng.pick(items);
+    return color ?? c;
+  };
   const seed = rng.int(1, 1 << 30);
   const ang = rng.range(0, Math.PI);
   const ca = Math.cos(ang);
@@ -31,7 +36,7 @@ export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): Surfa
 
   switch (name) {
     case "paper": {
-      const base = rng.pick(["#ebe9e4", "#e6e4dc", "#f0eee9", "#e3e3df"]);
+      const base = pick(["#ebe9e4", "#e6e4dc", "#f0eee9", "#e3e3df"]);
       const c = hexToLinear(base);
       return {
         name, base, fn: (X, Y, ix, iy, out) => {
@@ -42,7 +47,7 @@ export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): Surfa
       };
     }
     case "counter": {
-      const base = rng.pick(["#8c8f93", "#9a9894", "#7d8084", "#a5a5a0", "#6f7173"]);
+      const base = pick(["#8c8f93", "#9a9894", "#7d8084", "#a5a5a0", "#6f7173"]);
       const c = hexToLinear(base);
       return {
         name, base, fn: (X, Y, ix, iy, out) => {
@@ -57,7 +62,7 @@ export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): Surfa
       };
     }
     case "wood": {
-      const base = rng.pick(["#b98454", "#a8703f", "#c89a6a", "#8a5a36", "#d2a878"]);
+      const base = pick(["#b98454", "#a8703f", "#c89a6a", "#8a5a36", "#d2a878"]);
       const c = hexToLinear(base);
       const dark: Rgb = [c[0] * 0.62, c[1] * 0.55, c[2] * 0.5];
       const period = rng.range(2.5, 6);
@@ -76,7 +81,7 @@ export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): Surfa
       };
     }
     case "cloth": {
-      const base = rng.pick(["#2b3550", "#323230", "#263a2e", "#3a2a2e", "#2a2d38"]);
+      const base = pick(["#2b3550", "#323230", "#263a2e", "#3a2a2e", "#2a2d38"]);
       const c = hexToLinear(base);
       // Keep the weave at least ~4 px per thread pair so it does not alias into moire.
       const thread = Math.max(0.9, 4 / pxPerMm);
@@ -91,7 +96,7 @@ export function makeSurface(name: SurfaceName, rng: Rng, pxPerMm: number): Surfa
       };
     }
     case "tiles": {
-      const base = rng.pick(["#e8e6e0", "#d9d4c8", "#b8c7cf", "#f2f2f0", "#c9d6c4"]);
+      const base = pick(["#e8e6e0", "#d9d4c8", "#b8c7cf", "#f2f2f0", "#c9d6c4"]);
       const c = hexToLinear(base);
       const grout = hexToLinear(rng.pick(["#9a968e", "#7f7b74", "#b3afa6", "#5e5b57"]));
       const size = rng.range(50, 150);
