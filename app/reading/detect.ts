@@ -12,7 +12,7 @@
 //    strip's two ends; a profile of "difference from bare plastic" is matched to the chart's
 //    pad layout over offset and scale, for both orientations; the better fit tells the tip.
 import type { StripChart } from "./chart";
-import { SRGB8_TO_LINEAR } from "./colour";
+import { srgbToLinear } from "./colour";
 import { ReadingError, type RgbImage } from "./image";
 
 export type Interval = [number, number];
@@ -54,28 +54,32 @@ type Search = { w: number; h: number; f: number; wh: Float32Array };
  * saturation). Both factors scale with the light, so a ratio against the local
  * background is unchanged by shadows and light falloff.
  */
-function makeSearch(img: RgbImage, target = 500): Search {
+export function makeSearch(img: RgbImage, target = 400): Search {
   const f = Math.max(1, Math.round(Math.max(img.width, img.height) / target));
   const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
-  const acc = new Float32Array(w * 3);
+  const acc = new Uint32Array(w * 3);
   const wh = new Float32Array(w * h);
   const data = img.data, W = img.width;
   const inv = 1 / (f * f);
-  const lut = SRGB8_TO_LINEAR;
+  // Block means of the encoded values, then the sRGB transfer function (a close enough
+  // approximation of the linear mean for searching).
+  const lut = new Float32Array(4096);
+  for (let i = 0; i < 4096; i++) lut[i] = srgbToLinear(i / 4095);
+  const q = 4095 / 255;
   for (let sy = 0; sy < h; sy++) {
     acc.fill(0);
     for (let dy = 0; dy < f; dy++) {
       let o = ((sy * f + dy) * W) * 3;
       for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
         let r = 0, g = 0, b = 0;
-        for (let dx = 0; dx < f; dx++, o += 3) (r += lut[data[o]]), (g += lut[data[o + 1]]), (b += lut[data[o + 2]]);
+        for (let dx = 0; dx < f; dx++, o += 3) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
         acc[k] += r;
         acc[k + 1] += g;
         acc[k + 2] += b;
       }
     }
     for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
-      const r = acc[k] * inv, g = acc[k + 1] * inv, b = acc[k + 2] * inv;
+      const r = lut[(acc[k] * inv * q + 0.5) | 0], g = lut[(acc[k + 1] * inv * q + 0.5) | 0], b = lut[(acc[k + 2] * inv * q + 0.5) | 0];
       const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
       const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
       const sat = mx > 1e-4 ? (mx - mn) / mx : 0;
@@ -108,47 +112,80 @@ function boxMean(src: Float32Array, w: number, h: number, r: number): Float32Arr
 
 type Candidate = { cx: number; cy: number; angle: number; length: number; width: number; score: number; n: number };
 
-function components(mask: Uint8Array, w: number, h: number, minArea: number): Candidate[] {
-  const labels = new Int32Array(w * h);
-  const parent: number[] = [0];
+const ccLabels = { buf: new Int32Array(0) };
+
+/**
+ * Connected components (4-connected) of the pixels of d above t, with their image
+ * moments, in one pass: moments are gathered per provisional label and merged by root.
+ */
+function components(d: Float32Array, t: number, w: number, h: number, minArea: number): Candidate[] {
+  if (ccLabels.buf.length < w * h) ccLabels.buf = new Int32Array(w * h);
+  const labels = ccLabels.buf;
+  let cap = 1024;
+  let parent = new Int32Array(cap);
+  let mom = new Float64Array(cap * 6);
   const find = (a: number) => {
     while (parent[a] !== a) (parent[a] = parent[parent[a]]), (a = parent[a]);
     return a;
   };
   let next = 1;
   for (let y = 0; y < h; y++) {
+    const row = y * w;
     for (let x = 0; x < w; x++) {
-      const i = y * w + x;
-      if (!mask[i]) continue;
+      const i = row + x;
+      if (!(d[i] > t)) {
+        labels[i] = 0;
+        continue;
+      }
       const l = x > 0 ? labels[i - 1] : 0;
-      const t = y > 0 ? labels[i - w] : 0;
-      if (l && t) {
-        const a = find(l), b = find(t);
-        labels[i] = a < b ? a : b;
-        if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
-      } else if (l || t) labels[i] = l || t;
-      else (labels[i] = next), parent.push(next), next++;
+      const u = y > 0 ? labels[i - w] : 0;
+      let lab: number;
+      if (l && u) {
+        if (l === u) lab = l;
+        else {
+          const a = find(l), b = find(u);
+          lab = a < b ? a : b;
+          if (a !== b) parent[a < b ? b : a] = lab;
+        }
+      } else if (l || u) lab = l || u;
+      else {
+        if (next >= cap) {
+          cap *= 2;
+          const np = new Int32Array(cap);
+          np.set(parent);
+          parent = np;
+          const nm = new Float64Array(cap * 6);
+          nm.set(mom);
+          mom = nm;
+        }
+        parent[next] = next;
+        lab = next++;
+      }
+      labels[i] = lab;
+      const o = lab * 6;
+      mom[o]++;
+      mom[o + 1] += x;
+      mom[o + 2] += y;
+      mom[o + 3] += x * x;
+      mom[o + 4] += y * y;
+      mom[o + 5] += x * y;
     }
   }
-  const n = new Float64Array(next), sx = new Float64Array(next), sy = new Float64Array(next);
-  const sxx = new Float64Array(next), syy = new Float64Array(next), sxy = new Float64Array(next);
-  for (let y = 0; y < h; y++)
-    for (let x = 0; x < w; x++) {
-      const i = y * w + x;
-      if (!labels[i]) continue;
-      const r = find(labels[i]);
-      n[r]++, (sx[r] += x), (sy[r] += y), (sxx[r] += x * x), (syy[r] += y * y), (sxy[r] += x * y);
-    }
+  for (let r = next - 1; r >= 1; r--) {
+    const root = find(r);
+    if (root !== r) for (let k = 0; k < 6; k++) (mom[root * 6 + k] += mom[r * 6 + k]), (mom[r * 6 + k] = 0);
+  }
   const out: Candidate[] = [];
   for (let r = 1; r < next; r++) {
-    if (n[r] < minArea) continue;
-    const cx = sx[r] / n[r], cy = sy[r] / n[r];
-    const mxx = sxx[r] / n[r] - cx * cx, myy = syy[r] / n[r] - cy * cy, mxy = sxy[r] / n[r] - cx * cy;
+    const n = mom[r * 6];
+    if (n < minArea) continue;
+    const cx = mom[r * 6 + 1] / n, cy = mom[r * 6 + 2] / n;
+    const mxx = mom[r * 6 + 3] / n - cx * cx, myy = mom[r * 6 + 4] / n - cy * cy, mxy = mom[r * 6 + 5] / n - cx * cy;
     const tr = mxx + myy, det = mxx * myy - mxy * mxy;
     const disc = Math.sqrt(Math.max(0, (tr * tr) / 4 - det));
     const l1 = tr / 2 + disc, l2 = Math.max(1e-6, tr / 2 - disc);
     const angle = 0.5 * Math.atan2(2 * mxy, mxx - myy);
-    out.push({ cx, cy, angle, length: Math.sqrt(12 * l1), width: Math.sqrt(12 * l2), score: 0, n: n[r] });
+    out.push({ cx, cy, angle, length: Math.sqrt(12 * l1), width: Math.sqrt(12 * l2), score: 0, n });
   }
   return out;
 }
@@ -167,10 +204,9 @@ function scoreCandidate(c: Candidate, chart: StripChart): number {
   return Math.sqrt(c.n) * c.width * fillScore * aspect;
 }
 
-function findCandidates(s: Search, chart: StripChart): Candidate[] {
+export function findCandidates(s: Search, chart: StripChart): Candidate[] {
   const { w, h, wh } = s;
   const cands: Candidate[] = [];
-  const mask = new Uint8Array(w * h);
   const minArea = Math.max(12, Math.round((w * h) / 20000));
   const d = new Float32Array(w * h);
   // Two background scales: a wide one, and a narrow one that keeps shadow edges from
@@ -178,17 +214,25 @@ function findCandidates(s: Search, chart: StripChart): Candidate[] {
   for (const div of [16, 40]) {
     const r = Math.max(5, Math.round(Math.max(w, h) / div));
     const bg = boxMean(wh, w, h, r);
-    for (let i = 0; i < d.length; i++) d[i] = Math.log(wh[i] / bg[i]);
-    const step = Math.max(1, Math.floor(d.length / 60000));
-    const sub = new Float32Array(Math.ceil(d.length / step));
-    for (let i = 0, k = 0; i < d.length; i += step, k++) sub[k] = d[i];
-    sub.sort();
-    const top = sub[Math.floor(0.999 * (sub.length - 1))];
+    // log ratio to the background, and its 99.9th percentile from a histogram
+    const hist = new Uint32Array(512);
+    for (let i = 0; i < d.length; i++) {
+      const v = Math.log(wh[i] / bg[i]);
+      d[i] = v;
+      if (v > 0) hist[Math.min(511, (v * 200) | 0)]++;
+    }
+    let top = 0;
+    for (let b = 511, acc = 0; b >= 0; b--) {
+      acc += hist[b];
+      if (acc >= d.length * 0.001) {
+        top = (b + 0.5) / 200;
+        break;
+      }
+    }
     const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
-    const thresholds = [...ladder, ...[0.35, 0.55, 0.75].map((k) => top * k)].filter((t) => t > 0.02 && t < top);
+    const thresholds = [...ladder, top * 0.35, top * 0.55, top * 0.75].filter((t) => t > 0.02 && t < top);
     for (const t of thresholds) {
-      for (let i = 0; i < d.length; i++) mask[i] = d[i] > t ? 1 : 0;
-      for (const c of components(mask, w, h, minArea)) {
+      for (const c of components(d, t, w, h, minArea)) {
         c.score = scoreCandidate(c, chart);
         if (c.score > 0) cands.push(c);
       }
@@ -232,11 +276,11 @@ type Axis = { cx: number; cy: number; ux: number; uy: number; width: number; len
 
 /** Locates both long edges on cross-sections and fits the axis line through their mid points. */
 function refineAxis(img: RgbImage, a: Axis): Axis {
-  const K = 25;
+  const K = 15;
   const ts: number[] = [], mids: number[] = [], widths: number[] = [];
   const vx = -a.uy, vy = a.ux;
   const range = Math.max(4, a.width * 1.6);
-  const ds = 0.5;
+  const ds = Math.max(0.5, a.width / 40);
   const ns = Math.floor((2 * range) / ds) + 1;
   const prof = new Float64Array(ns);
   for (let k = 0; k < K; k++) {
@@ -245,13 +289,13 @@ function refineAxis(img: RgbImage, a: Axis): Axis {
     for (let i = 0; i < ns; i++) {
       const s = -range + i * ds;
       let sum = 0;
-      for (let j = -1; j <= 1; j++) {
+      for (let j = -1; j <= 1; j += 2) {
         const tt = t + j * Math.max(1, a.width * 0.15);
         const val = whitenessAt(img, a.cx + tt * a.ux + s * vx, a.cy + tt * a.uy + s * vy);
         if (Number.isNaN(val)) valid = false;
         sum += val;
       }
-      prof[i] = sum / 3;
+      prof[i] = sum / 2;
     }
     if (!valid) continue;
     // derivative over ±1 px
@@ -386,6 +430,7 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
     };
     const g = fitStrip(img, chart, layout, padEndMm, axis0);
     if (g && (!best || g.fitScore > best.fitScore)) best = g;
+    if (best && best.fitScore > 15) break;
   }
   if (!best) throw new ReadingError("no_strip", NO_STRIP);
   return best;
