@@ -60,7 +60,10 @@ export function makeSearch(img: RgbImage, target = 400): Search {
   const acc = new Uint32Array(w * 3);
   const wh = new Float32Array(w * h);
   const data = img.data, W = img.width;
-  const inv = 1 / (f * f);
+  // For blocks of 4×4 and more, every other row and column is enough for searching.
+  const st = f >= 4 ? 2 : 1;
+  const per = Math.ceil(f / st);
+  const inv = 1 / (per * per);
   // Block means of the encoded values, then the sRGB transfer function (a close enough
   // approximation of the linear mean for searching).
   const lut = new Float32Array(4096);
@@ -68,11 +71,11 @@ export function makeSearch(img: RgbImage, target = 400): Search {
   const q = 4095 / 255;
   for (let sy = 0; sy < h; sy++) {
     acc.fill(0);
-    for (let dy = 0; dy < f; dy++) {
-      let o = ((sy * f + dy) * W) * 3;
+    for (let dy = 0; dy < f; dy += st) {
+      const rowO = ((sy * f + dy) * W) * 3;
       for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
         let r = 0, g = 0, b = 0;
-        for (let dx = 0; dx < f; dx++, o += 3) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
+        for (let dx = 0, o = rowO + sx * f * 3; dx < f; dx += st, o += 3 * st) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
         acc[k] += r;
         acc[k + 1] += g;
         acc[k + 2] += b;
@@ -204,14 +207,14 @@ function scoreCandidate(c: Candidate, chart: StripChart): number {
   return Math.sqrt(c.n) * c.width * fillScore * aspect;
 }
 
-export function findCandidates(s: Search, chart: StripChart): Candidate[] {
+export function findCandidates(s: Search, chart: StripChart, divs: number[] = [16, 40]): Candidate[] {
   const { w, h, wh } = s;
   const cands: Candidate[] = [];
   const minArea = Math.max(12, Math.round((w * h) / 20000));
   const d = new Float32Array(w * h);
   // Two background scales: a wide one, and a narrow one that keeps shadow edges from
   // reaching far beyond them.
-  for (const div of [16, 40]) {
+  for (const div of divs) {
     const r = Math.max(5, Math.round(Math.max(w, h) / div));
     const bg = boxMean(wh, w, h, r);
     // log ratio to the background, and its 99.9th percentile from a histogram
@@ -230,7 +233,7 @@ export function findCandidates(s: Search, chart: StripChart): Candidate[] {
       }
     }
     const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
-    const thresholds = [...ladder, top * 0.35, top * 0.55, top * 0.75].filter((t) => t > 0.02 && t < top);
+    const thresholds = [...ladder, top * 0.35, top * 0.55].filter((t) => t > 0.02 && t < top);
     for (const t of thresholds) {
       for (const c of components(d, t, w, h, minArea)) {
         c.score = scoreCandidate(c, chart);
@@ -409,28 +412,32 @@ function chartLayout(chart: StripChart): Layout {
 
 export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
   const search = makeSearch(img);
-  const cands = findCandidates(search, chart);
-  if (!cands.length) throw new ReadingError("no_strip", NO_STRIP);
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
   let best: StripGeometry | null = null;
   const tried: Candidate[] = [];
-  for (const c of cands) {
-    if (tried.length >= 6) break;
-    if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
-    tried.push(c);
-    const f = search.f;
-    const axis0: Axis = {
-      cx: (c.cx + 0.5) * f,
-      cy: (c.cy + 0.5) * f,
-      ux: Math.cos(c.angle),
-      uy: Math.sin(c.angle),
-      width: c.width * f,
-      length: c.length * f,
-    };
-    const g = fitStrip(img, chart, layout, padEndMm, axis0);
-    if (g && (!best || g.fitScore > best.fitScore)) best = g;
-    if (best && best.fitScore > 15) break;
+  // First the wide background scale; the narrow one only if no convincing strip was found.
+  for (const divs of [[16], [40]]) {
+    const cands = findCandidates(search, chart, divs);
+    let n = 0;
+    for (const c of cands) {
+      if (n >= 5) break;
+      if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
+      tried.push(c);
+      n++;
+      const f = search.f;
+      const axis0: Axis = {
+        cx: (c.cx + 0.5) * f,
+        cy: (c.cy + 0.5) * f,
+        ux: Math.cos(c.angle),
+        uy: Math.sin(c.angle),
+        width: c.width * f,
+        length: c.length * f,
+      };
+      const g = fitStrip(img, chart, layout, padEndMm, axis0);
+      if (g && (!best || g.fitScore > best.fitScore)) best = g;
+      if (best && best.fitScore > 15) return best;
+    }
   }
   if (!best) throw new ReadingError("no_strip", NO_STRIP);
   return best;
