@@ -448,7 +448,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   axis = refineAxis(img, axis);
   const warnings: string[] = [];
   const wpx = axis.width;
-  if (!(wpx > 2)) return null;
+  if (!(wpx > 5)) return null;
   const scaleW = wpx / chart.strip.widthMm;
   const lexp = chart.strip.lengthMm * scaleW;
   const tMin = -(axis.length / 2 + lexp * 1.3), tMax = axis.length / 2 + lexp * 1.3;

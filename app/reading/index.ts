@@ -50,6 +50,9 @@ export type StripReading = {
   warnings: string[];
 };
 
+const NO_STRIP_MESSAGE =
+  "No test strip was found in this photo. Lay the strip flat on a plain surface, keep the whole strip in the picture, and take the photo again.";
+
 export type ReadOptions = {
   crops?: boolean;
   /** Refuse a strip whose pads look like bare plastic where the chart puts pads (default true). */
@@ -134,6 +137,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
 
   const pads: PadReading[] = [];
   const missing: string[] = [];
+  const halfSteps: number[] = [];
   for (let i = 0; i < chart.pads.length; i++) {
     const cp = chart.pads[i];
     const pl = g.pads[i];
@@ -157,6 +161,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
     const corr = correctLinear(m, sample.linear);
     const lab = linearRgbToLab(corr[0], corr[1], corr[2]);
     const match = matchSwatches(cp, lab);
+    halfSteps.push(match.halfStep);
     // Spread of the sample, in the corrected space.
     const q25 = correctLinear(m, sample.q25), q75 = correctLinear(m, sample.q75);
     const spread = deltaE2000(linearRgbToLab(...q25), linearRgbToLab(...q75)) / 2;
@@ -203,6 +208,15 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
     if (options.crops) reading.crop = await cropPad(img, pl.centre[0], pl.centre[1], Math.max(pl.halfAlong, pl.halfAcross) * 1.4);
     pads.push(reading);
   }
+  if (missing.length === chart.pads.length && chart.pads.length > 1) throw new ReadingError("no_strip", NO_STRIP_MESSAGE);
+  // Pads whose colours are nowhere near the chart on most of the strip: this is not a strip
+  // of this chart (or not a strip at all).
+  const alien = pads.filter((p, i) => p.deltaE > 12 && p.deltaE > 2.5 * halfSteps[i]).length;
+  if (chart.pads.length > 1 && alien >= Math.ceil((2 * chart.pads.length) / 3))
+    throw new ReadingError(
+      "no_strip",
+      `No test strip matching the chart${chart.name ? ` "${chart.name}"` : ""} was found in this photo. Check the chart, lay the strip flat on a plain surface with the whole strip in view, and take the photo again.`,
+    );
   if (options.checkPads !== false && missing.length && missing.length >= Math.max(1, Math.ceil(chart.pads.length / 4))) {
     const found = chart.pads.length - missing.length;
     throw new ReadingError(
