@@ -6,5 +6,6 @@ export type NavItem = { to: string; label: string; roles: Role[] };
 
 export const NAV_ITEMS: NavItem[] = [
   { to: "/tubs", label: "Tubs", roles: ["owner", "technician", "admin"] },
+  { to: "/products", label: "Products", roles: ["owner", "technician", "admin"] },
   { to: "/dev/inbox", label: "Mail inbox", roles: ["admin"] },
 ];

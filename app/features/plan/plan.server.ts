@@ -1,0 +1,381 @@
+// The tub's plan: its latest reading, its volume, temperature and sanitiser, the owner's catalogue,
+// its target ranges and its treatment log, handed to the pure water-chemistry engine.
+import { and, desc, eq, gte, inArray } from "drizzle-orm";
+import { z } from "zod";
+import {
+  DEFAULT_TARGETS,
+  ProductError,
+  WaterInputError,
+  planTreatment,
+  resolveTargets,
+  validateWaterInput,
+  type LoggedTreatment,
+  type Parameter,
+  type Product,
+  type Range,
+  type Readings,
+  type TargetRanges,
+  type WaterPlan,
+} from "~/chemistry";
+import { retestHoursFor } from "~/chemistry/products";
+import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import type { Tub } from "~/lib/tubs.server";
+import { ownerProducts } from "./catalogue.server";
+import { clock, fromLocalInput, safeZone } from "./time";
+
+export const READING_KEYS = [
+  "free_chlorine",
+  "total_chlorine",
+  "bromine",
+  "ph",
+  "total_alkalinity",
+  "total_hardness",
+  "calcium_hardness",
+  "cyanuric_acid",
+] as const;
+export type ReadingKey = (typeof READING_KEYS)[number];
+
+export const READING_LABELS: Record<ReadingKey, string> = {
+  free_chlorine: "Free chlorine (mg/L)",
+  total_chlorine: "Total chlorine (mg/L)",
+  bromine: "Bromine (mg/L)",
+  ph: "pH",
+  total_alkalinity: "Total alkalinity (mg/L as CaCO3)",
+  total_hardness: "Total hardness (mg/L as CaCO3)",
+  calcium_hardness: "Calcium hardness (mg/L as CaCO3)",
+  cyanuric_acid: "Cyanuric acid (mg/L)",
+};
+
+export interface LatestReading {
+  id: string;
+  takenAt: string;
+  status: string;
+  confirmed: boolean;
+  readings: Readings;
+  pads: { analyte: string; value: number; unit: string | null; confirmed: boolean }[];
+}
+
+/** The newest reading of the tub with at least one pad value (confirmed value before the read one). */
+export async function latestReading(tubId: string): Promise<LatestReading | null> {
+  const recent = await db.select().from(reading).where(eq(reading.tubId, tubId)).orderBy(desc(reading.takenAt)).limit(10);
+  if (recent.length === 0) return null;
+  const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, recent.map((r) => r.id)));
+  for (const r of recent) {
+    const mine = pads.filter((p) => p.readingId === r.id && (p.confirmedValue ?? p.readValue) !== null);
+    if (mine.length === 0) continue;
+    const readings: Readings = {};
+    for (const p of mine) (readings as Record<string, number>)[p.analyte] = (p.confirmedValue ?? p.readValue)!;
+    return {
+      id: r.id,
+      takenAt: r.takenAt.toISOString(),
+      status: r.status,
+      confirmed: r.status === "confirmed" || r.status === "manual",
+      readings,
+      pads: mine.map((p) => ({ analyte: p.analyte, value: (p.confirmedValue ?? p.readValue)!, unit: p.unit, confirmed: p.confirmedValue !== null })),
+    };
+  }
+  return null;
+}
+
+export type TreatmentRow = typeof treatment.$inferSelect;
+
+export async function recentTreatments(tubId: string, limit = 50): Promise<TreatmentRow[]> {
+  return db.select().from(treatment).where(eq(treatment.tubId, tubId)).orderBy(desc(treatment.addedAt)).limit(limit);
+}
+
+/** The log as the engine reads it: the last week is enough for any wait. */
+export async function treatmentLog(tubId: string, now: Date): Promise<LoggedTreatment[]> {
+  const rows = await db
+    .select()
+    .from(treatment)
+    .where(and(eq(treatment.tubId, tubId), gte(treatment.addedAt, new Date(now.getTime() - 7 * 86400_000))))
+    .orderBy(desc(treatment.addedAt));
+  return rows
+    .filter((r) => r.addedAt.getTime() <= now.getTime() + 60_000)
+    .map((r) => ({
+      productId: r.productId ?? r.chemical,
+      chemical: r.chemical,
+      amount: r.amount,
+      unit: (["g", "mL", "tablets"].includes(r.unit) ? r.unit : "g") as LoggedTreatment["unit"],
+      addedAt: r.addedAt.toISOString(),
+    }));
+}
+
+export interface Timer {
+  treatmentId: string;
+  productName: string;
+  addedAt: string;
+  retestAt: string;
+  /** "14:35" in the tub's time zone */
+  retestClock: string;
+}
+
+/** The running retest timer: the latest retest time still ahead. */
+export function activeTimer(rows: TreatmentRow[], now: Date, timeZone: string): Timer | null {
+  let best: TreatmentRow | null = null;
+  for (const r of rows) if (r.retestAt && r.retestAt.getTime() > now.getTime() && (!best || r.retestAt > best.retestAt!)) best = r;
+  if (!best) return null;
+  return {
+    treatmentId: best.id,
+    productName: best.productName,
+    addedAt: best.addedAt.toISOString(),
+    retestAt: best.retestAt!.toISOString(),
+    retestClock: clock(best.retestAt!, timeZone),
+  };
+}
+
+// ------------------------------------------------------------------ target ranges
+
+export const TARGET_PARAMETERS = (sanitiser: "chlorine" | "bromine"): Parameter[] => [
+  sanitiser === "chlorine" ? "free_chlorine" : "bromine",
+  "ph",
+  "total_alkalinity",
+  "calcium_hardness",
+  ...(sanitiser === "chlorine" ? (["cyanuric_acid"] as Parameter[]) : []),
+];
+
+const overrideSchema = z.record(z.string(), z.object({ min: z.number().optional(), max: z.number().optional(), aim: z.number().optional() }));
+
+/** The tub's stored overrides; anything unreadable is ignored rather than breaking the plan. */
+export function tubOverrides(t: Pick<Tub, "targets" | "sanitiser">): Partial<Record<Parameter, Partial<Range>>> {
+  const parsed = overrideSchema.safeParse(t.targets ?? {});
+  if (!parsed.success) return {};
+  const out: Partial<Record<Parameter, Partial<Range>>> = {};
+  for (const [k, v] of Object.entries(parsed.data)) if (k in DEFAULT_TARGETS[t.sanitiser]) out[k as Parameter] = v;
+  try {
+    resolveTargets(t.sanitiser, out);
+    return out;
+  } catch {
+    return {};
+  }
+}
+
+export function tubTargets(t: Pick<Tub, "targets" | "sanitiser">): TargetRanges {
+  return resolveTargets(t.sanitiser, tubOverrides(t));
+}
+
+/** Upper limits for a per-tub range: beyond them it is not a hot tub target any more (common practice). */
+const TARGET_LIMITS: Record<Parameter, number> = {
+  free_chlorine: 10,
+  bromine: 10,
+  ph: 8.4,
+  total_alkalinity: 300,
+  calcium_hardness: 800,
+  cyanuric_acid: 100,
+};
+const PARAM_WORDS: Record<Parameter, string> = {
+  free_chlorine: "Free chlorine",
+  bromine: "Bromine",
+  ph: "pH",
+  total_alkalinity: "Total alkalinity",
+  calcium_hardness: "Calcium hardness",
+  cyanuric_acid: "Cyanuric acid",
+};
+
+export function parseTargets(t: Pick<Tub, "sanitiser">, form: FormData): { ok: true; targets: Partial<Record<Parameter, Partial<Range>>> } | { ok: false; fields: Record<string, string> } {
+  const fields: Record<string, string> = {};
+  const out: Partial<Record<Parameter, Partial<Range>>> = {};
+  for (const p of TARGET_PARAMETERS(t.sanitiser)) {
+    const def = DEFAULT_TARGETS[t.sanitiser][p];
+    const raw = { min: String(form.get(`${p}.min`) ?? "").trim(), max: String(form.get(`${p}.max`) ?? "").trim() };
+    const min = raw.min === "" ? def.min : Number(raw.min.replace(",", "."));
+    const max = raw.max === "" ? def.max : Number(raw.max.replace(",", "."));
+    const name = PARAM_WORDS[p];
+    if (!Number.isFinite(min) || !Number.isFinite(max)) fields[p] = `${name}: the lowest and highest values must be numbers.`;
+    else if (min < 0 || max < 0) fields[p] = `${name}: the range cannot be negative.`;
+    else if (min >= max) fields[p] = `${name}: the lowest value must be below the highest.`;
+    else if (p === "ph" && min < 6.8) fields[p] = "pH: a target below 6.8 corrodes the tub and stings the eyes.";
+    else if (max > TARGET_LIMITS[p]) fields[p] = `${name}: a highest value above ${TARGET_LIMITS[p]} is not a hot tub target.`;
+    else if (p === "free_chlorine" || p === "bromine") {
+      if (min < 1) fields[p] = `${name}: the lowest value must be at least 1 mg/L, or the water is not disinfected.`;
+    }
+    if (fields[p]) continue;
+    if (min !== def.min || max !== def.max) out[p] = { min, max };
+  }
+  if (Object.keys(fields).length) return { ok: false, fields };
+  try {
+    resolveTargets(t.sanitiser, out);
+  } catch (e) {
+    return { ok: false, fields: { form: (e as Error).message } };
+  }
+  return { ok: true, targets: out };
+}
+
+export async function saveTargets(tubId: string, targets: Partial<Record<Parameter, Partial<Range>>>) {
+  await db.update(tubTable).set({ targets }).where(eq(tubTable.id, tubId));
+}
+
+// ------------------------------------------------------------------ the plan
+
+export interface TubPlan {
+  tub: { id: string; name: string; volumeLitres: number; volumeUnit: string; sanitiser: "chlorine" | "bromine"; temperatureC: number; timeZone: string; bathersPerDay: number; firstFillCompletedAt: string | null };
+  source: "reading" | "what-if" | "none";
+  reading: LatestReading | null;
+  whatIf: Readings | null;
+  plan: WaterPlan | null;
+  error: string | null;
+  targets: TargetRanges;
+  overridden: Parameter[];
+  timer: Timer | null;
+  now: string;
+}
+
+function hasNonFinite(x: unknown): boolean {
+  if (typeof x === "number") return !Number.isFinite(x);
+  if (Array.isArray(x)) return x.some(hasNonFinite);
+  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
+  return false;
+}
+
+/** Runs the engine for this tub; bad readings become an error in plain words, never a NaN dose. */
+export function runEngine(
+  t: Pick<Tub, "volumeLitres" | "temperatureC" | "sanitiser" | "bathersPerDay" | "timeZone" | "targets">,
+  readings: Readings,
+  products: Product[],
+  log: LoggedTreatment[],
+  now: Date,
+): { plan: WaterPlan | null; error: string | null } {
+  try {
+    const input = validateWaterInput({
+      volumeLitres: t.volumeLitres,
+      temperatureC: t.temperatureC,
+      sanitiser: t.sanitiser,
+      bathersPerDay: t.bathersPerDay > 0 ? t.bathersPerDay : undefined,
+      readings,
+    });
+    const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone) });
+    if (hasNonFinite(plan)) return { plan: null, error: "The plan could not be computed for these readings; please check them." };
+    return { plan, error: null };
+  } catch (e) {
+    if (e instanceof WaterInputError || e instanceof ProductError || e instanceof RangeError) return { plan: null, error: e.message };
+    throw e;
+  }
+}
+
+/** Parses hand-entered what-if readings from a query string; null when none were given. */
+export function parseWhatIf(params: URLSearchParams): { readings: Readings | null; error: string | null } {
+  if (params.get("whatif") !== "1") return { readings: null, error: null };
+  const readings: Record<string, number> = {};
+  for (const key of READING_KEYS) {
+    const raw = (params.get(key) ?? "").trim().replace(",", ".");
+    if (raw === "") continue;
+    const n = Number(raw);
+    if (!Number.isFinite(n)) return { readings: null, error: `${READING_LABELS[key]} must be a number (got "${raw}").` };
+    readings[key] = n;
+  }
+  if (Object.keys(readings).length === 0) return { readings: null, error: "Enter at least one reading for a what-if plan." };
+  return { readings, error: null };
+}
+
+export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | null } = {}): Promise<TubPlan> {
+  const now = opts.now ?? new Date();
+  const zone = safeZone(t.timeZone);
+  const [products, rows, latest] = await Promise.all([ownerProducts(t.ownerId), recentTreatments(t.id, 20), latestReading(t.id)]);
+  const log = await treatmentLog(t.id, now);
+  const readings = opts.whatIf ?? latest?.readings ?? null;
+  const { plan, error } = readings ? runEngine(t, readings, products, log, now) : { plan: null, error: null };
+  const overrides = tubOverrides(t);
+  return {
+    tub: {
+      id: t.id,
+      name: t.name,
+      volumeLitres: t.volumeLitres,
+      volumeUnit: t.volumeUnit,
+      sanitiser: t.sanitiser,
+      temperatureC: t.temperatureC,
+      timeZone: zone,
+      bathersPerDay: t.bathersPerDay,
+      firstFillCompletedAt: t.firstFillCompletedAt?.toISOString() ?? null,
+    },
+    source: opts.whatIf ? "what-if" : latest ? "reading" : "none",
+    reading: latest,
+    whatIf: opts.whatIf ?? null,
+    plan,
+    error,
+    targets: resolveTargets(t.sanitiser, overrides),
+    overridden: Object.keys(overrides) as Parameter[],
+    timer: activeTimer(rows, now, zone),
+    now: now.toISOString(),
+  };
+}
+
+// ------------------------------------------------------------------ the treatment log
+
+const logSchema = z.object({
+  productId: z.string().trim().min(1, "Choose the product you added."),
+  amount: z.preprocess(
+    (v) => (typeof v === "string" ? v.trim().replace(",", ".") : v),
+    z.string().min(1, "Give the amount you added.").pipe(z.coerce.number({ error: "The amount must be a number." })),
+  ),
+  unit: z.enum(["g", "mL", "tablets"], { error: "Choose grams, millilitres or tablets." }),
+  addedAt: z.string().optional(),
+  parameter: z.string().optional(),
+  readingId: z.string().optional(),
+  note: z.string().max(500, "Keep the note under 500 characters.").optional(),
+});
+
+export type LogResult = { ok: true; id: string; retestAt: Date } | { ok: false; fields: Record<string, string> };
+
+export async function recordTreatment(t: Tub, userId: string, form: FormData, now = new Date()): Promise<LogResult> {
+  const parsed = logSchema.safeParse(Object.fromEntries(form));
+  if (!parsed.success) {
+    const fields: Record<string, string> = {};
+    for (const issue of parsed.error.issues) fields[String(issue.path[0] ?? "form")] ??= issue.message;
+    return { ok: false, fields };
+  }
+  const v = parsed.data;
+  const fields: Record<string, string> = {};
+  const products = await ownerProducts(t.ownerId);
+  const product = products.find((p) => p.id === v.productId);
+  if (!product) fields.productId = "That product is not in your product list.";
+  if (!Number.isFinite(v.amount) || v.amount <= 0) fields.amount = "The amount must be above 0.";
+  else if (v.amount > 20_000) fields.amount = `${v.amount} ${v.unit} is far more than any hot tub dose; check the amount and unit.`;
+  if (product && !fields.amount) {
+    const solid = product.form !== "liquid";
+    if (v.unit === "mL" && solid) fields.unit = `${product.name} is a solid; give the amount in grams${product.form === "tablets" ? " or tablets" : ""}.`;
+    if (v.unit === "g" && !solid) fields.unit = `${product.name} is a liquid; give the amount in millilitres.`;
+    if (v.unit === "tablets" && product.form !== "tablets") fields.unit = `${product.name} does not come as tablets.`;
+  }
+  const zone = safeZone(t.timeZone);
+  let addedAt = now;
+  if (v.addedAt && v.addedAt.trim() !== "") {
+    const at = fromLocalInput(v.addedAt, zone);
+    if (!at) fields.addedAt = "Give the time as a date and time, for example 2025-06-03 14:35.";
+    else if (at.getTime() > now.getTime() + 5 * 60_000) fields.addedAt = "That time is in the future; give the time you added it.";
+    else if (at.getTime() < now.getTime() - 30 * 86400_000) fields.addedAt = "That is more than 30 days ago; give a recent time.";
+    else addedAt = at;
+  }
+  let readingId: string | null = null;
+  if (v.readingId) {
+    const r = await db.query.reading.findFirst({ where: and(eq(reading.id, v.readingId), eq(reading.tubId, t.id)) }).catch(() => undefined);
+    readingId = r ? r.id : null;
+  }
+  if (Object.keys(fields).length || !product) return { ok: false, fields };
+  const hours = retestHoursFor(product);
+  const retestAt = new Date(addedAt.getTime() + hours * 3600_000);
+  const parameter = v.parameter && v.parameter in DEFAULT_TARGETS[t.sanitiser] ? v.parameter : null;
+  const [row] = await db
+    .insert(treatment)
+    .values({
+      tubId: t.id,
+      readingId,
+      productId: product.id,
+      productName: product.name,
+      chemical: product.chemical,
+      parameter,
+      amount: v.amount,
+      unit: v.unit,
+      addedAt,
+      retestAt: hours > 0 ? retestAt : null,
+      addedBy: userId,
+      note: v.note?.trim() || null,
+    })
+    .returning();
+  return { ok: true, id: row!.id, retestAt };
+}
+
+export async function deleteTreatment(tubId: string, id: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(id)) return;
+  await db.delete(treatment).where(and(eq(treatment.id, id), eq(treatment.tubId, tubId)));
+}

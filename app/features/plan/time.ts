@@ -1,0 +1,76 @@
+// Times in the tub's time zone, with the platform's Intl only.
+
+function parts(d: Date, timeZone: string) {
+  const f = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+    second: "2-digit",
+    hour12: false,
+  });
+  const out: Record<string, number> = {};
+  for (const p of f.formatToParts(d)) if (p.type !== "literal") out[p.type] = Number(p.value);
+  if (out.hour === 24) out.hour = 0;
+  return out as { year: number; month: number; day: number; hour: number; minute: number; second: number };
+}
+
+export function safeZone(timeZone: string | null | undefined): string {
+  try {
+    new Intl.DateTimeFormat("en-GB", { timeZone: timeZone ?? "UTC" });
+    return timeZone ?? "UTC";
+  } catch {
+    return "UTC";
+  }
+}
+
+/** "14:35" in the time zone. */
+export function clock(d: Date | string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+}
+
+/** "Tue 3 Jun, 14:35" in the time zone. */
+export function dayAndClock(d: Date | string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+}
+
+/** "3 June 2025" from a date-only string or a time. */
+export function longDate(d: Date | string): string {
+  return new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(new Date(d));
+}
+
+/** The value of a datetime-local input for this instant in the time zone: "2025-06-03T14:35". */
+export function toLocalInput(d: Date, timeZone: string): string {
+  const p = parts(d, safeZone(timeZone));
+  const z = (n: number) => String(n).padStart(2, "0");
+  return `${p.year}-${z(p.month)}-${z(p.day)}T${z(p.hour)}:${z(p.minute)}`;
+}
+
+/** A wall-clock time in the time zone ("2025-06-03T14:35") as an instant; null when it is not a time. */
+export function fromLocalInput(value: string, timeZone: string): Date | null {
+  const m = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/.exec(value.trim());
+  if (!m) return null;
+  const [y, mo, d, h, mi, s] = m.slice(1).map((x) => Number(x ?? 0));
+  const wall = Date.UTC(y!, mo! - 1, d!, h!, mi!, s ?? 0);
+  if (Number.isNaN(wall)) return null;
+  const zone = safeZone(timeZone);
+  let guess = wall;
+  for (let i = 0; i < 3; i++) {
+    const p = parts(new Date(guess), zone);
+    const seen = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
+    guess += wall - seen;
+  }
+  return new Date(guess);
+}
+
+/** "2 h 05 min", "12 min", "under a minute". */
+export function remainingWords(ms: number): string {
+  if (ms <= 0) return "now";
+  const totalMin = Math.floor(ms / 60_000);
+  if (totalMin < 1) return "under a minute";
+  const h = Math.floor(totalMin / 60);
+  const m = totalMin % 60;
+  return h > 0 ? `${h} h ${String(m).padStart(2, "0")} min` : `${m} min`;
+}

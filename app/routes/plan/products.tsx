@@ -1,0 +1,116 @@
+import { Form, data, redirect } from "react-router";
+import { chemicalName } from "~/components/plan/plan-ui";
+import { Button, Card, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
+import { FORMS, PACKAGE_UNITS, ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from "~/features/plan/catalogue.server";
+import { requireUser } from "~/lib/session.server";
+import type { Route } from "./+types/products";
+
+export const meta: Route.MetaFunction = () => [{ title: "Products · Dipwell" }];
+
+export async function loader({ context, request }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const entries = await ownerCatalogue(user.id);
+  const url = new URL(request.url);
+  return {
+    saved: url.searchParams.get("saved"),
+    products: entries
+      .filter((e) => e.base)
+      .map((e) => ({
+        id: e.product.id,
+        name: e.product.name,
+        chemical: e.product.chemical,
+        form: e.product.form,
+        strengthPercent: Math.round(e.product.strength * 10000) / 100,
+        densityGPerMl: e.product.densityGPerMl ?? null,
+        packageSize: e.product.packageSize.amount,
+        packageUnit: e.product.packageSize.unit,
+        edited: e.edited,
+        defaultStrengthPercent: Math.round(e.base!.strength * 10000) / 100,
+      })),
+  };
+}
+
+export async function action({ context, request }: Route.ActionArgs) {
+  const user = requireUser(context, request);
+  const form = await request.formData();
+  const intent = form.get("intent");
+  const catalogueId = String(form.get("catalogueId") ?? "");
+  if (intent === "reset") {
+    await resetProduct(user.id, catalogueId);
+    return redirect(`/products?saved=${encodeURIComponent(catalogueId)}`);
+  }
+  if (intent !== "save") return data({ catalogueId, fields: {} as Record<string, string>, form: "Unknown action." }, { status: 400 });
+  const parsed = parseProductEdit(form);
+  if (!parsed.ok) return data({ catalogueId, fields: parsed.fields, form: parsed.form ?? "Not saved: please fix what is marked." }, { status: 400 });
+  await saveProductEdit(user.id, parsed.values);
+  return redirect(`/products?saved=${encodeURIComponent(catalogueId)}`);
+}
+
+export default function ProductsPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { products, saved } = loaderData;
+  return (
+    <div className="space-y-5">
+      <PageTitle sub="The plan doses with these products. Copy the strength (percentage of active ingredient), form and package size from your product labels.">Products</PageTitle>
+      {products.map((p) => {
+        const mine = actionData?.catalogueId === p.id ? actionData : null;
+        const f = mine?.fields ?? {};
+        return (
+          <Card key={p.id} data-testid={`product-${p.id}`}>
+            <h2 className="text-lg font-bold">{p.name}</h2>
+            <p className="mb-3 text-sm text-ink-soft">
+              Active ingredient: {chemicalName(p.chemical)}
+              {p.edited ? ` · your copy (default strength ${p.defaultStrengthPercent} %)` : " · default catalogue entry"}
+            </p>
+            {saved === p.id && <Notice tone="ok" className="mb-3">Saved. The plan uses it from now on.</Notice>}
+            {mine?.form && <Notice tone="alert" className="mb-3">{mine.form}</Notice>}
+            <Form method="post" className="space-y-3">
+              <input type="hidden" name="intent" value="save" />
+              <input type="hidden" name="catalogueId" value={p.id} />
+              <Field label="Name" error={f.name}>
+                <Input name="name" defaultValue={p.name} />
+              </Field>
+              <div className="grid grid-cols-2 gap-3">
+                <Field label="Strength (%)" hint="active ingredient" error={f.strengthPercent}>
+                  <Input name="strengthPercent" inputMode="decimal" defaultValue={String(p.strengthPercent)} />
+                </Field>
+                <Field label="Form" error={f.form}>
+                  <Select name="form" defaultValue={p.form}>
+                    {FORMS.map((x) => (
+                      <option key={x} value={x}>{x}</option>
+                    ))}
+                  </Select>
+                </Field>
+                <Field label="Package size" error={f.packageSize}>
+                  <Input name="packageSize" inputMode="decimal" defaultValue={String(p.packageSize)} />
+                </Field>
+                <Field label="Unit" error={f.packageUnit}>
+                  <Select name="packageUnit" defaultValue={p.packageUnit}>
+                    {PACKAGE_UNITS.map((x) => (
+                      <option key={x} value={x}>{x}</option>
+                    ))}
+                  </Select>
+                </Field>
+                {p.form === "liquid" && (
+                  <Field label="Density (g/mL)" error={f.densityGPerMl}>
+                    <Input name="densityGPerMl" inputMode="decimal" defaultValue={p.densityGPerMl === null ? "" : String(p.densityGPerMl)} />
+                  </Field>
+                )}
+              </div>
+              <div className="flex flex-wrap gap-2">
+                <Button type="submit">Save</Button>
+              </div>
+            </Form>
+            {p.edited && (
+              <Form method="post" className="mt-2">
+                <input type="hidden" name="intent" value="reset" />
+                <input type="hidden" name="catalogueId" value={p.id} />
+                <Button type="submit" variant="quiet">Back to the default</Button>
+              </Form>
+            )}
+          </Card>
+        );
+      })}
+      <Notice tone="info">Product labels decide: follow the label's own amounts and cautions where they differ from the plan.</Notice>
+    </div>
+  );
+}

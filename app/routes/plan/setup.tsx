@@ -1,0 +1,162 @@
+import { Form, data, redirect } from "react-router";
+import type { RoutineStep } from "~/chemistry";
+import { Cautions, RetestTimer, TubTabs } from "~/components/plan/plan-ui";
+import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
+import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
+import { dayAndClock, longDate } from "~/features/plan/time";
+import { requireUser } from "~/lib/session.server";
+import { requireTub } from "~/lib/tubs.server";
+import type { Route } from "./+types/setup";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Routines · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  return { ...(await setupView(tub)), relation };
+}
+
+export async function action({ context, request, params }: Route.ActionArgs) {
+  const user = requireUser(context, request);
+  const { tub } = await requireTub(user, params.tubId, "care");
+  const form = await request.formData();
+  const intent = form.get("intent");
+  let result;
+  if (intent === "start") result = await startRun(tub);
+  else if (intent === "step") {
+    const index = Number(form.get("step"));
+    if (!Number.isInteger(index) || index < 0) return data({ form: "That step does not exist." }, { status: 400 });
+    result = await finishStep(tub, user.id, index);
+  } else if (intent === "complete") result = await completeSetup(tub);
+  else if (intent === "refilled") result = await refilled(tub);
+  else return data({ form: "Unknown action." }, { status: 400 });
+  if (!result.ok) return data({ form: result.form }, { status: 400 });
+  return redirect(`/tubs/${tub.id}/setup`);
+}
+
+function amount(s: RoutineStep) {
+  if (s.millilitres !== null) return `${s.millilitres} mL`;
+  if (s.grams !== null) return `${s.grams} g`;
+  return null;
+}
+
+function RoutineList({ steps }: { steps: RoutineStep[] }) {
+  return (
+    <ol className="space-y-3">
+      {steps.map((s) => (
+        <li key={s.order} className="rounded-xl border border-line p-3">
+          <p>
+            <strong>{s.order}.</strong> {s.words}
+          </p>
+          {amount(s) && <p className="mt-1 font-bold text-well-900">Amount: {amount(s)}</p>}
+          {s.timerMinutes ? <p className="text-sm text-ink-soft">Then wait {s.timerMinutes >= 60 ? `${s.timerMinutes / 60} h` : `${s.timerMinutes} min`}.</p> : null}
+          {s.cautions.length > 0 && <div className="mt-2"><Cautions items={s.cautions} /></div>}
+        </li>
+      ))}
+    </ol>
+  );
+}
+
+export default function SetupPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tub, run, steps, timer, readiness, topUp, foam, drain, now, stepsError } = loaderData;
+  const current = run?.stepIndex ?? -1;
+  const last = steps.length - 1;
+  return (
+    <div className="space-y-5">
+      <TubTabs tubId={tub.id} active="setup" />
+      <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser}`}>Routines · {tub.name}</PageTitle>
+      {actionData?.form && <Notice tone="alert">{actionData.form}</Notice>}
+
+      <Card>
+        <h2 className="mb-1 text-xl font-bold text-well-900">First-fill setup</h2>
+        {tub.firstFillCompletedAt && !run ? (
+          <Notice tone="ok">First-fill setup finished {dayAndClock(tub.firstFillCompletedAt, tub.timeZone)}. Use the plan for day-to-day care.</Notice>
+        ) : !run ? (
+          <>
+            <Notice tone="caution" className="mb-3">
+              <p className="font-bold">New here? Start with the first-fill setup.</p>
+              <p>It guides you one product at a time: sanitiser, wait, alkalinity, wait, pH, wait; the tub is ready when every pad is in range.</p>
+            </Notice>
+            <Form method="post">
+              <input type="hidden" name="intent" value="start" />
+              <Button type="submit">Start the first-fill setup</Button>
+            </Form>
+          </>
+        ) : null}
+        {stepsError && <Notice tone="alert">{stepsError}</Notice>}
+        {run && (
+          <>
+            {timer && <div className="my-3"><RetestTimer retestAt={timer.endsAt} clock={timer.clock} now={now} label="Timer for the last step" /></div>}
+            <ol className="mt-3 space-y-3">
+              {steps.map((s, i) => {
+                const state = i < current ? "done" : i === current ? "current" : "later";
+                return (
+                  <li key={s.order} data-testid="setup-step" className={cx("rounded-xl border p-3", state === "current" ? "border-well-500 ring-2 ring-well-100" : "border-line", state === "done" && "opacity-70")}>
+                    <p>
+                      <strong>{state === "done" ? "✓" : `${s.order}.`}</strong> {s.words}
+                    </p>
+                    {amount(s) && <p className="mt-1 font-bold text-well-900">Amount: {amount(s)}</p>}
+                    {s.timerMinutes ? <p className="text-sm text-ink-soft">Timer: {s.timerMinutes >= 60 ? `${s.timerMinutes / 60} h` : `${s.timerMinutes} min`} after this step.</p> : null}
+                    {s.cautions.length > 0 && state !== "done" && <div className="mt-2"><Cautions items={s.cautions} /></div>}
+                    {state === "current" && i < last && (
+                      <Form method="post" className="mt-2">
+                        <input type="hidden" name="intent" value="step" />
+                        <input type="hidden" name="step" value={i} />
+                        <Button type="submit" disabled={Boolean(timer)}>{amount(s) ? "I added this" : "Done"}{s.timerMinutes ? ", start the timer" : ""}</Button>
+                      </Form>
+                    )}
+                    {state === "current" && i === last && (
+                      <div className="mt-2 space-y-2">
+                        {readiness.ready ? <Notice tone="ok">Every pad is in range.</Notice> : <Notice tone="caution">{readiness.reasons.join(" ")}</Notice>}
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="complete" />
+                          <Button type="submit" disabled={!readiness.ready}>The tub is ready</Button>
+                        </Form>
+                      </div>
+                    )}
+                  </li>
+                );
+              })}
+            </ol>
+          </>
+        )}
+      </Card>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">Drain and refill</h2>
+        {drain.days === null ? (
+          <p>Set the number of bathers per day for this tub to see the interval.</p>
+        ) : (
+          <>
+            <p>
+              About every <strong>{drain.days} days</strong> for {Math.round(tub.volumeLitres)} L at {tub.bathersPerDay} bathers a day (volume in US gallons ÷ 3 ÷ bathers per day, Maine 10-144 CMR ch. 202 App. B).
+            </p>
+            {drain.dueOn ? (
+              <p className={cx("mt-1 font-bold", drain.overdue ? "text-alert" : "text-well-900")}>
+                {drain.overdue ? "Overdue since" : "Next due"} {longDate(drain.dueOn)} (filled {longDate(tub.fillDate!)}).
+              </p>
+            ) : (
+              <p className="mt-1 text-ink-soft">No fill date recorded yet.</p>
+            )}
+          </>
+        )}
+        <Form method="post" className="mt-3" onSubmit={(e) => { if (!confirm("Record a drain and refill today? The first-fill setup starts again.")) e.preventDefault(); }}>
+          <input type="hidden" name="intent" value="refilled" />
+          <Button type="submit" variant="secondary">I drained and refilled today</Button>
+        </Form>
+      </Card>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">Routine top-ups</h2>
+        <RoutineList steps={topUp} />
+      </Card>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">Foam</h2>
+        <RoutineList steps={foam} />
+      </Card>
+
+      <Notice tone="info">Product labels, local codes and, for public or commercial spas, licensed operators decide; this is guidance for a private tub.</Notice>
+    </div>
+  );
+}

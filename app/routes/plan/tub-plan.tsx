@@ -1,0 +1,178 @@
+import { Form, data, redirect, useNavigation } from "react-router";
+import { AUTHORITY_NOTE, DEFAULT_TARGETS } from "~/chemistry";
+import { BalanceCard, FirstFillPrompt, PARAMETER_NAMES, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
+import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components/ui";
+import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS, parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
+import { dayAndClock } from "~/features/plan/time";
+import { requireUser } from "~/lib/session.server";
+import { requireTub } from "~/lib/tubs.server";
+import type { Route } from "./+types/tub-plan";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Plan · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const url = new URL(request.url);
+  const whatIf = parseWhatIf(url.searchParams);
+  const view = await tubPlan(tub, { whatIf: whatIf.readings });
+  return { ...view, relation, whatIfError: whatIf.error, whatIfValues: whatIf.readings || whatIf.error ? Object.fromEntries(url.searchParams) : null, saved: url.searchParams.get("saved") === "targets" };
+}
+
+export async function action({ context, request, params }: Route.ActionArgs) {
+  const user = requireUser(context, request);
+  const { tub } = await requireTub(user, params.tubId, "care");
+  const form = await request.formData();
+  const intent = form.get("intent");
+  if (intent === "reset-targets") {
+    await saveTargets(tub.id, {});
+    return redirect(`/tubs/${tub.id}/plan?saved=targets`);
+  }
+  if (intent === "targets") {
+    const parsed = parseTargets(tub, form);
+    if (!parsed.ok) return data({ fields: parsed.fields, form: "Some target ranges need fixing; nothing was saved." }, { status: 400 });
+    await saveTargets(tub.id, parsed.targets);
+    return redirect(`/tubs/${tub.id}/plan?saved=targets`);
+  }
+  return data({ fields: {} as Record<string, string>, form: "Unknown action." }, { status: 400 });
+}
+
+const fmtValue = (analyte: string, v: number) => (analyte === "ph" ? v.toFixed(1) : String(Math.round(v * 10) / 10));
+
+export default function TubPlanPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tub, plan, reading, source, error, targets, overridden, timer, now, whatIfError, whatIfValues, saved } = loaderData;
+  const nav = useNavigation();
+  const firstDose = plan?.steps.find((s) => s.kind === "dose" || s.kind === "replace_water");
+  const waiting = plan?.steps[0]?.kind === "wait";
+  const here = `/tubs/${tub.id}/plan`;
+  const params = TARGET_PARAMETERS(tub.sanitiser);
+
+  return (
+    <div className="space-y-5">
+      <TubTabs tubId={tub.id} active="plan" />
+      <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser === "chlorine" ? "chlorine" : "bromine"} · ${tub.temperatureC} °C`}>Treatment plan · {tub.name}</PageTitle>
+      {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
+
+      {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />}
+
+      <Card>
+        <h2 className="mb-1 text-lg font-bold">From which reading</h2>
+        {source === "what-if" ? (
+          <Notice tone="caution">What-if plan from the values you entered below; nothing is saved. <a href={here}>Back to the latest reading</a>.</Notice>
+        ) : reading ? (
+          <>
+            <p data-testid="reading-source">
+              Reading of <strong>{dayAndClock(reading.takenAt, tub.timeZone)}</strong> ({tub.timeZone}){reading.confirmed ? ", confirmed" : ", not confirmed yet"}.
+            </p>
+            {!reading.confirmed && <p className="text-sm text-caution">Confirm the pads on the reading screen first if any look wrong; the plan uses the values as read.</p>}
+            <ul className="mt-2 flex flex-wrap gap-2 text-sm">
+              {reading.pads.map((p) => (
+                <li key={p.analyte} className="rounded-lg bg-sand px-2 py-1">
+                  {PARAMETER_NAMES[p.analyte] ?? p.analyte} <strong>{fmtValue(p.analyte, p.value)}</strong>
+                </li>
+              ))}
+            </ul>
+          </>
+        ) : (
+          <p>No reading yet. Test the water with a strip, or enter values by hand below for a what-if plan.</p>
+        )}
+      </Card>
+
+      {error && <Notice tone="alert">{error}</Notice>}
+
+      {plan && (
+        <>
+          <section aria-labelledby="steps-title">
+            <h2 id="steps-title" className="mb-2 text-xl font-bold text-well-900">
+              {plan.steps.length === 0 ? "Nothing to add" : waiting ? "Wait before the next step" : "Do these steps in order, one at a time"}
+            </h2>
+            {plan.steps.length === 0 ? (
+              <EmptyState title="Every measured pad is in range">Nothing to add now. Test again before the next use.</EmptyState>
+            ) : (
+              <ol className="space-y-3">
+                {plan.steps.map((s) => (
+                  <StepCard key={s.order} step={s} tubId={tub.id} readingId={source === "reading" ? reading?.id : null} canLog={source === "reading" || source === "what-if"} current={s === firstDose && !waiting} redirectTo={here} />
+                ))}
+              </ol>
+            )}
+          </section>
+
+          <BalanceCard balance={plan.waterBalance} />
+
+          <Card>
+            <h2 className="mb-2 text-lg font-bold">Good to know</h2>
+            <ul className="list-disc space-y-1 pl-5">
+              {plan.notes.filter((n) => n !== AUTHORITY_NOTE).map((n) => (
+                <li key={n}>{n}</li>
+              ))}
+            </ul>
+          </Card>
+        </>
+      )}
+
+      <Notice tone="info">
+        <strong>Who decides:</strong> {AUTHORITY_NOTE}
+      </Notice>
+
+      <Card>
+        <h2 className="mb-1 text-lg font-bold">What-if: enter readings by hand</h2>
+        <p className="mb-3 text-sm text-ink-soft">See the plan for other values without saving them. Leave a box empty if you did not measure it.</p>
+        <Form method="get" className="grid grid-cols-2 gap-3">
+          <input type="hidden" name="whatif" value="1" />
+          {READING_KEYS.filter((k) => (tub.sanitiser === "chlorine" ? k !== "bromine" : k !== "free_chlorine" && k !== "total_chlorine" && k !== "cyanuric_acid")).map((k) => (
+            <label key={k} className="block text-sm">
+              <span className="block font-bold">{READING_LABELS[k]}</span>
+              <Input name={k} inputMode="decimal" defaultValue={whatIfValues?.[k] ?? (reading?.readings as Record<string, number | undefined> | undefined)?.[k]?.toString() ?? ""} />
+            </label>
+          ))}
+          {whatIfError && <p role="alert" className="col-span-2 font-bold text-alert">{whatIfError}</p>}
+          <Button type="submit" variant="secondary" className="col-span-2">Show the what-if plan</Button>
+        </Form>
+      </Card>
+
+      <Card>
+        <h2 className="mb-1 text-lg font-bold">Target ranges for this tub</h2>
+        <p className="mb-3 text-sm text-ink-soft">The plan aims inside these ranges. Change them only if your installer or product labels say so.</p>
+        {saved && <Notice tone="ok" className="mb-3">Target ranges saved.</Notice>}
+        {actionData?.form && <Notice tone="alert" className="mb-3">{actionData.form}</Notice>}
+        <Form method="post" className="space-y-4">
+          <input type="hidden" name="intent" value="targets" />
+          {params.map((p) => {
+            const r = targets[p];
+            const def = DEFAULT_TARGETS[tub.sanitiser][p];
+            const err = actionData?.fields?.[p];
+            return (
+              <fieldset key={p} className="rounded-xl border border-line p-3">
+                <legend className="px-1 font-bold">{PARAMETER_NAMES[p]}{p === "ph" ? "" : " (mg/L)"}</legend>
+                <div className="grid grid-cols-2 gap-3">
+                  <label className="text-sm">
+                    <span className="block">Lowest</span>
+                    <Input name={`${p}.min`} inputMode="decimal" defaultValue={String(r.min)} aria-label={`${PARAMETER_NAMES[p]} lowest`} />
+                  </label>
+                  <label className="text-sm">
+                    <span className="block">Highest</span>
+                    <Input name={`${p}.max`} inputMode="decimal" defaultValue={String(r.max)} aria-label={`${PARAMETER_NAMES[p]} highest`} />
+                  </label>
+                </div>
+                <p className="mt-1 text-xs text-ink-soft">
+                  {overridden.includes(p) ? `Set for this tub. Default ${def.min}–${def.max}: ` : `Default ${def.min}–${def.max}: `}
+                  {def.source}
+                </p>
+                {err && <p role="alert" className="mt-1 text-sm font-bold text-alert">{err}</p>}
+              </fieldset>
+            );
+          })}
+          <div className="flex flex-wrap gap-2">
+            <Button type="submit" disabled={nav.state !== "idle"}>Save target ranges</Button>
+          </div>
+        </Form>
+        {overridden.length > 0 && (
+          <Form method="post" className="mt-2">
+            <input type="hidden" name="intent" value="reset-targets" />
+            <Button type="submit" variant="quiet">Back to the default ranges</Button>
+          </Form>
+        )}
+      </Card>
+    </div>
+  );
+}
