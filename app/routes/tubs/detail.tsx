@@ -1,9 +1,11 @@
-import { desc, eq, inArray } from "drizzle-orm";
-import { Card, EmptyState, PageTitle } from "~/components/ui";
-import { reading, readingPad } from "~/db/schema";
+import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { latestReading } from "~/features/readings/readings.server";
+import { currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
 import { db } from "~/lib/db.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
+import { stripChart } from "~/db/schema";
+import { eq } from "drizzle-orm";
 import type { Route } from "./+types/detail";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
@@ -11,41 +13,101 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderD
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub, relation } = await requireTub(user, params.tubId, "view");
-  const recent = await db.select().from(reading).where(eq(reading.tubId, tub.id)).orderBy(desc(reading.takenAt)).limit(5);
-  const pads = recent.length
-    ? await db.select().from(readingPad).where(inArray(readingPad.readingId, recent.map((r) => r.id)))
-    : [];
+  const current = await currentChartFor(tub);
+  const chart = current ? await db.query.stripChart.findFirst({ where: eq(stripChart.id, current.batch.chartId) }) : null;
+  const url = new URL(request.url);
   return {
     relation,
-    tub: { id: tub.id, name: tub.name, volumeLitres: tub.volumeLitres, sanitiser: tub.sanitiser, timeZone: tub.timeZone },
-    readings: recent.map((r) => ({
-      id: r.id, takenAt: r.takenAt.toISOString(), status: r.status,
-      pads: pads.filter((p) => p.readingId === r.id).map((p) => ({ analyte: p.analyte, unit: p.unit, value: p.confirmedValue ?? p.readValue })),
-    })),
+    notice: url.searchParams.has("added") ? "Your tub is added. Take your first reading when you are ready." : url.searchParams.has("saved") ? "Changes saved." : null,
+    tub: {
+      id: tub.id, name: tub.name, volume: displayVolume(tub), sanitiser: tub.sanitiser, timeZone: tub.timeZone, archived: Boolean(tub.archivedAt),
+      strips: current ? `${chart?.name ?? "Strip chart"} · lot ${current.batch.lot}` : null,
+    },
+    targets: tubTargets(tub),
+    latest: await latestReading(tub),
   };
 }
 
 export default function TubDetail({ loaderData }: Route.ComponentProps) {
-  const { tub, readings } = loaderData;
+  const { tub, latest, targets, relation, notice } = loaderData;
+  const base = `/tubs/${tub.id}`;
+  const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
   return (
     <div className="space-y-5">
-      <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser === "chlorine" ? "Chlorine" : "Bromine"}`}>{tub.name}</PageTitle>
+      <a href="/tubs" className="text-sm">← All tubs</a>
+      {notice && <Notice tone="ok">{notice}</Notice>}
+      {tub.archived && <Notice tone="caution">This tub is archived. Its history is kept; restore it from the settings to use it again.</Notice>}
+      <PageTitle sub={`${tub.volume} · ${tub.sanitiser === "chlorine" ? "Chlorine" : "Bromine"}${tub.strips ? ` · ${tub.strips}` : ""}`}>{tub.name}</PageTitle>
+      {!tub.strips && (
+        <Notice tone="caution">
+          Choose the test strips you use in the <a href={`${base}/edit`}>tub settings</a> so Dipwell can read your photos.
+        </Notice>
+      )}
+      <div className="flex flex-wrap gap-3">
+        {relation !== null && <ButtonLink href={`${base}/read`} className="w-full sm:w-auto">New reading</ButtonLink>}
+        <ButtonLink href={`${base}/plan`} variant="secondary" className="flex-1 sm:flex-none">Next safe step</ButtonLink>
+      </div>
+
       <Card>
-        <h2 className="mb-2 text-lg font-bold">Recent readings</h2>
-        {readings.length === 0 ? (
-          <EmptyState title="No readings yet">Dip a test strip and photograph it to see your water here.</EmptyState>
+        <h2 className="mb-2 text-lg font-bold">Latest reading</h2>
+        {!latest ? (
+          <EmptyState title="No readings yet">Dip a test strip and photograph it with “New reading” to see your water here.</EmptyState>
         ) : (
-          <ul className="divide-y divide-line">
-            {readings.map((r) => (
-              <li key={r.id} className="py-2">
-                <p className="font-bold">{new Date(r.takenAt).toLocaleString("en-GB", { timeZone: tub.timeZone })}</p>
-                <p className="text-sm text-ink-soft">
-                  {r.pads.map((p) => `${p.analyte.replace(/_/g, " ")} ${p.value ?? "–"}`).join(" · ")}
-                </p>
-              </li>
-            ))}
-          </ul>
+          <div>
+            <p className="text-ink-soft">
+              {fmt(latest.takenAt)} · {latest.status === "confirmed" ? "confirmed" : latest.status === "failed" ? "could not be read" : "waiting for you to check it"}
+            </p>
+            {latest.pads.length > 0 ? (
+              <dl className="mt-2 grid grid-cols-2 gap-2 sm:grid-cols-3" data-testid="latest-values">
+                {latest.pads.map((p) => (
+                  <div key={p.analyte} className="rounded-xl bg-sand p-3">
+                    <dt className="text-sm text-ink-soft">{p.label}</dt>
+                    <dd className="text-lg font-bold">{p.value ?? "–"} <span className="text-sm font-normal">{p.unit}</span>{p.needsReview && <span className="ml-1 text-sm text-caution">check</span>}</dd>
+                  </div>
+                ))}
+              </dl>
+            ) : (
+              <p className="mt-2">{latest.error ?? "No values yet."}</p>
+            )}
+            {latest.status !== "confirmed" && (
+              <a href={`${base}/readings/${latest.id}`} className="mt-3 inline-block font-bold">Check and confirm this reading →</a>
+            )}
+          </div>
         )}
+      </Card>
+
+      <nav aria-label="This tub" className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+        {[
+          ["History", `${base}/history`],
+          ["Trends", `${base}/trends`],
+          ["Treatments", `${base}/treatments`],
+          ["First-fill setup", `${base}/setup`],
+          ["Visit notes", `${base}/notes`],
+          ...(relation === "owner" || relation === "admin" ? [["Sharing", `${base}/sharing`], ["Settings", `${base}/edit`]] : []),
+        ].map(([label, href]) => (
+          <a key={href} href={href} className="rounded-xl border border-line bg-shell px-4 py-3 text-center font-bold no-underline hover:border-well-300">
+            {label}
+          </a>
+        ))}
+      </nav>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">Target ranges</h2>
+        <table className="w-full text-left" data-testid="targets">
+          <thead className="text-sm text-ink-soft">
+            <tr><th className="py-1">Parameter</th><th>Keep between</th><th>Aim</th></tr>
+          </thead>
+          <tbody className="divide-y divide-line">
+            {targets.map((t) => (
+              <tr key={t.parameter} title={t.source}>
+                <td className="py-2">{t.label}</td>
+                <td>{t.min}–{t.max}{t.parameter === "ph" ? "" : " mg/L"}</td>
+                <td>{t.aim}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <p className="mt-2 text-sm text-ink-soft">Ranges follow published public-health guidance; product labels and local codes come first.</p>
       </Card>
     </div>
   );

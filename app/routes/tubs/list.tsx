@@ -1,4 +1,4 @@
-import { Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { hasRole } from "~/lib/permissions";
 import { requireUser } from "~/lib/session.server";
 import { listTubs, ownerNames } from "~/lib/tubs.server";
@@ -8,10 +8,14 @@ export const meta: Route.MetaFunction = () => [{ title: "Tubs · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireUser(context, request);
-  const tubs = await listTubs(user);
+  const all = await listTubs(user, { includeArchived: true });
+  const tubs = all.filter((t) => !t.archivedAt);
+  const archived = all.filter((t) => t.archivedAt && t.ownerId === user.id).map((t) => ({ id: t.id, name: t.name }));
   const names = await ownerNames([...new Set(tubs.map((t) => t.ownerId))]);
   return {
     verified: new URL(request.url).searchParams.has("verified"),
+    justArchived: new URL(request.url).searchParams.has("archived"),
+    archived,
     isTechnician: hasRole(user, "technician", "admin"),
     tubs: tubs.map((t) => ({
       id: t.id, name: t.name, volumeLitres: t.volumeLitres, sanitiser: t.sanitiser,
@@ -21,22 +25,34 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 }
 
 export default function TubList({ loaderData }: Route.ComponentProps) {
-  const { tubs, isTechnician, verified } = loaderData;
+  const { tubs, isTechnician, verified, archived, justArchived } = loaderData;
   const mine = tubs.filter((t) => t.mine);
   const clients = tubs.filter((t) => !t.mine);
   return (
     <div className="space-y-6">
       {verified && <Notice tone="ok">Your e-mail address is confirmed. Welcome to Dipwell.</Notice>}
+      {justArchived && <Notice>The tub is archived. Its readings are kept; you can restore it below.</Notice>}
       <PageTitle sub="Every tub you look after, with its water at a glance.">Tubs</PageTitle>
+      <ButtonLink href="/tubs/new" className="w-full sm:w-auto">Add a tub</ButtonLink>
       {(!isTechnician || mine.length > 0) && (
         <section aria-labelledby="own-tubs" className="space-y-3">
           <h2 id="own-tubs" className="text-lg font-bold">Your tubs</h2>
           {mine.length === 0 ? (
-            <EmptyState title="No tubs yet">Add your hot tub to start reading test strips and get treatment steps.</EmptyState>
+            <EmptyState title="No tubs yet" action={<ButtonLink href="/tubs/new">Add your first tub</ButtonLink>}>Add your hot tub to start reading test strips and get treatment steps.</EmptyState>
           ) : (
             <TubCards tubs={mine} />
           )}
         </section>
+      )}
+      {archived.length > 0 && (
+        <details className="text-ink-soft">
+          <summary className="cursor-pointer font-bold">Archived tubs ({archived.length})</summary>
+          <ul className="mt-2 space-y-1">
+            {archived.map((t) => (
+              <li key={t.id}><a href={`/tubs/${t.id}/edit`}>{t.name}</a></li>
+            ))}
+          </ul>
+        </details>
       )}
       {isTechnician && (
         <section aria-labelledby="client-tubs" className="space-y-3">

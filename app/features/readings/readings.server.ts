@@ -1,0 +1,379 @@
+// Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
+// the reader run, the owner's review, history, CSV and trends.
+import { createHash, randomUUID } from "node:crypto";
+import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
+import sharp from "sharp";
+import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
+import { chartVersion, photo, reading, readingPad, treatment, user as userTable } from "~/db/schema";
+import type { SessionUser } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { env } from "~/lib/env.server";
+import { getObjectBytes, headObject, presignUpload, putObject } from "~/lib/storage.server";
+import type { Tub } from "~/lib/tubs.server";
+import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
+
+export const PHOTO_TYPES: Record<string, { ext: string; sharpFormat: string }> = {
+  "image/jpeg": { ext: "jpg", sharpFormat: "jpeg" },
+  "image/png": { ext: "png", sharpFormat: "png" },
+  "image/webp": { ext: "webp", sharpFormat: "webp" },
+};
+
+/** A refusal the owner sees, in plain words, with the HTTP status it goes out with. */
+export class PhotoError extends Error {
+  constructor(
+    public code: string,
+    message: string,
+    public status = 400,
+  ) {
+    super(message);
+  }
+}
+
+export const maxPhotoBytes = () => env().MAX_PHOTO_BYTES;
+export const formatMb = (bytes: number) => `${Math.round((bytes / 1024 / 1024) * 10) / 10} MB`;
+
+function checkTypeAndSize(contentType: string, size: number) {
+  if (!PHOTO_TYPES[contentType]) {
+    throw new PhotoError("wrong_type", "That file is not a photo Dipwell can read. Choose a JPEG, PNG or WebP photo (on an iPhone, set Camera › Formats to “Most Compatible”).");
+  }
+  if (!Number.isFinite(size) || size <= 0) throw new PhotoError("empty", "That file is empty. Take the photo again.");
+  if (size > maxPhotoBytes()) {
+    throw new PhotoError("too_large", `That photo is ${formatMb(size)}; the largest Dipwell accepts is ${formatMb(maxPhotoBytes())}. Take it again at a lower resolution, or crop it around the strip.`);
+  }
+}
+
+const uploadPrefix = (tubId: string) => `tubs/${tubId}/uploads/`;
+
+/** A presigned PUT for one photo of this tub; checks the type and size the browser declares. */
+export async function presignPhotoUpload(t: Tub, contentType: string, size: number) {
+  checkTypeAndSize(contentType, size);
+  if (!t.batchId) throw new PhotoError("no_batch", "Choose the strip batch you use in the tub's settings first, so Dipwell knows which colour chart to read with.");
+  const key = `${uploadPrefix(t.id)}${randomUUID()}.${PHOTO_TYPES[contentType].ext}`;
+  return { key, url: await presignUpload(key, contentType), contentType };
+}
+
+export type RegisterResult = { readingId: string; photoId: string; status: string; duplicate: boolean };
+
+/**
+ * Registers an uploaded photo: checks the object in storage (size, type, decodes it), hashes it,
+ * returns the existing reading for the same photo of this tub, or reads it and stores the reading.
+ * The photo row is kept whatever the reader says.
+ */
+export async function registerPhoto(user: SessionUser, t: Tub, key: string): Promise<RegisterResult> {
+  if (typeof key !== "string" || !key.startsWith(uploadPrefix(t.id)) || !/^[0-9a-f-]{36}\.(jpg|png|webp)$/.test(key.slice(uploadPrefix(t.id).length))) {
+    throw new PhotoError("bad_key", "That upload does not belong to this tub. Start again from “New reading”.");
+  }
+  const head = await headObject(key);
+  if (!head) throw new PhotoError("missing_upload", "The photo did not arrive: the upload stopped before it finished. Press “Try the upload again”; you do not need a new photo.", 409);
+  checkTypeAndSize(head.contentType, head.size);
+  const bytes = await getObjectBytes(key);
+  if (bytes.length !== head.size) throw new PhotoError("missing_upload", "Only part of the photo arrived. Press “Try the upload again”.", 409);
+
+  let meta: Awaited<ReturnType<ReturnType<typeof sharp>["metadata"]>>;
+  try {
+    meta = await sharp(bytes).metadata();
+  } catch {
+    throw new PhotoError("not_image", "That file could not be opened as a photo. It may be damaged or not a picture. Take the photo again.");
+  }
+  if (meta.format !== PHOTO_TYPES[head.contentType].sharpFormat && !(meta.format === "jpeg" && head.contentType === "image/jpeg")) {
+    throw new PhotoError("wrong_type", "That file is not the kind of photo it claims to be. Choose a JPEG, PNG or WebP photo.");
+  }
+  const sha256 = createHash("sha256").update(bytes).digest("hex");
+
+  const existing = await findReadingForHash(t.id, sha256);
+  if (existing) return { ...existing, duplicate: true };
+
+  const width = meta.autoOrient?.width ?? meta.width ?? null;
+  const height = meta.autoOrient?.height ?? meta.height ?? null;
+  let photoRow;
+  try {
+    [photoRow] = await db
+      .insert(photo)
+      .values({ tubId: t.id, batchId: t.batchId, purpose: "strip", uploaderId: user.id, s3Key: key, contentType: head.contentType, sizeBytes: head.size, sha256, width, height })
+      .returning();
+  } catch (error) {
+    // The same photo registered at the same moment (a double submit): answer with that one.
+    if ((error as { code?: string; cause?: { code?: string } }).code === "23505" || (error as { cause?: { code?: string } }).cause?.code === "23505") {
+      const again = await waitForReading(t.id, sha256);
+      if (again) return { ...again, duplicate: true };
+    }
+    throw error;
+  }
+  return { ...(await readAndStore(user, t, photoRow.id, bytes)), duplicate: false };
+}
+
+async function findReadingForHash(tubId: string, sha256: string) {
+  const found = await db.query.photo.findFirst({ where: and(eq(photo.tubId, tubId), eq(photo.sha256, sha256)) });
+  if (!found) return null;
+  const r = await db.query.reading.findFirst({ where: eq(reading.photoId, found.id) });
+  if (!r) return null;
+  return { readingId: r.id, photoId: found.id, status: r.status };
+}
+
+async function waitForReading(tubId: string, sha256: string) {
+  for (let i = 0; i < 60; i++) {
+    const found = await findReadingForHash(tubId, sha256);
+    if (found) return found;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  return null;
+}
+
+async function readAndStore(user: SessionUser, t: Tub, photoId: string, bytes: Buffer) {
+  const current = await currentChartFor(t);
+  const base = { tubId: t.id, photoId, batchId: t.batchId, chartVersionId: current?.version.id ?? null, createdBy: user.id };
+  if (!current) {
+    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: "This tub has no strip batch chosen, so there was no colour chart to read with. Enter the values by hand below, or choose the batch in the tub's settings." }).returning();
+    return { readingId: r.id, photoId, status: r.status };
+  }
+  let chart: StripChart;
+  try {
+    chart = parseChart(current.version.definition);
+  } catch {
+    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: "The colour chart of this strip batch could not be used. Enter the values by hand below and ask your technician to check the chart." }).returning();
+    return { readingId: r.id, photoId, status: r.status };
+  }
+  try {
+    const result = await readStrip(bytes, chart, { crops: true });
+    return await db.transaction(async (tx) => {
+      const needsReview = result.pads.some((p) => p.needsReview);
+      const [r] = await tx
+        .insert(reading)
+        .values({ ...base, status: "read", needsReview, detail: { warnings: result.warnings, strip: result.strip, imageSize: result.imageSize } })
+        .returning();
+      const pads = [];
+      for (const p of result.pads) {
+        let cropKey: string | null = null;
+        if (p.crop) {
+          cropKey = `tubs/${t.id}/crops/${r.id}/${p.analyte}.webp`;
+          await putObject(cropKey, p.crop, "image/webp");
+        }
+        pads.push({
+          readingId: r.id, analyte: p.analyte, unit: p.unit, readValue: p.value, confidence: p.confidence, needsReview: p.needsReview,
+          reviewReason: p.reason ?? null, lab: p.lab, swatchIndex: p.swatchIndex, cropKey, source: "auto",
+        });
+      }
+      if (pads.length) await tx.insert(readingPad).values(pads);
+      return { readingId: r.id, photoId, status: r.status };
+    });
+  } catch (error) {
+    const message =
+      error instanceof ReadingError
+        ? error.message
+        : "Something went wrong while reading the photo. Enter the values by hand below, or take a new photo.";
+    if (!(error instanceof ReadingError)) console.error("reading failed", error);
+    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: message, detail: error instanceof ReadingError ? { code: error.code } : null }).returning();
+    return { readingId: r.id, photoId, status: r.status };
+  }
+}
+
+/** Everything the review screen needs: pads with crops and the chart's swatches. */
+export async function loadReview(t: Tub, readingId: string | undefined) {
+  if (!readingId || !/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)) });
+  if (!r) return null;
+  const pads = await db.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+  let chart: StripChart | null = null;
+  const versionId = r.chartVersionId ?? (await currentChartFor(t))?.version.id;
+  if (versionId) {
+    const v = await db.query.chartVersion.findFirst({ where: eq(chartVersion.id, versionId) });
+    if (v) {
+      try {
+        chart = parseChart(v.definition);
+      } catch {
+        chart = null;
+      }
+    }
+  }
+  const confirmer = r.confirmedBy ? await db.query.user.findFirst({ where: eq(userTable.id, r.confirmedBy) }) : null;
+  const chartPads = chart?.pads ?? [];
+  const analytes = chartPads.length ? chartPads.map((p) => p.analyte) : pads.map((p) => p.analyte);
+  const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
+  return {
+    reading: {
+      id: r.id, status: r.status, error: r.error, takenAt: r.takenAt.toISOString(), photoId: r.photoId, needsReview: r.needsReview,
+      warnings: ((r.detail as { warnings?: string[] } | null)?.warnings ?? []) as string[],
+      confirmedBy: confirmer?.name ?? null, confirmedAt: r.confirmedAt?.toISOString() ?? null,
+    },
+    pads: analytes.map((analyte) => {
+      const cp = chartPads.find((p) => p.analyte === analyte);
+      const p = pads.find((x) => x.analyte === analyte);
+      const target = targets.get(analyte);
+      return {
+        analyte,
+        label: cp?.label ?? parameterLabel(analyte),
+        unit: cp?.unit ?? p?.unit ?? "",
+        swatches: cp?.swatches.map((s) => ({ value: s.value, color: s.color })) ?? [],
+        readValue: p?.readValue ?? null,
+        confidence: p?.confidence ?? null,
+        needsReview: p ? p.needsReview : true,
+        reason: p?.reviewReason ?? null,
+        hasCrop: Boolean(p?.cropKey),
+        confirmedValue: p?.confirmedValue ?? null,
+        source: p?.source ?? null,
+        target: target ? { min: target.min, max: target.max } : null,
+      };
+    }),
+  };
+}
+
+/** Plausible bounds per parameter, for typed values (common practice: the widest ranges strips print). */
+function bounds(analyte: string) {
+  if (analyte === "ph") return { min: 0, max: 14 };
+  return { min: 0, max: 5000 };
+}
+
+/**
+ * The owner's confirmation: for each pad, the value they accept (as read, a tapped swatch or a
+ * typed number). Keeps the reader's value beside it.
+ */
+export async function confirmReading(user: SessionUser, t: Tub, readingId: string | undefined, form: FormData) {
+  const review = await loadReview(t, readingId);
+  if (!review) return { ok: false as const, notFound: true, fields: {} as Record<string, string>, form: "" };
+  const fields: Record<string, string> = {};
+  const values: { analyte: string; unit: string; value: number; source: string }[] = [];
+  for (const pad of review.pads) {
+    const typed = String(form.get(`typed:${pad.analyte}`) ?? "").trim();
+    const swatch = String(form.get(`value:${pad.analyte}`) ?? "").trim();
+    const raw = typed || swatch || (pad.readValue !== null ? String(pad.readValue) : "");
+    if (!raw) {
+      if (review.reading.status === "failed") continue; // leave a pad the owner did not test blank
+      fields[pad.analyte] = `Enter a value for ${pad.label}, or tap the matching colour.`;
+      continue;
+    }
+    const v = Number(raw.replace(",", "."));
+    const b = bounds(pad.analyte);
+    if (!Number.isFinite(v) || v < b.min || v > b.max) {
+      fields[pad.analyte] = `${pad.label} must be a number between ${b.min} and ${b.max}.`;
+      continue;
+    }
+    const source = pad.readValue === null ? "manual" : Math.abs(v - pad.readValue) < 1e-9 ? "confirmed" : "corrected";
+    values.push({ analyte: pad.analyte, unit: pad.unit, value: v, source });
+  }
+  if (Object.keys(fields).length) return { ok: false as const, fields, form: "Some values need a look; see the messages below." };
+  if (values.length === 0) return { ok: false as const, fields, form: "Enter at least one value, or take a new photo." };
+  const id = review.reading.id;
+  await db.transaction(async (tx) => {
+    for (const v of values) {
+      const existing = await tx.query.readingPad.findFirst({ where: and(eq(readingPad.readingId, id), eq(readingPad.analyte, v.analyte)) });
+      if (existing) {
+        await tx.update(readingPad).set({ confirmedValue: v.value, source: v.source }).where(eq(readingPad.id, existing.id));
+      } else {
+        await tx.insert(readingPad).values({ readingId: id, analyte: v.analyte, unit: v.unit, confirmedValue: v.value, source: "manual", needsReview: false });
+      }
+    }
+    const now = new Date();
+    await tx.update(reading).set({ status: "confirmed", confirmedBy: user.id, confirmedAt: now, reviewedBy: user.id, reviewedAt: now }).where(eq(reading.id, id));
+  });
+  return { ok: true as const };
+}
+
+export const HISTORY_SORTS = { taken: reading.takenAt, status: reading.status } as const;
+export const PAGE_SIZE = 10;
+
+export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SORTS; dir: "asc" | "desc"; page: number }) {
+  const [{ total }] = await db.select({ total: count() }).from(reading).where(eq(reading.tubId, t.id));
+  const pages = Math.max(1, Math.ceil(total / PAGE_SIZE));
+  const page = Math.min(Math.max(1, opts.page), pages);
+  const col = HISTORY_SORTS[opts.sort];
+  const rows = await db
+    .select({ r: reading, confirmer: userTable.name })
+    .from(reading)
+    .leftJoin(userTable, eq(userTable.id, reading.confirmedBy))
+    .where(eq(reading.tubId, t.id))
+    .orderBy(opts.dir === "asc" ? asc(col) : desc(col), desc(reading.takenAt), desc(reading.id))
+    .limit(PAGE_SIZE)
+    .offset((page - 1) * PAGE_SIZE);
+  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((x) => x.r.id))) : [];
+  return {
+    total, page, pages,
+    rows: rows.map(({ r, confirmer }) => ({
+      id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, photoId: r.photoId, confirmedBy: confirmer, needsReview: r.needsReview,
+      pads: pads
+        .filter((p) => p.readingId === r.id)
+        .map((p) => ({ analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, source: p.source })),
+    })),
+  };
+}
+
+const csvCell = (v: unknown) => {
+  const s = v === null || v === undefined ? "" : String(v);
+  return /[",\n\r]/.test(s) || /^[=+\-@]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+};
+
+/** Every reading of the tub as CSV: one row per reading, read and confirmed value per parameter. */
+export async function historyCsv(t: Tub) {
+  const rows = await db
+    .select({ r: reading, confirmer: userTable.name })
+    .from(reading)
+    .leftJoin(userTable, eq(userTable.id, reading.confirmedBy))
+    .where(eq(reading.tubId, t.id))
+    .orderBy(asc(reading.takenAt));
+  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((x) => x.r.id))) : [];
+  const analytes = [...new Set(pads.map((p) => p.analyte))].sort();
+  const header = ["taken_at", "status", "confirmed_by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`])];
+  const lines = [header.join(",")];
+  for (const { r, confirmer } of rows) {
+    const cells: unknown[] = [r.takenAt.toISOString(), r.status, confirmer ?? "", r.confirmedAt?.toISOString() ?? ""];
+    for (const a of analytes) {
+      const p = pads.find((x) => x.readingId === r.id && x.analyte === a);
+      cells.push(p?.readValue ?? "", p?.confirmedValue ?? "", p?.unit ?? "");
+    }
+    lines.push(cells.map(csvCell).join(","));
+  }
+  return lines.join("\r\n") + "\r\n";
+}
+
+/** Trend series per parameter with the tub's target band, and the treatments on the time axis. */
+export async function trends(t: Tub) {
+  const rows = await db.select().from(reading).where(eq(reading.tubId, t.id)).orderBy(asc(reading.takenAt));
+  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((r) => r.id))) : [];
+  const when = new Map(rows.map((r) => [r.id, r.takenAt.getTime()]));
+  const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
+  const byAnalyte = new Map<string, { unit: string; points: { t: number; value: number; readingId: string; confirmed: boolean }[] }>();
+  for (const p of pads) {
+    const value = p.confirmedValue ?? p.readValue;
+    if (value === null || value === undefined) continue;
+    const s = byAnalyte.get(p.analyte) ?? { unit: p.unit ?? "", points: [] };
+    s.points.push({ t: when.get(p.readingId)!, value, readingId: p.readingId, confirmed: p.confirmedValue !== null });
+    byAnalyte.set(p.analyte, s);
+  }
+  const treatments = await db.select().from(treatment).where(eq(treatment.tubId, t.id)).orderBy(asc(treatment.addedAt));
+  return {
+    tub: { id: t.id, name: t.name },
+    parameters: [...byAnalyte.entries()].map(([analyte, s]) => {
+      const target = targets.get(analyte);
+      return {
+        analyte, label: parameterLabel(analyte), unit: s.unit,
+        target: target ? { min: target.min, max: target.max } : null,
+        points: s.points.sort((a, b) => a.t - b.t),
+      };
+    }),
+    treatments: treatments.map((x) => ({ t: x.addedAt.getTime(), label: `${x.productName} ${x.amount} ${x.unit}`, parameter: x.parameter })),
+  };
+}
+
+export async function photoForTub(t: Tub, photoId: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(photoId)) return null;
+  return (await db.query.photo.findFirst({ where: and(eq(photo.id, photoId), eq(photo.tubId, t.id)) })) ?? null;
+}
+
+export async function cropKeyFor(t: Tub, photoId: string, analyte: string) {
+  const p = await photoForTub(t, photoId);
+  if (!p) return null;
+  const r = await db.query.reading.findFirst({ where: eq(reading.photoId, p.id) });
+  if (!r) return null;
+  const pad = await db.query.readingPad.findFirst({ where: and(eq(readingPad.readingId, r.id), eq(readingPad.analyte, analyte)) });
+  return pad?.cropKey ?? null;
+}
+
+/** The latest reading of a tub, for the tub page. */
+export async function latestReading(t: Tub) {
+  const r = await db.query.reading.findFirst({ where: eq(reading.tubId, t.id), orderBy: desc(reading.takenAt) });
+  if (!r) return null;
+  const pads = await db.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+  return {
+    id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, error: r.error,
+    pads: pads.map((p) => ({ analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, needsReview: p.needsReview && p.confirmedValue === null })),
+  };
+}

@@ -1,0 +1,141 @@
+// Tub settings: create, edit, archive, with the volume helper and the strip batch in use.
+import { asc, eq, isNull } from "drizzle-orm";
+import { z } from "zod";
+import { estimateVolumeLitres, litresFromUsGallons, resolveTargets, type Parameter, type Range } from "~/chemistry";
+import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
+import type { SessionUser } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import type { Tub } from "~/lib/tubs.server";
+
+export const PARAMETER_LABELS: Record<string, string> = {
+  free_chlorine: "Free chlorine",
+  bromine: "Bromine",
+  ph: "pH",
+  total_alkalinity: "Total alkalinity",
+  calcium_hardness: "Calcium hardness",
+  cyanuric_acid: "Cyanuric acid (stabiliser)",
+  total_chlorine: "Total chlorine",
+  total_hardness: "Total hardness",
+};
+
+export const parameterLabel = (a: string) => PARAMETER_LABELS[a] ?? a.replace(/_/g, " ");
+
+/** Strip batches an owner can choose from: every batch with a current chart version. */
+export async function listBatches() {
+  const rows = await db
+    .select({ id: stripBatch.id, lot: stripBatch.lot, expiresOn: stripBatch.expiresOn, chartName: stripChart.name, currentVersionId: stripBatch.currentVersionId })
+    .from(stripBatch)
+    .innerJoin(stripChart, eq(stripChart.id, stripBatch.chartId))
+    .where(isNull(stripChart.archivedAt))
+    .orderBy(asc(stripChart.name), asc(stripBatch.lot));
+  return rows.filter((r) => r.currentVersionId).map((r) => ({ id: r.id, label: `${r.chartName} · lot ${r.lot}${r.expiresOn ? ` · use by ${r.expiresOn}` : ""}` }));
+}
+
+/** The chart version a tub's readings use now, or null when no batch is chosen. */
+export async function currentChartFor(t: Pick<Tub, "batchId">) {
+  if (!t.batchId) return null;
+  const batch = await db.query.stripBatch.findFirst({ where: eq(stripBatch.id, t.batchId) });
+  if (!batch?.currentVersionId) return null;
+  const version = await db.query.chartVersion.findFirst({ where: eq(chartVersion.id, batch.currentVersionId) });
+  if (!version) return null;
+  return { batch, version };
+}
+
+const num = (what: string) =>
+  z
+    .string()
+    .trim()
+    .min(1, `Enter the ${what}.`)
+    .transform((v) => Number(v.replace(",", ".")))
+    .refine((v) => Number.isFinite(v) && v > 0, `The ${what} must be a number above zero.`);
+
+const optionalNum = z
+  .string()
+  .trim()
+  .optional()
+  .transform((v) => (v ? Number(v.replace(",", ".")) : undefined));
+
+const tubForm = z.object({
+  name: z.string().trim().min(1, "Give the tub a name, e.g. “Garden tub”.").max(80, "Keep the name under 80 characters."),
+  volume: num("volume"),
+  volumeUnit: z.enum(["L", "USgal"], { message: "Choose litres or US gallons." }),
+  sanitiser: z.enum(["chlorine", "bromine"], { message: "Choose chlorine or bromine." }),
+  batchId: z
+    .string()
+    .optional()
+    .transform((v) => (v ? v : null)),
+  timeZone: z.string().trim().min(1).default("UTC"),
+  shape: z.enum(["", "round", "square", "rectangular"]).optional(),
+  diameter: optionalNum,
+  side: optionalNum,
+  length: optionalNum,
+  width: optionalNum,
+  depth: optionalNum,
+});
+
+export type TubFormErrors = Partial<Record<string, string>>;
+
+export async function parseTubForm(form: FormData) {
+  const parsed = tubForm.safeParse(Object.fromEntries(form));
+  if (!parsed.success) {
+    const fields: TubFormErrors = {};
+    for (const issue of parsed.error.issues) fields[String(issue.path[0])] ??= issue.message;
+    return { ok: false as const, fields };
+  }
+  const v = parsed.data;
+  const volumeLitres = v.volumeUnit === "USgal" ? litresFromUsGallons(v.volume) : v.volume;
+  if (volumeLitres < 100 || volumeLitres > 20000) {
+    return { ok: false as const, fields: { volume: "A hot tub holds between 100 and 20,000 litres (about 26 to 5,300 US gallons). Check the number and the unit." } };
+  }
+  if (v.batchId) {
+    const batches = await listBatches();
+    if (!batches.some((b) => b.id === v.batchId)) return { ok: false as const, fields: { batchId: "Choose a strip batch from the list." } };
+  }
+  let shape: Record<string, unknown> | null = null;
+  if (v.shape && v.depth) {
+    const dims = v.shape === "round" ? { diameter: v.diameter } : v.shape === "square" ? { side: v.side } : { length: v.length, width: v.width };
+    try {
+      const estimate = estimateVolumeLitres(v.shape, dims as never, v.depth);
+      shape = { shape: v.shape, insideDimsCm: dims, depthCm: v.depth, estimateLitres: Math.round(estimate) };
+    } catch {
+      shape = null;
+    }
+  }
+  return {
+    ok: true as const,
+    values: { name: v.name, volumeLitres, volumeUnit: v.volumeUnit, sanitiser: v.sanitiser, batchId: v.batchId, timeZone: v.timeZone, shape },
+  };
+}
+
+export async function createTub(user: SessionUser, values: Omit<typeof tub.$inferInsert, "ownerId">) {
+  const [row] = await db.insert(tub).values({ ...values, ownerId: user.id }).returning();
+  return row;
+}
+
+export async function updateTub(tubId: string, values: Partial<typeof tub.$inferInsert>) {
+  await db.update(tub).set(values).where(eq(tub.id, tubId));
+}
+
+export async function setArchived(tubId: string, archived: boolean) {
+  await db.update(tub).set({ archivedAt: archived ? new Date() : null }).where(eq(tub.id, tubId));
+}
+
+export type TargetRow = { parameter: string; label: string; min: number; max: number; aim: number; source: string };
+
+/** The tub's target ranges (defaults with its overrides), leaving out the sanitiser it does not use. */
+export function tubTargets(t: Pick<Tub, "sanitiser" | "targets">): TargetRow[] {
+  let ranges;
+  try {
+    ranges = resolveTargets(t.sanitiser, (t.targets ?? {}) as Partial<Record<Parameter, Partial<Range>>>);
+  } catch {
+    ranges = resolveTargets(t.sanitiser);
+  }
+  return (Object.entries(ranges) as [Parameter, Range][])
+    .filter(([, r]) => r.max > 0)
+    .map(([p, r]) => ({ parameter: p, label: parameterLabel(p), min: r.min, max: r.max, aim: r.aim, source: r.source }));
+}
+
+export function displayVolume(t: Pick<Tub, "volumeLitres" | "volumeUnit">) {
+  if (t.volumeUnit === "USgal") return `${Math.round(t.volumeLitres / 3.785411784)} US gal (${Math.round(t.volumeLitres)} L)`;
+  return `${Math.round(t.volumeLitres)} L`;
+}

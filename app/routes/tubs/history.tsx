@@ -1,0 +1,103 @@
+// History: every reading of the tub, sortable and paginated, with the photo and who confirmed it.
+import { ButtonLink, Card, EmptyState, PageTitle, cx } from "~/components/ui";
+import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server";
+import { requireUser } from "~/lib/session.server";
+import { requireTub } from "~/lib/tubs.server";
+import type { Route } from "./+types/history";
+
+export const meta: Route.MetaFunction = () => [{ title: "History · Dipwell" }];
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const { tub } = await requireTub(user, params.tubId, "view");
+  const url = new URL(request.url);
+  const sortParam = url.searchParams.get("sort");
+  const sort = (sortParam && sortParam in HISTORY_SORTS ? sortParam : "taken") as keyof typeof HISTORY_SORTS;
+  const dir = url.searchParams.get("dir") === "asc" ? "asc" : "desc";
+  const page = Math.max(1, Number.parseInt(url.searchParams.get("page") ?? "1", 10) || 1);
+  return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, sort, dir: dir as "asc" | "desc", ...(await historyPage(tub, { sort, dir, page })) };
+}
+
+const STATUS_WORDS: Record<string, string> = { read: "to check", failed: "not read", confirmed: "confirmed", manual: "by hand" };
+
+export default function History({ loaderData }: Route.ComponentProps) {
+  const { tub, rows, page, pages, total, sort, dir } = loaderData;
+  const base = `/tubs/${tub.id}`;
+  const link = (o: { sort?: string; dir?: string; page?: number }) => {
+    const q = new URLSearchParams({ sort: o.sort ?? sort, dir: o.dir ?? dir, page: String(o.page ?? page) });
+    return `${base}/history?${q}`;
+  };
+  const sortLink = (key: string, label: string) => {
+    const active = sort === key;
+    const nextDir = active && dir === "desc" ? "asc" : "desc";
+    return (
+      <a href={link({ sort: key, dir: nextDir, page: 1 })} className="no-underline" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : undefined}>
+        {label} {active ? (dir === "asc" ? "▲" : "▼") : "↕"}
+      </a>
+    );
+  };
+  const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
+  return (
+    <div className="space-y-5">
+      <a href={base} className="text-sm">← {tub.name}</a>
+      <PageTitle sub={`${total} reading${total === 1 ? "" : "s"}`}>History</PageTitle>
+      <div className="flex flex-wrap gap-3">
+        <ButtonLink href={`${base}/read`}>New reading</ButtonLink>
+        <ButtonLink variant="secondary" href={`${base}/history.csv`} download>Download CSV</ButtonLink>
+        <ButtonLink variant="secondary" href={`${base}/trends`}>Trends</ButtonLink>
+      </div>
+      {total === 0 ? (
+        <EmptyState title="No readings yet" action={<ButtonLink href={`${base}/read`}>Take the first reading</ButtonLink>}>
+          Every strip you photograph appears here, with its photo and values.
+        </EmptyState>
+      ) : (
+        <Card className="overflow-x-auto p-0">
+          <table className="w-full min-w-[34rem] text-left text-sm" data-testid="history-table">
+            <thead className="bg-sand text-ink-soft">
+              <tr>
+                <th className="p-3">Photo</th>
+                <th className="p-3">{sortLink("taken", "Taken")}</th>
+                <th className="p-3">Values</th>
+                <th className="p-3">{sortLink("status", "Status")}</th>
+                <th className="p-3">Confirmed by</th>
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {rows.map((r) => (
+                <tr key={r.id}>
+                  <td className="p-3">
+                    {r.photoId ? (
+                      <img src={`${base}/photos/${r.photoId}`} alt="Strip photo" loading="lazy" className="h-12 w-12 rounded-md border border-line object-cover" />
+                    ) : (
+                      <span className="text-ink-soft">—</span>
+                    )}
+                  </td>
+                  <td className="p-3 whitespace-nowrap">
+                    <a href={`${base}/readings/${r.id}`}>{fmt(r.takenAt)}</a>
+                  </td>
+                  <td className="p-3">
+                    {r.pads.length ? r.pads.map((p) => (
+                      <span key={p.analyte} className="mr-2 inline-block whitespace-nowrap">
+                        {p.label} <strong>{p.value ?? "–"}</strong>{p.source === "corrected" ? "*" : ""}
+                      </span>
+                    )) : <span className="text-ink-soft">no values</span>}
+                  </td>
+                  <td className={cx("p-3", r.status === "failed" && "text-alert", r.status === "read" && "text-caution")}>{STATUS_WORDS[r.status] ?? r.status}</td>
+                  <td className="p-3">{r.confirmedBy ?? "—"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="px-3 pb-2 text-xs text-ink-soft">* corrected by hand</p>
+        </Card>
+      )}
+      {pages > 1 && (
+        <nav aria-label="Pages" className="flex items-center justify-between">
+          {page > 1 ? <a href={link({ page: page - 1 })}>← Newer page</a> : <span />}
+          <span className="text-ink-soft">Page {page} of {pages}</span>
+          {page < pages ? <a href={link({ page: page + 1 })}>Older page →</a> : <span />}
+        </nav>
+      )}
+    </div>
+  );
+}

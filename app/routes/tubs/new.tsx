@@ -1,0 +1,38 @@
+import { data, redirect } from "react-router";
+import { PageTitle } from "~/components/ui";
+import { TubForm } from "~/features/tubs/TubForm";
+import { createTub, listBatches, parseTubForm } from "~/features/tubs/tubs.server";
+import { requireUser } from "~/lib/session.server";
+import type { Route } from "./+types/new";
+
+export const meta: Route.MetaFunction = () => [{ title: "Add a tub · Dipwell" }];
+
+export async function loader({ context, request }: Route.LoaderArgs) {
+  requireUser(context, request);
+  return { batches: await listBatches() };
+}
+
+export async function action({ context, request }: Route.ActionArgs) {
+  const user = requireUser(context, request);
+  const parsed = await parseTubForm(await request.formData());
+  if (!parsed.ok) return data({ fields: parsed.fields, form: "Please check the marked fields." }, { status: 400 });
+  const t = await createTub(user, parsed.values);
+  return redirect(`/tubs/${t.id}?added=1`);
+}
+
+export default function NewTub({ loaderData, actionData }: Route.ComponentProps) {
+  const tz = typeof Intl !== "undefined" ? Intl.DateTimeFormat().resolvedOptions().timeZone : "UTC";
+  return (
+    <div className="mx-auto max-w-xl">
+      <a href="/tubs" className="text-sm">← All tubs</a>
+      <PageTitle sub="A few facts about the water, so readings and treatment steps fit your tub.">Add a tub</PageTitle>
+      <TubForm
+        initial={{ name: "", volume: "", volumeUnit: "L", sanitiser: "chlorine", batchId: loaderData.batches[0]?.id ?? "", timeZone: tz || "UTC" }}
+        batches={loaderData.batches}
+        errors={actionData?.fields}
+        formError={actionData?.form}
+        submitLabel="Add tub"
+      />
+    </div>
+  );
+}

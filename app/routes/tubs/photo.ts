@@ -1,0 +1,14 @@
+// GET /tubs/:tubId/photos/:photoId: the strip photo, streamed from storage to those who may see the tub.
+import { streamObject } from "~/features/readings/api.server";
+import { photoForTub } from "~/features/readings/readings.server";
+import { requireUser } from "~/lib/session.server";
+import { requireTub } from "~/lib/tubs.server";
+import type { Route } from "./+types/photo";
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const { tub } = await requireTub(user, params.tubId, "view");
+  const p = await photoForTub(tub, params.photoId);
+  if (!p) return new Response("We could not find that photo.", { status: 404 });
+  return streamObject(p.s3Key, p.contentType);
+}

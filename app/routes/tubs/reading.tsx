@@ -1,0 +1,166 @@
+// Review: each pad's crop beside the chart's swatches, the read value and how sure the reader is.
+// The owner confirms, taps the right swatch or types a value; a failed read is entered by hand here.
+import { useState } from "react";
+import { data, Form, redirect, useNavigation } from "react-router";
+import { Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
+import { confirmReading, loadReview } from "~/features/readings/readings.server";
+import { requireUser } from "~/lib/session.server";
+import { requireTub } from "~/lib/tubs.server";
+import type { Route } from "./+types/reading";
+
+export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  const user = requireUser(context, request);
+  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const review = await loadReview(tub, params.readingId);
+  if (!review) throw data({ message: "We could not find that reading." }, { status: 404 });
+  const url = new URL(request.url);
+  return {
+    tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone },
+    canConfirm: relation !== null,
+    duplicate: url.searchParams.has("duplicate"),
+    justConfirmed: url.searchParams.has("confirmed"),
+    ...review,
+  };
+}
+
+export async function action({ context, request, params }: Route.ActionArgs) {
+  const user = requireUser(context, request);
+  const { tub } = await requireTub(user, params.tubId, "care");
+  const form = await request.formData();
+  const result = await confirmReading(user, tub, params.readingId, form);
+  if (!result.ok) {
+    if ("notFound" in result && result.notFound) throw data({ message: "We could not find that reading." }, { status: 404 });
+    return data({ fields: result.fields, form: result.form }, { status: 400 });
+  }
+  return redirect(`/tubs/${tub.id}/readings/${params.readingId}?confirmed=1`);
+}
+
+const confidenceWords = (c: number | null) => (c === null ? "" : c >= 0.8 ? "sure" : c >= 0.6 ? "fairly sure" : "unsure");
+
+export default function ReviewReading({ loaderData, actionData }: Route.ComponentProps) {
+  const { tub, reading, pads, duplicate, justConfirmed } = loaderData;
+  const nav = useNavigation();
+  const [values, setValues] = useState<Record<string, string>>(() =>
+    Object.fromEntries(pads.map((p) => [p.analyte, p.confirmedValue !== null ? String(p.confirmedValue) : p.readValue !== null ? String(p.readValue) : ""])),
+  );
+  const failed = reading.status === "failed";
+  const confirmed = reading.status === "confirmed";
+  const when = new Date(reading.takenAt).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
+  const unsure = pads.filter((p) => p.needsReview && p.readValue !== null).length;
+
+  return (
+    <div className="mx-auto max-w-2xl space-y-5">
+      <a href={`/tubs/${tub.id}`} className="text-sm">← {tub.name}</a>
+      <PageTitle sub={when}>{confirmed ? "Reading" : failed ? "Enter the values" : "Check the reading"}</PageTitle>
+      {duplicate && <Notice>You sent this photo before, so here is the reading Dipwell already made from it. Nothing was added twice.</Notice>}
+      {justConfirmed && (
+        <Notice tone="ok">
+          <p className="font-bold">Saved. Thank you for checking.</p>
+          <a href={`/tubs/${tub.id}/plan`} className="mt-1 inline-block font-bold">See the next safe step →</a>
+        </Notice>
+      )}
+      {failed && (
+        <Notice tone="caution">
+          <p className="font-bold">Dipwell could not read this photo.</p>
+          <p>{reading.error}</p>
+          <p className="mt-1">Your photo is kept. Compare the strip with the colours below and tap the closest one, or <a href={`/tubs/${tub.id}/read`}>take a new photo</a>.</p>
+        </Notice>
+      )}
+      {!failed && !confirmed && (
+        <Notice tone={unsure ? "caution" : "info"}>
+          {unsure
+            ? `Dipwell is unsure of ${unsure} pad${unsure > 1 ? "s" : ""} (marked below). Compare with your strip and tap the colour that matches.`
+            : "Compare each pad with your strip. If one looks wrong, tap the colour that matches or type the value."}
+        </Notice>
+      )}
+      {reading.warnings.length > 0 && <Notice tone="caution">{reading.warnings.join(" ")}</Notice>}
+      {reading.photoId && (
+        <img src={`/tubs/${tub.id}/photos/${reading.photoId}`} alt="Your strip photo" className="mx-auto max-h-48 rounded-xl border border-line object-contain" />
+      )}
+      {actionData?.form && <Notice tone="alert">{actionData.form}</Notice>}
+
+      <Form method="post" className="space-y-4">
+        <input type="hidden" name="intent" value="confirm" />
+        {pads.map((p) => {
+          const chosen = values[p.analyte] ?? "";
+          const err = actionData?.fields?.[p.analyte];
+          return (
+            <Card key={p.analyte} className={cx("space-y-3", p.needsReview && p.readValue !== null && !confirmed && "border-caution")} data-testid={`pad-${p.analyte}`}>
+              <div className="flex items-start gap-3">
+                {p.hasCrop && reading.photoId ? (
+                  <img src={`/tubs/${tub.id}/photos/${reading.photoId}/crop/${p.analyte}`} alt={`${p.label} pad as photographed`} width={64} height={64} className="size-16 rounded-lg border border-line" />
+                ) : (
+                  <div className="grid size-16 place-items-center rounded-lg border border-dashed border-line text-xs text-ink-soft">no crop</div>
+                )}
+                <div className="flex-1">
+                  <h2 className="text-lg font-bold">{p.label}</h2>
+                  {p.readValue !== null ? (
+                    <p className="text-ink-soft">
+                      Read as <strong className="text-ink">{p.readValue} {p.unit}</strong>
+                      {p.confidence !== null && <> · {confidenceWords(p.confidence)} ({Math.round(p.confidence * 100)}%)</>}
+                    </p>
+                  ) : (
+                    <p className="text-ink-soft">Not read: choose the colour or type the value.</p>
+                  )}
+                  {p.needsReview && p.readValue !== null && !confirmed && (
+                    <p className="text-sm font-bold text-caution" data-testid="unsure">⚠ Please check: {p.reason?.replace(/^Please check [^:]+: /, "") ?? "the reader is unsure"}</p>
+                  )}
+                  {p.target && <p className="text-sm text-ink-soft">Target {p.target.min}–{p.target.max} {p.unit}</p>}
+                </div>
+              </div>
+              {p.swatches.length > 0 && (
+                <div className="flex flex-wrap gap-2" role="group" aria-label={`${p.label} chart colours`}>
+                  {p.swatches.map((s) => {
+                    const selected = chosen !== "" && Number(chosen) === s.value;
+                    return (
+                      <button
+                        key={s.value}
+                        type="button"
+                        disabled={confirmed}
+                        onClick={() => setValues((v) => ({ ...v, [p.analyte]: String(s.value) }))}
+                        aria-pressed={selected}
+                        aria-label={`${p.label} ${s.value}`}
+                        className={cx("flex w-12 flex-col items-center rounded-lg border-2 p-1 text-xs", selected ? "border-well-900" : "border-transparent")}
+                      >
+                        <span className="block size-9 rounded-md border border-black/10" style={{ background: s.color }} />
+                        <span className="mt-0.5 font-bold">{s.value}</span>
+                      </button>
+                    );
+                  })}
+                </div>
+              )}
+              <label className="flex items-center gap-2">
+                <span className="font-bold">Value</span>
+                <input
+                  name={`typed:${p.analyte}`}
+                  inputMode="decimal"
+                  value={chosen}
+                  readOnly={confirmed}
+                  onChange={(e) => setValues((v) => ({ ...v, [p.analyte]: e.target.value }))}
+                  className={cx(inputClass, "max-w-32")}
+                  aria-label={`${p.label} value`}
+                />
+                <span className="text-ink-soft">{p.unit}</span>
+                {p.source && p.source !== "auto" && <span className="text-sm text-ink-soft">({p.source})</span>}
+              </label>
+              {err && <p role="alert" className="text-sm font-bold text-alert">{err}</p>}
+            </Card>
+          );
+        })}
+        {confirmed ? (
+          <p className="text-ink-soft">Confirmed{reading.confirmedBy ? ` by ${reading.confirmedBy}` : ""}. <a href={`/tubs/${tub.id}/plan`}>See the next safe step</a></p>
+        ) : (
+          <Button type="submit" className="w-full" disabled={nav.state === "submitting"}>
+            {nav.state === "submitting" ? "Saving…" : failed ? "Save these values" : "Confirm the values"}
+          </Button>
+        )}
+      </Form>
+      <div className="flex flex-wrap gap-3">
+        <ButtonLink variant="secondary" href={`/tubs/${tub.id}/history`}>History</ButtonLink>
+        <ButtonLink variant="secondary" href={`/tubs/${tub.id}/trends`}>Trends</ButtonLink>
+      </div>
+    </div>
+  );
+}
