@@ -9,6 +9,8 @@ export default [
   route("reset-password", "routes/auth/reset-password.tsx"),
   route("sign-out", "routes/auth/sign-out.ts"),
   route("api/auth/*", "routes/api/auth.ts"),
+  route("api/chart-versions/:versionId", "routes/technician/api-chart-version.ts"),
+  route("api/chart-photos/:photoId", "routes/technician/api-chart-photo.ts"),
   route("api/tubs/:tubId/uploads", "routes/api/tubs.uploads.ts"),
   route("api/tubs/:tubId/photos", "routes/api/tubs.photos.ts"),
   route("api/tubs/:tubId/trends", "routes/api/tubs.trends.ts"),
@@ -16,6 +18,15 @@ export default [
   route("api/tubs/:tubId/plan", "routes/plan/api-tub-plan.ts"),
 
   layout("routes/signed-in-layout.tsx", [
+    route("charts", "routes/technician/charts.tsx"),
+    route("charts/:chartId", "routes/technician/chart.tsx"),
+    route("charts/:chartId/batches/:batchId/calibrate", "routes/technician/chart-calibrate.tsx"),
+    route("clients", "routes/technician/clients.tsx"),
+    route("clients/review", "routes/technician/review.tsx"),
+    route("invitations/:token", "routes/technician/invitations.tsx"),
+    route("tubs/:tubId/sharing", "routes/technician/sharing.tsx"),
+    route("tubs/:tubId/notes", "routes/technician/notes.tsx"),
+    route("admin/users", "routes/technician/admin-users.tsx"),
     route("tubs", "routes/tubs/list.tsx"),
     route("tubs/:tubId", "routes/tubs/detail.tsx"),
     route("tubs/new", "routes/tubs/new.tsx"),
@@ -32,7 +43,11 @@ export default [
     route("tubs/:tubId/setup", "routes/plan/setup.tsx"),
     route("products", "routes/plan/products.tsx"),
     route("dev/inbox", "routes/dev/inbox.tsx"),
+    route("notifications", "routes/notify/notifications.tsx"),
+    route("settings/notifications", "routes/notify/settings.tsx"),
+    route("admin/email", "routes/notify/admin-email.tsx"),
   ]),
 
+  route("unsubscribe/:token/:kind", "routes/notify/unsubscribe.tsx"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

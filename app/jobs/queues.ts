@@ -1,0 +1,20 @@
+// Queue names and their retry policy, shared by the worker, the app (which only
+// sends jobs) and the tests.
+import type PgBoss from "pg-boss";
+
+export const SCAN_QUEUE = "notify-scan";
+export const DELIVER_QUEUE = "notify-deliver";
+/** every five minutes, the scan looks for reminders that have come due */
+export const SCAN_CRON = "*/5 * * * *";
+
+/**
+ * A failed send (SMTP server down, address refused) is retried with growing
+ * gaps: pg-boss backs off from retryDelay, doubling each time, for retryLimit
+ * retries (about an hour and a half in all).
+ */
+export const DELIVER_RETRY = { retryLimit: 7, retryDelay: 30, retryBackoff: true } as const;
+
+export async function createQueues(boss: PgBoss) {
+  await boss.createQueue(SCAN_QUEUE, { name: SCAN_QUEUE, policy: "singleton", retryLimit: 1, expireInSeconds: 240 });
+  await boss.createQueue(DELIVER_QUEUE, { name: DELIVER_QUEUE, ...DELIVER_RETRY, expireInSeconds: 120 });
+}

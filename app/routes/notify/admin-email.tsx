@@ -1,0 +1,58 @@
+// /admin/email: every e-mail Dipwell tried to send, with its status, attempts
+// and the last error, so an admin sees bounces and a broken SMTP server.
+import { PageTitle, EmptyState, cx } from "~/components/ui";
+import { EMAIL_STATUSES, emailLogRows } from "~/features/notify/notifications.server";
+import { requireRole } from "~/lib/session.server";
+import type { Route } from "./+types/admin-email";
+
+export const meta: Route.MetaFunction = () => [{ title: "E-mail log · Dipwell" }];
+
+export async function loader({ context, request }: Route.LoaderArgs) {
+  requireRole(context, request, "admin");
+  const asked = new URL(request.url).searchParams.get("status");
+  const status = asked && (EMAIL_STATUSES as readonly string[]).includes(asked) ? asked : null;
+  const rows = await emailLogRows(status);
+  return {
+    status,
+    rows: rows.map((r) => ({
+      id: r.id, kind: r.kind, to: r.to, subject: r.subject, status: r.status, attempts: r.attempts,
+      lastError: r.lastError, updatedAt: r.updatedAt.toISOString(), sentAt: r.sentAt?.toISOString() ?? null,
+    })),
+  };
+}
+
+const tone: Record<string, string> = { sent: "bg-ok-soft text-ok", failed: "bg-caution-soft text-caution", dead: "bg-alert-soft text-alert" };
+
+export default function AdminEmail({ loaderData }: Route.ComponentProps) {
+  const { rows, status } = loaderData;
+  return (
+    <div className="space-y-4">
+      <PageTitle sub="Failed messages are retried with growing gaps; “dead” ones gave up.">E-mail log</PageTitle>
+      <nav className="flex flex-wrap gap-2" aria-label="Filter by status">
+        {[null, ...EMAIL_STATUSES].map((s) => (
+          <a key={s ?? "all"} href={s ? `?status=${s}` : "?"} className={cx("rounded-lg px-3 py-2 font-bold no-underline", s === status ? "bg-well-50 text-well-900" : "text-ink-soft")}>
+            {s ?? "all"}
+          </a>
+        ))}
+      </nav>
+      {rows.length === 0 ? (
+        <EmptyState title="No e-mail here" />
+      ) : (
+        <ul className="divide-y divide-line rounded-card border border-line bg-shell">
+          {rows.map((r) => (
+            <li key={r.id} className="px-4 py-3">
+              <p className="font-bold">
+                <span className={cx("mr-2 rounded px-2 text-sm", tone[r.status] ?? "bg-well-50")}>{r.status}</span>
+                {r.subject}
+              </p>
+              <p className="text-sm text-ink-soft">
+                {r.kind} · to {r.to} · {r.attempts} attempt{r.attempts === 1 ? "" : "s"} · {new Date(r.updatedAt).toLocaleString("en-GB")}
+              </p>
+              {r.lastError && <p className="text-sm text-alert">{r.lastError}</p>}
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}
