@@ -1,5 +1,5 @@
 // Photo decoding and robust region sampling.
-import sharp from "sharp";
+import sharp, { type Metadata, type OutputInfo } from "sharp";
 import { SRGB8_TO_LINEAR, linearRgbToLab, deltaE2000, type Rgb } from "./colour";
 
 export type ReadingErrorCode = "not_an_image" | "truncated" | "too_small" | "too_large" | "no_strip" | "too_few_pads" | "bad_chart";
@@ -54,7 +54,7 @@ export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (!Buffer.isBuffer(photo) && !((photo as unknown) instanceof Uint8Array))
     throw new ReadingError("not_an_image", "No photo was given.");
   if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
-  let meta: sharp.Metadata;
+  let meta: Metadata;
   try {
     meta = await sharp(photo, sharpInputOptions()).metadata();
   } catch (e) {
@@ -69,7 +69,7 @@ export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (Math.min(w0, h0) < MIN_SIDE)
     throw new ReadingError("too_small", `This image is too small (${w0} × ${h0} pixels) to show a test strip. Please send a photo at least ${MIN_SIDE} pixels on each side.`);
   const swap = (meta.orientation ?? 1) >= 5;
-  let out: { data: Buffer; info: sharp.OutputInfo };
+  let out: { data: Buffer; info: OutputInfo };
   try {
     out = await workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
   } catch (e) {
