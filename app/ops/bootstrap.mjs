@@ -31,7 +31,8 @@ if (!existsSync(tsx) || !existsSync(path.join(root, "node_modules", ".package-lo
   }
 }
 
-const child = spawn(tsx, [path.join(root, "app", "ops", `${command}.ts`), ...rest], {
+// One process, not tsx's CLI wrapper, so signals reach the orchestrator directly.
+const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "app", "ops", `${command}.ts`), ...rest], {
   cwd: root,
   stdio: "inherit",
 });

@@ -12,24 +12,25 @@ import {
 
 const root = process.cwd();
 const publicUrl = `http://localhost:${P.app}`;
+let postgres: Awaited<ReturnType<typeof startPostgres>> | undefined;
 
 async function main() {
   console.log("Starting PostgreSQL…");
-  const postgres = await startPostgres({ projectRoot: root, folder: ".dev", port: P.postgres });
+  const pg = (postgres = await startPostgres({ projectRoot: root, folder: ".dev", port: P.postgres }));
   let stopped = false;
   const stop = () => {
     if (stopped) return;
     stopped = true;
     console.log("\nStopping Dipwell…");
     stopChildren();
-    postgres.stop();
+    pg.stop();
     process.exit(0);
   };
   process.on("SIGINT", stop);
   process.on("SIGTERM", stop);
 
-  await createDatabase(postgres.url("postgres"), "dipwell");
-  const databaseUrl = postgres.url("dipwell");
+  await createDatabase(pg.url("postgres"), "dipwell");
+  const databaseUrl = pg.url("dipwell");
   console.log("Applying migrations…");
   await migrateDatabase(databaseUrl, root);
 
@@ -75,5 +76,6 @@ Press Ctrl-C to stop everything. Data is kept in .dev/ for the next start.
 main().catch((error) => {
   console.error(error instanceof SetupError ? error.message : error);
   stopChildren();
+  postgres?.stop();
   process.exit(1);
 });
