@@ -48,6 +48,11 @@ async function main() {
     HOST: "127.0.0.1",
   };
   Object.assign(process.env, env);
+  try {
+    (await import("../lib/env.server")).env();
+  } catch (error) {
+    throw new SetupError((error as Error).message);
+  }
 
   console.log("Seeding the demo scenario…");
   const { seedDemo } = await import("./seed");
