@@ -35,7 +35,7 @@ export const CHEMICAL_NAMES: Record<string, string> = {
 export const chemicalName = (c: string | null) => (c ? (CHEMICAL_NAMES[c] ?? c.replace(/_/g, " ")) : "");
 
 /** A retest countdown: "Retest after 14:35" and the time left, ticking in the browser. */
-export function RetestTimer({ retestAt, clock, now, label }: { retestAt: string; clock: string; now: string; label?: string }) {
+export function RetestTimer({ retestAt, clock, day, now, label }: { retestAt: string; clock: string; day?: string; now: string; label?: string }) {
   const [t, setT] = useState(() => Date.parse(now));
   useEffect(() => {
     setT(Date.now());
@@ -47,7 +47,9 @@ export function RetestTimer({ retestAt, clock, now, label }: { retestAt: string;
   return (
     <div role="timer" aria-live="off" data-testid="retest-timer" className={cx("rounded-xl border-2 px-4 py-3", done ? "border-ok bg-ok-soft" : "border-caution bg-caution-soft")}>
       {label && <p className="text-sm text-ink-soft">{label}</p>}
-      <p className="text-xl font-bold text-ink">{done ? `Time to retest (since ${clock})` : `Retest after ${clock}`}</p>
+      <p className="text-xl font-bold text-ink">{done ? `Time to retest (since ${clock})` : `Retest after ${clock}`}
+        {!done && day && <span className="ml-2 text-base font-normal text-ink-soft">{day}</span>}
+      </p>
       {!done && <p className="text-ink-soft" data-testid="time-left">{remainingWords(left)} to go · nothing else goes in until then</p>}
     </div>
   );

@@ -14,8 +14,8 @@ export interface CatalogueEntry {
   edited: boolean;
 }
 
-export const FORMS: ProductForm[] = ["granules", "powder", "liquid", "tablets"];
-export const PACKAGE_UNITS = ["g", "kg", "mL", "L"] as const;
+import { FORMS, PACKAGE_UNITS } from "./shared";
+export { FORMS, PACKAGE_UNITS } from "./shared";
 
 /** An edited copy over its default entry. */
 export function applyEdit(base: Product, row: ProductRow): Product {

@@ -22,30 +22,9 @@ import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tubs.server";
 import { ownerProducts } from "./catalogue.server";
-import { clock, fromLocalInput, safeZone } from "./time";
-
-export const READING_KEYS = [
-  "free_chlorine",
-  "total_chlorine",
-  "bromine",
-  "ph",
-  "total_alkalinity",
-  "total_hardness",
-  "calcium_hardness",
-  "cyanuric_acid",
-] as const;
-export type ReadingKey = (typeof READING_KEYS)[number];
-
-export const READING_LABELS: Record<ReadingKey, string> = {
-  free_chlorine: "Free chlorine (mg/L)",
-  total_chlorine: "Total chlorine (mg/L)",
-  bromine: "Bromine (mg/L)",
-  ph: "pH",
-  total_alkalinity: "Total alkalinity (mg/L as CaCO3)",
-  total_hardness: "Total hardness (mg/L as CaCO3)",
-  calcium_hardness: "Calcium hardness (mg/L as CaCO3)",
-  cyanuric_acid: "Cyanuric acid (mg/L)",
-};
+import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";
+export { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";
+import { clock, dayOnly, fromLocalInput, safeZone } from "./time";
 
 export interface LatestReading {
   id: string;
@@ -109,6 +88,8 @@ export interface Timer {
   retestAt: string;
   /** "14:35" in the tub's time zone */
   retestClock: string;
+  /** "Wed 2 Dec" in the tub's time zone */
+  retestDay: string;
 }
 
 /** The running retest timer: the latest retest time still ahead. */
@@ -122,18 +103,11 @@ export function activeTimer(rows: TreatmentRow[], now: Date, timeZone: string): 
     addedAt: best.addedAt.toISOString(),
     retestAt: best.retestAt!.toISOString(),
     retestClock: clock(best.retestAt!, timeZone),
+    retestDay: dayOnly(best.retestAt!, timeZone),
   };
 }
 
 // ------------------------------------------------------------------ target ranges
-
-export const TARGET_PARAMETERS = (sanitiser: "chlorine" | "bromine"): Parameter[] => [
-  sanitiser === "chlorine" ? "free_chlorine" : "bromine",
-  "ph",
-  "total_alkalinity",
-  "calcium_hardness",
-  ...(sanitiser === "chlorine" ? (["cyanuric_acid"] as Parameter[]) : []),
-];
 
 const overrideSchema = z.record(z.string(), z.object({ min: z.number().optional(), max: z.number().optional(), aim: z.number().optional() }));
 

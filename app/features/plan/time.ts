@@ -74,3 +74,8 @@ export function remainingWords(ms: number): string {
   const m = totalMin % 60;
   return h > 0 ? `${h} h ${String(m).padStart(2, "0")} min` : `${m} min`;
 }
+
+/** "Wed 2 Dec" in the time zone. */
+export function dayOnly(d: Date | string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", timeZone: safeZone(timeZone) }).format(new Date(d));
+}

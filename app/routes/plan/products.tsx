@@ -1,7 +1,8 @@
 import { Form, data, redirect } from "react-router";
 import { chemicalName } from "~/components/plan/plan-ui";
 import { Button, Card, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
-import { FORMS, PACKAGE_UNITS, ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from "~/features/plan/catalogue.server";
+import { ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from "~/features/plan/catalogue.server";
+import { FORMS, PACKAGE_UNITS } from "~/features/plan/shared";
 import { requireUser } from "~/lib/session.server";
 import type { Route } from "./+types/products";
 

@@ -65,7 +65,7 @@ export default function TreatmentsPage({ loaderData, actionData }: Route.Compone
       <PageTitle sub={`Times in ${tub.timeZone}`}>Treatments · {tub.name}</PageTitle>
       {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
       {timer ? (
-        <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />
+        <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />
       ) : (
         <Notice tone="ok">No retest timer is running. <a href={`/tubs/${tub.id}/plan`}>See the plan</a>.</Notice>
       )}

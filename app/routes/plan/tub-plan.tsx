@@ -2,7 +2,8 @@ import { Form, data, redirect, useNavigation } from "react-router";
 import { AUTHORITY_NOTE, DEFAULT_TARGETS } from "~/chemistry";
 import { BalanceCard, FirstFillPrompt, PARAMETER_NAMES, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
 import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components/ui";
-import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS, parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
+import { parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
+import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "~/features/plan/shared";
 import { dayAndClock } from "~/features/plan/time";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
@@ -53,7 +54,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
       <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser === "chlorine" ? "chlorine" : "bromine"} · ${tub.temperatureC} °C`}>Treatment plan · {tub.name}</PageTitle>
       {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
 
-      {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />}
+      {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />}
 
       <Card>
         <h2 className="mb-1 text-lg font-bold">From which reading</h2>
