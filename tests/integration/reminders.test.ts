@@ -43,7 +43,7 @@ const newBoss = async () => {
 async function work(b: PgBoss, opts: { transport?: ReturnType<typeof smtpTransport>; ignoreStartAfter?: boolean } = {}) {
   const outcomes: string[] = [];
   for (;;) {
-    const jobs = await b.fetch<OutgoingEmail>(DELIVER_QUEUE, { includeMetadata: true, batchSize: 1, ignoreStartAfter: opts.ignoreStartAfter });
+    const jobs = await b.fetch<OutgoingEmail>(DELIVER_QUEUE, { includeMetadata: true, batchSize: 1, ignoreStartAfter: opts.ignoreStartAfter ?? false });
     if (jobs.length === 0) return outcomes;
     const [job] = jobs;
     try {

@@ -19,8 +19,6 @@ export async function markRead(userId: string, id: string | null) {
   await db.update(notification).set({ readAt: new Date() }).where(where);
 }
 
-export const EMAIL_STATUSES = ["queued", "sending", "sent", "failed", "dead", "skipped"] as const;
-
 export async function emailLogRows(status: string | null, limit = 200) {
   const q = db.select().from(emailLog);
   return (status ? q.where(eq(emailLog.status, status)) : q).orderBy(desc(emailLog.updatedAt)).limit(limit);

@@ -1,7 +1,8 @@
 // /admin/email: every e-mail Dipwell tried to send, with its status, attempts
 // and the last error, so an admin sees bounces and a broken SMTP server.
 import { PageTitle, EmptyState, cx } from "~/components/ui";
-import { EMAIL_STATUSES, emailLogRows } from "~/features/notify/notifications.server";
+import { emailLogRows } from "~/features/notify/notifications.server";
+import { EMAIL_STATUSES } from "~/features/notify/statuses";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/admin-email";
 
