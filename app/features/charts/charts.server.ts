@@ -1,0 +1,336 @@
+// Strip charts, their immutable versions and the batches that read with them; calibration
+// from a chart photo, from reference solutions and from owners' corrections. Nothing here
+// changes the chart a batch reads with except saveVersion, which adds a new version row.
+import { createHash, randomUUID } from "node:crypto";
+import { and, asc, desc, eq, inArray, isNotNull, max } from "drizzle-orm";
+import sharp from "sharp";
+import { CalibrationError, proposeFromSample, sampleChartPhoto, type ChartGrid, type Quad } from "~/reading/calibrate";
+import { ChartError, exportChart, parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
+import { deltaE2000, hexToLab, labToHex, type Lab } from "~/reading/colour";
+import { chartVersion, photo, reading, readingPad, stripBatch, stripChart } from "~/db/schema";
+import type { SessionUser } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { getObjectBytes, putObject } from "~/lib/storage.server";
+
+/** A refusal shown to the technician in plain words. */
+export class ChartInputError extends Error {
+  constructor(message: string, public status = 400) {
+    super(message);
+  }
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const notFound = (what: string) => new Response(JSON.stringify({ message: `We could not find that ${what}.` }), { status: 404, headers: { "content-type": "application/json" } });
+
+/** Too close to tell apart on a phone photo: below about 3 ΔE00 neighbouring swatches blur into each other (common practice). */
+export const TOO_CLOSE_DELTA_E = 3;
+
+export function blankChart(name: string): object {
+  return {
+    format: "strip-chart/1",
+    name,
+    strip: { widthMm: 6, lengthMm: 76, color: "#f5f4ee" },
+    pads: [
+      { analyte: "ph", label: "pH", unit: "pH", centerMm: 5, sizeMm: 5.5, swatches: [{ value: 6.8, color: "#eaa446" }, { value: 7.2, color: "#e5813f" }, { value: 7.6, color: "#da5e45" }, { value: 8.0, color: "#c84458" }] },
+    ],
+  };
+}
+
+/** Parses a strip-chart/1 document from text or JSON; ChartInputError with plain words otherwise. */
+export function readChartDocument(input: unknown): StripChart {
+  let json = input;
+  if (typeof input === "string") {
+    try {
+      json = JSON.parse(input);
+    } catch {
+      throw new ChartInputError("This file is not a strip-chart/1 chart: it is not JSON text.");
+    }
+  }
+  try {
+    return parseChart(json);
+  } catch (e) {
+    if (e instanceof ChartError) throw new ChartInputError(e.message);
+    throw e;
+  }
+}
+
+export async function listCharts() {
+  const charts = await db.select().from(stripChart).orderBy(asc(stripChart.name));
+  const batches = charts.length ? await db.select().from(stripBatch).where(inArray(stripBatch.chartId, charts.map((c) => c.id))).orderBy(asc(stripBatch.lot)) : [];
+  const versions = charts.length
+    ? await db.select({ id: chartVersion.id, version: chartVersion.version, chartId: chartVersion.chartId }).from(chartVersion).where(inArray(chartVersion.chartId, charts.map((c) => c.id)))
+    : [];
+  return charts.map((c) => ({
+    id: c.id,
+    name: c.name,
+    versions: versions.filter((v) => v.chartId === c.id).length,
+    batches: batches
+      .filter((b) => b.chartId === c.id)
+      .map((b) => ({ id: b.id, lot: b.lot, expiresOn: b.expiresOn, currentVersion: versions.find((v) => v.id === b.currentVersionId)?.version ?? null })),
+  }));
+}
+
+async function nextVersionNumber(chartId: string, tx: Pick<typeof db, "select"> = db) {
+  const [row] = await tx.select({ n: max(chartVersion.version) }).from(chartVersion).where(eq(chartVersion.chartId, chartId));
+  return (row?.n ?? 0) + 1;
+}
+
+export async function createChart(user: Pick<SessionUser, "id">, input: { name: string; lot: string; expiresOn: string | null; definition: unknown }) {
+  const chart = readChartDocument(input.definition ?? blankChart(input.name));
+  const doc = { ...(exportChart(chart) as Record<string, unknown>), name: input.name || chart.name };
+  return db.transaction(async (tx) => {
+    const [c] = await tx.insert(stripChart).values({ name: input.name || chart.name || "Untitled chart", createdBy: user.id }).returning();
+    const [b] = await tx.insert(stripBatch).values({ chartId: c.id, lot: input.lot, expiresOn: input.expiresOn, createdBy: user.id }).returning();
+    const [v] = await tx
+      .insert(chartVersion)
+      .values({ chartId: c.id, batchId: b.id, version: 1, definition: doc, source: input.definition ? "import" : "editor", note: input.definition ? "Imported from a strip-chart/1 file" : "New chart", createdBy: user.id })
+      .returning();
+    await tx.update(stripBatch).set({ currentVersionId: v.id }).where(eq(stripBatch.id, b.id));
+    return { chartId: c.id, batchId: b.id, versionId: v.id };
+  });
+}
+
+export async function loadChart(chartId: string | undefined) {
+  if (!chartId || !UUID.test(chartId)) throw notFound("chart");
+  const c = await db.query.stripChart.findFirst({ where: eq(stripChart.id, chartId) });
+  if (!c) throw notFound("chart");
+  const batches = await db.select().from(stripBatch).where(eq(stripBatch.chartId, c.id)).orderBy(asc(stripBatch.lot));
+  const versions = await db.select().from(chartVersion).where(eq(chartVersion.chartId, c.id)).orderBy(desc(chartVersion.version));
+  return { chart: c, batches, versions };
+}
+
+export async function loadBatch(chartId: string | undefined, batchId: string | undefined) {
+  const found = await loadChart(chartId);
+  const batch = found.batches.find((b) => b.id === batchId);
+  if (!batch) throw notFound("strip batch");
+  const current = found.versions.find((v) => v.id === batch.currentVersionId) ?? found.versions[0];
+  if (!current) throw notFound("chart version");
+  return { ...found, batch, current, currentChart: parseChart(current.definition) };
+}
+
+export async function addBatch(user: Pick<SessionUser, "id">, chartId: string, input: { lot: string; expiresOn: string | null; versionId?: string }) {
+  const { versions, batches } = await loadChart(chartId);
+  if (batches.some((b) => b.lot.toLowerCase() === input.lot.toLowerCase())) throw new ChartInputError(`This chart already has a batch with lot number “${input.lot}”.`);
+  const from = versions.find((v) => v.id === input.versionId) ?? versions[0];
+  const [b] = await db.insert(stripBatch).values({ chartId, lot: input.lot, expiresOn: input.expiresOn, currentVersionId: from?.id ?? null, createdBy: user.id }).returning();
+  return b;
+}
+
+export async function updateBatch(chartId: string, batchId: string, input: { lot: string; expiresOn: string | null }) {
+  const { batches } = await loadChart(chartId);
+  if (!batches.some((b) => b.id === batchId)) throw notFound("strip batch");
+  if (batches.some((b) => b.id !== batchId && b.lot.toLowerCase() === input.lot.toLowerCase())) throw new ChartInputError(`This chart already has a batch with lot number “${input.lot}”.`);
+  await db.update(stripBatch).set({ lot: input.lot, expiresOn: input.expiresOn }).where(eq(stripBatch.id, batchId));
+}
+
+export const SOURCES = { editor: "Edited by hand", import: "Imported file", photo: "Chart photo", solutions: "Reference solutions", corrections: "Owners' corrections" } as const;
+export type VersionSource = keyof typeof SOURCES;
+
+/**
+ * Saves a new immutable version for a batch and makes it the batch's current chart. The
+ * definition is validated first; on any error nothing changes.
+ */
+export async function saveVersion(user: Pick<SessionUser, "id">, chartId: string, batchId: string, definition: unknown, source: VersionSource, note?: string) {
+  const chart = readChartDocument(definition);
+  const { batches } = await loadChart(chartId);
+  if (!batches.some((b) => b.id === batchId)) throw notFound("strip batch");
+  const doc = exportChart(chart);
+  return db.transaction(async (tx) => {
+    const version = await nextVersionNumber(chartId, tx);
+    const [v] = await tx.insert(chartVersion).values({ chartId, batchId, version, definition: doc, source, note: note || SOURCES[source], createdBy: user.id }).returning();
+    await tx.update(stripBatch).set({ currentVersionId: v.id }).where(eq(stripBatch.id, batchId));
+    return v;
+  });
+}
+
+export async function versionDocument(versionId: string | undefined) {
+  if (!versionId || !UUID.test(versionId)) throw notFound("chart version");
+  const v = await db.query.chartVersion.findFirst({ where: eq(chartVersion.id, versionId) });
+  if (!v) throw notFound("chart version");
+  return { version: v, document: exportChart(parseChart(v.definition)) };
+}
+
+/** ΔE00 between neighbouring swatches of every pad, with the pairs too close to tell apart. */
+export function neighbourDistances(chart: { pads: { analyte: string; label?: string; swatches: { value: number; color: string }[] }[] }) {
+  return chart.pads.map((p) => ({
+    analyte: p.analyte,
+    steps: p.swatches.slice(1).map((s, i) => {
+      const a = p.swatches[i];
+      let d = NaN;
+      try {
+        d = deltaE2000(hexToLab(a.color), hexToLab(s.color));
+      } catch {
+        /* an unfinished colour in the editor */
+      }
+      return { from: a.value, to: s.value, deltaE: d, tooClose: Number.isFinite(d) && d < TOO_CLOSE_DELTA_E };
+    }),
+  }));
+}
+
+// ---------------------------------------------------------------- chart photo
+
+const PHOTO_TYPES: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" };
+const MAX_BYTES = 20 * 1024 * 1024;
+
+export async function uploadChartPhoto(user: Pick<SessionUser, "id">, batchId: string, file: File | null) {
+  if (!file || typeof file === "string" || file.size === 0) throw new ChartInputError("Choose a photo of the printed colour chart first.");
+  const ext = PHOTO_TYPES[file.type];
+  if (!ext) throw new ChartInputError("That file is not a photo Dipwell can read. Choose a JPEG, PNG or WebP photo.");
+  if (file.size > MAX_BYTES) throw new ChartInputError("That photo is larger than 20 MB. Take it again at a lower resolution.");
+  const bytes = Buffer.from(await file.arrayBuffer());
+  const meta = await sharp(bytes)
+    .metadata()
+    .catch(() => null);
+  if (!meta) throw new ChartInputError("That file could not be opened as a photo. It may be damaged or not a picture.");
+  const width = meta.autoOrient?.width ?? meta.width ?? 0, height = meta.autoOrient?.height ?? meta.height ?? 0;
+  if (Math.min(width, height) < 300) throw new ChartInputError(`This photo is too small (${width} × ${height} pixels) to sample the chart. Use a photo at least 300 pixels on each side.`);
+  const sha256 = createHash("sha256").update(bytes).digest("hex");
+  const existing = await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, sha256), eq(photo.purpose, "chart")) });
+  if (existing) return existing;
+  const key = `charts/${batchId}/${randomUUID()}.${ext}`;
+  await putObject(key, bytes, file.type);
+  const [row] = await db.insert(photo).values({ tubId: null, batchId, purpose: "chart", uploaderId: user.id, s3Key: key, contentType: file.type, sizeBytes: bytes.length, sha256, width, height }).returning();
+  return row;
+}
+
+export async function chartPhoto(photoId: string | undefined, batchId?: string) {
+  if (!photoId || !UUID.test(photoId)) return null;
+  const p = await db.query.photo.findFirst({ where: and(eq(photo.id, photoId), eq(photo.purpose, "chart")) });
+  if (!p || (batchId && p.batchId !== batchId)) return null;
+  return p;
+}
+
+export async function latestChartPhoto(batchId: string) {
+  const [p] = await db.select().from(photo).where(and(eq(photo.batchId, batchId), eq(photo.purpose, "chart"))).orderBy(desc(photo.createdAt)).limit(1);
+  return p ?? null;
+}
+
+export type Proposal = { definition: object; changes: { analyte: string; value: number; from: string; to: string; deltaE: number }[]; warnings: string[] };
+
+/** Samples the grid on the stored chart photo and proposes swatch colours (nothing is saved). */
+export async function proposeFromChartPhoto(chart: StripChart, photoId: string, batchId: string, grid: ChartGrid, white: Quad): Promise<Proposal> {
+  const p = await chartPhoto(photoId, batchId);
+  if (!p) throw new ChartInputError("Upload a photo of this batch's colour chart first.");
+  const bytes = await getObjectBytes(p.s3Key);
+  try {
+    const sample = await sampleChartPhoto(bytes, grid, white);
+    const { definition, changes } = proposeFromSample(chart, sample);
+    return { definition, changes, warnings: sample.warnings };
+  } catch (e) {
+    if (e instanceof CalibrationError || e instanceof ReadingError) throw new ChartInputError(e.message);
+    throw e;
+  }
+}
+
+// ---------------------------------------------------------------- reference solutions
+
+type Doc = { format: string; name: string; strip: { widthMm: number; lengthMm: number; color: string }; pads: { analyte: string; label: string; unit: string; centerMm: number; sizeMm: number; swatches: { value: number; color: string }[] }[] };
+
+function setSwatch(doc: Doc, analyte: string, value: number, color: string) {
+  const pad = doc.pads.find((p) => p.analyte === analyte);
+  if (!pad) return null;
+  const at = pad.swatches.findIndex((s) => Math.abs(s.value - value) < 1e-9);
+  const from = at >= 0 ? pad.swatches[at].color : null;
+  if (at >= 0) pad.swatches[at] = { value, color };
+  else {
+    pad.swatches.push({ value, color });
+    pad.swatches.sort((a, b) => a.value - b.value);
+  }
+  return from;
+}
+
+/**
+ * Photos of strips dipped in solutions of known value: each is read with the batch's chart,
+ * and each pad's measured colour becomes (or is added as) the swatch at the known value.
+ */
+export async function proposeFromSolutions(chart: StripChart, samples: { photo: Buffer; known: Record<string, number> }[]): Promise<Proposal> {
+  if (!samples.length) throw new ChartInputError("Add at least one strip photo with the value of its reference solution.");
+  const doc = exportChart(chart) as Doc;
+  const changes: Proposal["changes"] = [];
+  const warnings: string[] = [];
+  const collected = new Map<string, Lab[]>();
+  for (const [i, s] of samples.entries()) {
+    const analytes = Object.keys(s.known);
+    if (!analytes.length) throw new ChartInputError(`Photo ${i + 1}: enter the known value of at least one pad.`);
+    let read;
+    try {
+      read = await readStrip(s.photo, chart, { checkPads: false });
+    } catch (e) {
+      if (e instanceof ReadingError) throw new ChartInputError(`Photo ${i + 1}: ${e.message}`);
+      throw e;
+    }
+    for (const a of analytes) {
+      const pad = read.pads.find((p) => p.analyte === a);
+      if (!pad) continue;
+      const key = `${a}\u0000${s.known[a]}`;
+      collected.set(key, [...(collected.get(key) ?? []), pad.lab]);
+    }
+    warnings.push(...read.warnings.map((w) => `Photo ${i + 1}: ${w}`));
+  }
+  for (const [key, labs] of collected) {
+    const [analyte, v] = key.split("\u0000");
+    const value = Number(v);
+    const mean = { l: avg(labs.map((l) => l.l)), a: avg(labs.map((l) => l.a)), b: avg(labs.map((l) => l.b)) };
+    const hex = labToHex(mean);
+    const from = setSwatch(doc, analyte, value, hex);
+    changes.push({ analyte, value, from: from ?? "(new swatch)", to: hex, deltaE: from ? deltaE2000(hexToLab(from), mean) : NaN });
+  }
+  readChartDocument(doc);
+  return { definition: doc, changes, warnings };
+}
+
+const avg = (a: number[]) => a.reduce((s, x) => s + x, 0) / a.length;
+
+// ---------------------------------------------------------------- owners' corrections
+
+/**
+ * Per pad of this batch: how far what the reader saw lies from what owners confirmed, and
+ * for values that owners confirmed at least twice, the colour the strips really showed.
+ */
+export async function correctionsReport(chart: StripChart, batchId: string) {
+  const rows = await db
+    .select({ analyte: readingPad.analyte, readValue: readingPad.readValue, confirmedValue: readingPad.confirmedValue, lab: readingPad.lab, source: readingPad.source })
+    .from(readingPad)
+    .innerJoin(reading, eq(reading.id, readingPad.readingId))
+    .where(and(eq(reading.batchId, batchId), isNotNull(readingPad.confirmedValue), isNotNull(readingPad.readValue)));
+  const doc = exportChart(chart) as Doc;
+  const changes: Proposal["changes"] = [];
+  const pads = chart.pads.map((p) => {
+    const mine = rows.filter((r) => r.analyte === p.analyte);
+    const corrected = mine.filter((r) => r.confirmedValue !== r.readValue);
+    const offsets = mine.map((r) => (r.confirmedValue ?? 0) - (r.readValue ?? 0));
+    const bySwatch = p.swatches.map((s) => {
+      const labs = mine.filter((r) => Math.abs((r.confirmedValue ?? NaN) - s.value) < 1e-9 && isLab(r.lab)).map((r) => r.lab as Lab);
+      if (labs.length < 2) return { value: s.value, n: labs.length, seen: null as string | null, deltaE: null as number | null };
+      const mean = { l: avg(labs.map((l) => l.l)), a: avg(labs.map((l) => l.a)), b: avg(labs.map((l) => l.b)) };
+      return { value: s.value, n: labs.length, seen: labToHex(mean), deltaE: deltaE2000(s.lab, mean) };
+    });
+    for (const b of bySwatch) {
+      if (b.seen && b.deltaE !== null && b.deltaE >= 1) {
+        const from = setSwatch(doc, p.analyte, b.value, b.seen);
+        changes.push({ analyte: p.analyte, value: b.value, from: from ?? "", to: b.seen, deltaE: b.deltaE });
+      }
+    }
+    return {
+      analyte: p.analyte,
+      label: p.label,
+      unit: p.unit,
+      n: mine.length,
+      corrected: corrected.length,
+      meanOffset: offsets.length ? avg(offsets) : null,
+      bySwatch,
+    };
+  });
+  let valid = true;
+  try {
+    readChartDocument(doc);
+  } catch {
+    valid = false;
+  }
+  return { pads, proposal: changes.length && valid ? ({ definition: doc, changes, warnings: [] } as Proposal) : null };
+}
+
+function isLab(x: unknown): x is Lab {
+  const l = x as Lab;
+  return !!l && typeof l.l === "number" && typeof l.a === "number" && typeof l.b === "number";
+}

@@ -1,0 +1,74 @@
+import { data, redirect } from "react-router";
+import { Button, Card, Notice, PageTitle, Select } from "~/components/ui";
+import { ClientInputError } from "~/features/clients/clients.server";
+import { listUsers, setBanned, setRole } from "~/features/clients/users.server";
+import { ROLE_NAMES } from "~/lib/permissions";
+import { requireRole } from "~/lib/session.server";
+import type { Route } from "./+types/admin-users";
+
+export const meta: Route.MetaFunction = () => [{ title: "Users · Dipwell" }];
+
+export async function loader({ context, request }: Route.LoaderArgs) {
+  const admin = requireRole(context, request, "admin");
+  const users = await listUsers();
+  return { me: admin.id, users: users.map((u) => ({ ...u, createdAt: u.createdAt.toISOString() })) };
+}
+
+export async function action({ context, request }: Route.ActionArgs) {
+  const admin = requireRole(context, request, "admin");
+  const fd = await request.formData();
+  const intent = String(fd.get("intent") ?? "");
+  const userId = String(fd.get("userId") ?? "");
+  try {
+    if (intent === "role") await setRole(admin, userId, String(fd.get("role") ?? ""));
+    else if (intent === "ban") await setBanned(admin, userId, true, String(fd.get("reason") ?? ""));
+    else if (intent === "unban") await setBanned(admin, userId, false);
+    else return data({ userId, form: "Unknown action." }, { status: 400 });
+  } catch (e) {
+    if (e instanceof ClientInputError) return data({ userId, form: e.message }, { status: e.status });
+    throw e;
+  }
+  return redirect("/admin/users");
+}
+
+export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
+  const { users, me } = loaderData;
+  const a = actionData as { userId?: string; form?: string } | undefined;
+  return (
+    <div className="space-y-5">
+      <PageTitle sub="Accounts, their roles, and bans.">Users</PageTitle>
+      {a?.form && <Notice tone="alert">{a.form}</Notice>}
+      <ul className="space-y-3" data-testid="users">
+        {users.map((u) => (
+          <li key={u.id}>
+            <Card className="flex flex-wrap items-center gap-3">
+              <div className="min-w-48 flex-1">
+                <p className="font-bold">{u.name}{u.id === me ? " (you)" : ""}</p>
+                <p className="text-sm text-ink-soft">{u.email}{u.emailVerified ? "" : " · not confirmed"}{u.banned ? ` · banned${u.banReason ? `: ${u.banReason}` : ""}` : ""}</p>
+              </div>
+              {u.id !== me && (
+                <>
+                  <form method="post" className="flex items-center gap-2">
+                    <input type="hidden" name="intent" value="role" />
+                    <input type="hidden" name="userId" value={u.id} />
+                    <Select name="role" defaultValue={u.role} aria-label={`Role of ${u.email}`} className="w-40">
+                      {ROLE_NAMES.map((r) => (
+                        <option key={r} value={r}>{r}</option>
+                      ))}
+                    </Select>
+                    <Button type="submit" variant="secondary">Set role</Button>
+                  </form>
+                  <form method="post">
+                    <input type="hidden" name="intent" value={u.banned ? "unban" : "ban"} />
+                    <input type="hidden" name="userId" value={u.id} />
+                    <Button type="submit" variant={u.banned ? "secondary" : "danger"}>{u.banned ? "Lift ban" : "Ban"}</Button>
+                  </form>
+                </>
+              )}
+            </Card>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}

@@ -1,0 +1,230 @@
+import { data, redirect } from "react-router";
+import { z } from "zod";
+import { GridOverlay } from "~/components/charts/grid-overlay";
+import { Button, ButtonLink, Card, Field, Input, Notice, PageTitle } from "~/components/ui";
+import {
+  ChartInputError,
+  correctionsReport,
+  latestChartPhoto,
+  loadBatch,
+  proposeFromChartPhoto,
+  proposeFromSolutions,
+  saveVersion,
+  uploadChartPhoto,
+  type Proposal,
+} from "~/features/charts/charts.server";
+import { requireChartRole } from "~/features/charts/guard.server";
+import type { Route } from "./+types/chart-calibrate";
+
+export const meta: Route.MetaFunction = () => [{ title: "Calibrate a chart · Dipwell" }];
+
+export async function loader({ context, request, params }: Route.LoaderArgs) {
+  requireChartRole(context, request);
+  const { chart, batch, current, currentChart } = await loadBatch(params.chartId, params.batchId);
+  const p = await latestChartPhoto(batch.id);
+  const corrections = await correctionsReport(currentChart, batch.id);
+  return {
+    chart: { id: chart.id, name: chart.name },
+    batch: { id: batch.id, lot: batch.lot },
+    version: current.version,
+    pads: currentChart.pads.map((pd) => ({ analyte: pd.analyte, label: pd.label, unit: pd.unit, swatches: pd.swatches.map((s) => ({ value: s.value, color: s.color })) })),
+    photo: p ? { id: p.id, width: p.width ?? 1000, height: p.height ?? 750 } : null,
+    corrections,
+  };
+}
+
+const pt = z.tuple([z.number().finite(), z.number().finite()]);
+const quad = z.tuple([pt, pt, pt, pt]);
+const gridSchema = z.object({ corners: quad, rows: z.number().int(), cols: z.number().int() });
+const SOLUTION_SLOTS = 3;
+
+type ActionResult = { intent: string; form?: string; proposal?: Proposal; source?: string };
+
+export async function action({ context, request, params }: Route.ActionArgs) {
+  const user = requireChartRole(context, request);
+  const { chart, batch, currentChart } = await loadBatch(params.chartId, params.batchId);
+  const fd = await request.formData();
+  const intent = String(fd.get("intent") ?? "");
+  const fail = (form: string) => data<ActionResult>({ intent, form }, { status: 400 });
+  try {
+    if (intent === "upload") {
+      await uploadChartPhoto(user, batch.id, fd.get("photo") as File | null);
+      return redirect(`/charts/${chart.id}/batches/${batch.id}/calibrate`);
+    }
+    if (intent === "sample") {
+      const p = await latestChartPhoto(batch.id);
+      let g: unknown, w: unknown;
+      try {
+        g = JSON.parse(String(fd.get("grid") ?? ""));
+        w = JSON.parse(String(fd.get("white") ?? ""));
+      } catch {
+        return fail("The grid could not be read. Reload the page and place it again.");
+      }
+      const grid = gridSchema.safeParse(g), white = quad.safeParse(w);
+      if (!grid.success || !white.success) return fail("The grid needs four corners and the white area four corners. Reload the page and place them again.");
+      if (!p) return fail("Upload a photo of this batch's colour chart first.");
+      const proposal = await proposeFromChartPhoto(currentChart, p.id, batch.id, grid.data, white.data);
+      return { intent, proposal, source: "photo" } satisfies ActionResult;
+    }
+    if (intent === "solutions") {
+      const samples: { photo: Buffer; known: Record<string, number> }[] = [];
+      for (let i = 0; i < SOLUTION_SLOTS; i++) {
+        const file = fd.get(`photo_${i}`);
+        const known: Record<string, number> = {};
+        for (const pad of currentChart.pads) {
+          const raw = String(fd.get(`value_${i}_${pad.analyte}`) ?? "").trim();
+          if (!raw) continue;
+          const v = Number(raw.replace(",", "."));
+          if (!Number.isFinite(v) || v < 0) return fail(`Photo ${i + 1}: the known value for ${pad.label} must be a number.`);
+          known[pad.analyte] = v;
+        }
+        const has = file && typeof file !== "string" && file.size > 0;
+        if (!has && Object.keys(known).length) return fail(`Photo ${i + 1}: choose the strip photo for these values.`);
+        if (has) samples.push({ photo: Buffer.from(await (file as File).arrayBuffer()), known });
+      }
+      const proposal = await proposeFromSolutions(currentChart, samples);
+      return { intent, proposal, source: "solutions" } satisfies ActionResult;
+    }
+    if (intent === "save") {
+      const source = String(fd.get("source") ?? "");
+      if (!["photo", "solutions", "corrections"].includes(source)) return fail("Unknown calibration.");
+      const v = await saveVersion(user, chart.id, batch.id, String(fd.get("definition") ?? ""), source as "photo", String(fd.get("note") ?? "") || undefined);
+      return redirect(`/charts/${chart.id}?batch=${batch.id}&saved=${v.version}`);
+    }
+    return fail("Unknown action.");
+  } catch (e) {
+    if (e instanceof ChartInputError) return fail(e.message);
+    throw e;
+  }
+}
+
+function ProposalView({ proposal, source, pads }: { proposal: Proposal; source: string; pads: { analyte: string; label: string }[] }) {
+  return (
+    <div className="space-y-3" data-testid="proposal">
+      {proposal.warnings.map((w) => (
+        <Notice key={w} tone="caution">{w}</Notice>
+      ))}
+      <table className="w-full text-sm">
+        <thead>
+          <tr className="text-left">
+            <th>Pad</th><th>Value</th><th>Now</th><th>Proposed</th><th>ΔE00</th>
+          </tr>
+        </thead>
+        <tbody>
+          {proposal.changes.map((c) => (
+            <tr key={`${c.analyte}-${c.value}`} className="border-t border-line">
+              <td>{pads.find((p) => p.analyte === c.analyte)?.label ?? c.analyte}</td>
+              <td>{c.value}</td>
+              <td><Swatch color={c.from} /></td>
+              <td><Swatch color={c.to} /></td>
+              <td>{Number.isFinite(c.deltaE) ? c.deltaE.toFixed(1) : "new"}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <form method="post" className="space-y-2">
+        <input type="hidden" name="intent" value="save" />
+        <input type="hidden" name="source" value={source} />
+        <input type="hidden" name="definition" value={JSON.stringify(proposal.definition)} />
+        <Field label="Note for this version"><Input name="note" placeholder="e.g. calibrated from the card photo of the new lot" /></Field>
+        <Button type="submit">Save as a new version</Button>
+        <p className="text-sm text-ink-soft">Nothing changes for this batch until you save.</p>
+      </form>
+    </div>
+  );
+}
+
+function Swatch({ color }: { color: string }) {
+  const ok = /^#[0-9a-f]{6}$/i.test(color);
+  return (
+    <span className="inline-flex items-center gap-1">
+      <span className="inline-block h-6 w-8 rounded border border-line" style={{ background: ok ? color : "transparent" }} />
+      <span className="text-xs text-ink-soft">{color}</span>
+    </span>
+  );
+}
+
+export default function Calibrate({ loaderData, actionData }: Route.ComponentProps) {
+  const { chart, batch, version, pads, photo, corrections } = loaderData;
+  const a = actionData as ActionResult | undefined;
+  const cols = Math.max(...pads.map((p) => p.swatches.length));
+  return (
+    <div className="space-y-6">
+      <PageTitle sub={`${chart.name} · lot ${batch.lot} · reads with version ${version}`}>Calibrate the chart</PageTitle>
+      <ButtonLink variant="quiet" href={`/charts/${chart.id}?batch=${batch.id}`}>Back to the chart</ButtonLink>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">1. From a photo of the printed chart</h2>
+        <form method="post" encType="multipart/form-data" className="mb-4 flex flex-wrap items-end gap-3">
+          <input type="hidden" name="intent" value="upload" />
+          <Field label={photo ? "Use another photo" : "Photo of the batch's colour chart"}>
+            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" />
+          </Field>
+          <Button type="submit" variant="secondary">Upload photo</Button>
+        </form>
+        {a?.intent === "upload" && a.form && <Notice tone="alert">{a.form}</Notice>}
+        {photo && (
+          <form method="post" className="space-y-3">
+            <input type="hidden" name="intent" value="sample" />
+            <GridOverlay key={photo.id} src={`/api/chart-photos/${photo.id}`} width={photo.width} height={photo.height} rows={pads.length} cols={cols} />
+            {a?.intent === "sample" && a.form && <Notice tone="alert">{a.form}</Notice>}
+            <Button type="submit">Sample the colours</Button>
+          </form>
+        )}
+        {a?.intent === "sample" && a.proposal && <ProposalView proposal={a.proposal} source="photo" pads={pads} />}
+      </Card>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">2. From reference solutions</h2>
+        <p className="mb-3 text-sm text-ink-soft">Dip strips of this batch in solutions of known value, photograph each strip, and enter the known values (leave a pad empty if its solution is not known).</p>
+        <form method="post" encType="multipart/form-data" className="space-y-4">
+          <input type="hidden" name="intent" value="solutions" />
+          {[0, 1, 2].map((i) => (
+            <fieldset key={i} className="rounded-xl border border-line p-3">
+              <legend className="px-1 font-bold">Strip photo {i + 1}</legend>
+              <input type="file" name={`photo_${i}`} accept="image/jpeg,image/png,image/webp" aria-label={`Strip photo ${i + 1}`} />
+              <div className="mt-2 grid gap-2 sm:grid-cols-3">
+                {pads.map((p) => (
+                  <label key={p.analyte} className="text-sm">
+                    {p.label} ({p.unit})
+                    <Input name={`value_${i}_${p.analyte}`} inputMode="decimal" aria-label={`Photo ${i + 1} ${p.label}`} />
+                  </label>
+                ))}
+              </div>
+            </fieldset>
+          ))}
+          {a?.intent === "solutions" && a.form && <Notice tone="alert">{a.form}</Notice>}
+          <Button type="submit" variant="secondary">Refit the swatches</Button>
+        </form>
+        {a?.intent === "solutions" && a.proposal && <ProposalView proposal={a.proposal} source="solutions" pads={pads} />}
+      </Card>
+
+      <Card>
+        <h2 className="mb-2 text-lg font-bold">3. From owners' corrections</h2>
+        <table className="w-full text-sm" data-testid="corrections">
+          <thead>
+            <tr className="text-left"><th>Pad</th><th>Confirmed pads</th><th>Corrected</th><th>Mean offset (confirmed − read)</th></tr>
+          </thead>
+          <tbody>
+            {corrections.pads.map((p) => (
+              <tr key={p.analyte} className="border-t border-line">
+                <td>{p.label}</td>
+                <td>{p.n}</td>
+                <td>{p.corrected}</td>
+                <td>{p.meanOffset === null ? "–" : `${p.meanOffset > 0 ? "+" : ""}${p.meanOffset.toFixed(2)} ${p.unit}`}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {corrections.proposal ? (
+          <div className="mt-3">
+            <p className="mb-2 text-sm">Where owners confirmed a value at least twice, the colour their strips showed differs from the chart:</p>
+            <ProposalView proposal={corrections.proposal} source="corrections" pads={pads} />
+          </div>
+        ) : (
+          <p className="mt-3 text-sm text-ink-soft">No adjustment to propose yet: it needs at least two confirmed readings at a value whose colour differs from the chart by 1 ΔE00 or more.</p>
+        )}
+      </Card>
+    </div>
+  );
+}
