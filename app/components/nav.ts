@@ -11,9 +11,6 @@ export const NAV_ITEMS: NavItem[] = [
   { to: "/clients", label: "Clients", roles: ["technician", "admin"] },
   { to: "/charts", label: "Charts", roles: ["technician", "admin"] },
   { to: "/admin/users", label: "Users", roles: ["admin"] },
-  { to: "/clients", label: "Clients", roles: ["technician", "admin"] },
-  { to: "/charts", label: "Charts", roles: ["technician", "admin"] },
-  { to: "/admin/users", label: "Users", roles: ["admin"] },
   { to: "/dev/inbox", label: "Mail inbox", roles: ["admin"] },
   { to: "/admin/email", label: "E-mail log", roles: ["admin"] },
 ];
