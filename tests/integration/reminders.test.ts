@@ -8,10 +8,12 @@ import PgBoss from "pg-boss";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as s from "~/db/schema";
 import { litresFromUsGallons } from "~/chemistry";
-import { deliverEmail, smtpTransport, type OutgoingEmail } from "~/features/notify/outbox.server";
+import { deliverEmail, enqueueEmail, smtpTransport, type OutgoingEmail } from "~/features/notify/outbox.server";
+import { invitationEmail } from "~/features/notify/messages.server";
 import { ensurePreferences, savePreferences } from "~/features/notify/preferences.server";
 import { runScan } from "~/features/notify/scan.server";
-import { createQueues, DELIVER_QUEUE } from "~/jobs/queues";
+import { registerJobs } from "~/jobs/jobs";
+import { createQueues, DELIVER_QUEUE, SCAN_CRON, SCAN_QUEUE } from "~/jobs/queues";
 import { db } from "~/lib/db.server";
 import { callRoute, createTub, createUser } from "../support/fixtures";
 import { importRoute } from "../support/routes";
@@ -230,6 +232,11 @@ describe("one-click unsubscribe", () => {
     const scan = await runScan(boss, new Date("2030-07-03T12:00:00Z"), { tubIds: [tub.id] });
     expect(scan.queued).toBe(0);
     expect(await mailsTo(owner.email)).toHaveLength(0);
+
+    // Other kinds still go: the routine test falls due a day later (tub added a day before, test every 2 days).
+    expect((await runScan(boss, new Date("2030-07-04T12:00:00Z"), { tubIds: [tub.id] })).queued).toBe(1);
+    expect(await work(boss)).toEqual(["sent"]);
+    expect((await mailsTo(owner.email)).map((m) => m.subject)).toEqual([`${tub.name}: a water test is due`]);
   });
 });
 
@@ -264,5 +271,37 @@ describe("SMTP server down", () => {
     expect(await mailsTo(owner.email)).toHaveLength(1);
     const [after] = await db.select().from(s.emailLog).where(eq(s.emailLog.userId, owner.id));
     expect(after).toMatchObject({ status: "sent", attempts: 2, lastError: null });
+  });
+});
+
+describe("the worker", () => {
+  it("registers the five-minute scan and delivers queued e-mail (an invitation) on its own", async () => {
+    await boss.stop({ graceful: true, close: true });
+    boss = await newBoss();
+    await registerJobs(boss);
+    const schedules = await boss.getSchedules();
+    expect(schedules.find((x) => x.name === SCAN_QUEUE)?.cron).toBe(SCAN_CRON);
+
+    const tech = await createUser("technician");
+    const pref = await ensurePreferences(tech.id);
+    const mail = invitationEmail({
+      invitationId: crypto.randomUUID(), to: tech.email, tubName: "Cedar deck tub", inviterName: "Test owner",
+      acceptUrl: "http://127.0.0.1:3100/invitations/abc", recipient: { id: tech.id, name: "Test technician", unsubscribeToken: pref.unsubscribeToken },
+    });
+    expect((await enqueueEmail(mail, { boss })).queued).toBe(true);
+    expect((await enqueueEmail(mail, { boss })).queued).toBe(false); // the same invitation twice queues once
+
+    // Wait for the worker's own polling to pick the job up (an event, not a timing check).
+    let status = "";
+    for (let i = 0; i < 100 && status !== "sent"; i++) {
+      const [log] = await db.select().from(s.emailLog).where(eq(s.emailLog.dedupeKey, mail.dedupeKey));
+      status = log.status;
+      if (status !== "sent") await new Promise((r) => setTimeout(r, 200));
+    }
+    expect(status).toBe("sent");
+    const [m] = await mailsTo(tech.email);
+    expect(m.subject).toBe("Test owner invited you to look after Cedar deck tub");
+    expect(m.headers["list-unsubscribe"]).toContain(`/unsubscribe/${pref.unsubscribeToken}/invitation`);
+    expect(m.text).toContain("http://127.0.0.1:3100/invitations/abc");
   });
 });
