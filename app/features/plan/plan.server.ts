@@ -277,10 +277,10 @@ export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | nu
 // ------------------------------------------------------------------ the treatment log
 
 const logSchema = z.object({
-  productId: z.string().trim().min(1, "Choose the product you added."),
+  productId: z.string({ error: "Choose the product you added." }).trim().min(1, "Choose the product you added."),
   amount: z.preprocess(
-    (v) => (typeof v === "string" ? v.trim().replace(",", ".") : v),
-    z.string().min(1, "Give the amount you added.").pipe(z.coerce.number({ error: "The amount must be a number." })),
+    (v) => (typeof v === "string" ? v.trim().replace(",", ".") : (v ?? "")),
+    z.string({ error: "Give the amount you added." }).min(1, "Give the amount you added.").pipe(z.coerce.number({ error: "The amount must be a number." })),
   ),
   unit: z.enum(["g", "mL", "tablets"], { error: "Choose grams, millilitres or tablets." }),
   addedAt: z.string().optional(),
