@@ -119,6 +119,12 @@ async function waitForReading(tubId: string, sha256: string) {
   return null;
 }
 
+/** The reader's value at the precision a strip can tell apart (pH and small values to 0.1, larger to 1). */
+export function roundReading(analyte: string, v: number) {
+  const step = analyte === "ph" || Math.abs(v) < 10 ? 0.1 : 1;
+  return Math.max(0, Number((Math.round(v / step) * step).toFixed(step < 1 ? 1 : 0)));
+}
+
 async function readAndStore(user: SessionUser, t: Tub, photoId: string, bytes: Buffer) {
   const current = await currentChartFor(t);
   const base = { tubId: t.id, photoId, batchId: t.batchId, chartVersionId: current?.version.id ?? null, createdBy: user.id };
@@ -149,7 +155,7 @@ async function readAndStore(user: SessionUser, t: Tub, photoId: string, bytes: B
           await putObject(cropKey, p.crop, "image/webp");
         }
         pads.push({
-          readingId: r.id, analyte: p.analyte, unit: p.unit, readValue: p.value, confidence: p.confidence, needsReview: p.needsReview,
+          readingId: r.id, analyte: p.analyte, unit: p.unit, readValue: roundReading(p.analyte, p.value), confidence: p.confidence, needsReview: p.needsReview,
           reviewReason: p.reason ?? null, lab: p.lab, swatchIndex: p.swatchIndex, cropKey, source: "auto",
         });
       }
