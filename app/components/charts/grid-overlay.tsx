@@ -41,7 +41,7 @@ export function GridOverlay({ src, width, height, rows, cols, initialGrid, initi
         data-testid={`${which}-corner-${i}`}
         cx={p[0]}
         cy={p[1]}
-        r={Math.max(width, height) * 0.018}
+        r={Math.max(width, height) * 0.012}
         fill={which === "grid" ? "rgba(15,92,84,0.35)" : "rgba(200,120,0,0.35)"}
         stroke={which === "grid" ? "#0f5c54" : "#a05a00"}
         strokeWidth={Math.max(width, height) * 0.003}

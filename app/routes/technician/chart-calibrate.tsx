@@ -38,14 +38,15 @@ const quad = z.tuple([pt, pt, pt, pt]);
 const gridSchema = z.object({ corners: quad, rows: z.number().int(), cols: z.number().int() });
 const SOLUTION_SLOTS = 3;
 
-type ActionResult = { intent: string; form?: string; proposal?: Proposal; source?: string };
+type ActionResult = { intent: string; form?: string; proposal?: Proposal; source?: string; placed?: { grid: unknown; white: unknown } };
 
 export async function action({ context, request, params }: Route.ActionArgs) {
   const user = requireChartRole(context, request);
   const { chart, batch, currentChart } = await loadBatch(params.chartId, params.batchId);
   const fd = await request.formData();
   const intent = String(fd.get("intent") ?? "");
-  const fail = (form: string) => data<ActionResult>({ intent, form }, { status: 400 });
+  let placed: ActionResult["placed"];
+  const fail = (form: string) => data<ActionResult>({ intent, form, placed }, { status: 400 });
   try {
     if (intent === "upload") {
       await uploadChartPhoto(user, batch.id, fd.get("photo") as File | null);
@@ -61,10 +62,11 @@ export async function action({ context, request, params }: Route.ActionArgs) {
         return fail("The grid could not be read. Reload the page and place it again.");
       }
       const grid = gridSchema.safeParse(g), white = quad.safeParse(w);
+      if (grid.success && white.success) placed = { grid: grid.data, white: white.data };
       if (!grid.success || !white.success) return fail("The grid needs four corners and the white area four corners. Reload the page and place them again.");
       if (!p) return fail("Upload a photo of this batch's colour chart first.");
       const proposal = await proposeFromChartPhoto(currentChart, p.id, batch.id, grid.data, white.data);
-      return { intent, proposal, source: "photo" } satisfies ActionResult;
+      return { intent, proposal, source: "photo", placed } satisfies ActionResult;
     }
     if (intent === "solutions") {
       const samples: { photo: Buffer; known: Record<string, number> }[] = [];
@@ -166,7 +168,16 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
         {photo && (
           <form method="post" className="space-y-3">
             <input type="hidden" name="intent" value="sample" />
-            <GridOverlay key={photo.id} src={`/api/chart-photos/${photo.id}`} width={photo.width} height={photo.height} rows={pads.length} cols={cols} />
+            <GridOverlay
+              key={`${photo.id}-${JSON.stringify(a?.placed ?? null)}`}
+              src={`/api/chart-photos/${photo.id}`}
+              width={photo.width}
+              height={photo.height}
+              rows={(a?.placed?.grid as { rows?: number })?.rows ?? pads.length}
+              cols={(a?.placed?.grid as { cols?: number })?.cols ?? cols}
+              initialGrid={(a?.placed?.grid as { corners?: [number, number][] })?.corners as never}
+              initialWhite={a?.placed?.white as never}
+            />
             {a?.intent === "sample" && a.form && <Notice tone="alert">{a.form}</Notice>}
             <Button type="submit">Sample the colours</Button>
           </form>
