@@ -167,6 +167,12 @@ export function neighbourDistances(chart: { pads: { analyte: string; label?: str
   }));
 }
 
+function closeWarnings(doc: Parameters<typeof neighbourDistances>[0]) {
+  return neighbourDistances(doc).flatMap((p) =>
+    p.steps.filter((st) => st.tooClose).map((st) => `${p.analyte.replace(/_/g, " ")}: the swatches for ${st.from} and ${st.to} are only ${st.deltaE.toFixed(1)} ΔE00 apart, too close to tell apart on a photo.`),
+  );
+}
+
 // ---------------------------------------------------------------- chart photo
 
 const PHOTO_TYPES: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" };
@@ -215,7 +221,7 @@ export async function proposeFromChartPhoto(chart: StripChart, photoId: string, 
   try {
     const sample = await sampleChartPhoto(bytes, grid, white);
     const { definition, changes } = proposeFromSample(chart, sample);
-    return { definition, changes, warnings: sample.warnings };
+    return { definition, changes, warnings: [...sample.warnings, ...closeWarnings(definition)] };
   } catch (e) {
     if (e instanceof CalibrationError || e instanceof ReadingError) throw new ChartInputError(e.message);
     throw e;
@@ -276,7 +282,7 @@ export async function proposeFromSolutions(chart: StripChart, samples: { photo: 
     changes.push({ analyte, value, from: from ?? "(new swatch)", to: hex, deltaE: from ? deltaE2000(hexToLab(from), mean) : NaN });
   }
   readChartDocument(doc);
-  return { definition: doc, changes, warnings };
+  return { definition: doc, changes, warnings: [...warnings, ...closeWarnings(doc)] };
 }
 
 const avg = (a: number[]) => a.reduce((s, x) => s + x, 0) / a.length;
