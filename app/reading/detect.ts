@@ -39,6 +39,12 @@ export type StripGeometry = {
   /** Bare-plastic intervals (t) usable as white reference, sorted by t. */
   bare: Interval[];
   fitScore: number;
+  /** fitScore, discounted when the strip's length could not be confirmed (for ranking candidates). */
+  rank: number;
+  /** Both ends found at the chart's length. */
+  lengthOk: boolean;
+  /** The pads stand out from the bare plastic clearly more than the gaps between them do. */
+  convincing: boolean;
   warnings: string[];
 };
 
@@ -343,16 +349,20 @@ function refineAxis(img: RgbImage, a: Axis): Axis {
 
 // ---------------------------------------------------------------- along-axis profile
 
-type Profile = { t0: number; n: number; inner: Float32Array; presence: Float32Array; valid: Uint8Array };
+type Profile = { t0: number; n: number; inner: Float32Array; presence: Float32Array; valid: Uint8Array; surface: Float32Array };
 
 function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profile {
   const n = Math.max(1, Math.floor(tMax - tMin) + 1);
   const inner = new Float32Array(n * 3), presence = new Float32Array(n), valid = new Uint8Array(n);
+  // Brightness of the surface beside the strip (the brighter side; grout or a dark line on one side is skipped).
+  const surface = new Float32Array(n);
   const vx = -a.uy, vy = a.ux;
   const w = a.width;
   const inS = [-0.3, -0.15, 0, 0.15, 0.3].map((k) => k * w);
   const g1 = 0.5 * w + Math.max(2, 0.35 * w), g2 = 0.5 * w + Math.max(4, 0.7 * w);
   const outS = [g1, g2];
+  // A fixed, short reach (work pixels): a soft shadow edge has little contrast over it.
+  const eD = Math.min(2, 0.1 * w), eIn = 0.5 * w - eD, eOut = 0.5 * w + eD;
   const px = new Float32Array(3);
   for (let i = 0; i < n; i++) {
     const t = tMin + i;
@@ -374,11 +384,23 @@ function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profi
       for (const s of outS) if (bilinear(img, bx + side * s * vx, by + side * s * vy, px, 0)) (or += px[0]), (og += px[1]), (ob += px[2]), m++;
       if (!m) continue;
       any = true;
+      const sl = (or + og + ob) / (3 * m);
+      if (sl > surface[i]) surface[i] = sl;
       const d = Math.hypot(r - or / m, g - og / m, b - ob / m);
       if (d < best) best = d;
     }
     if (!any) continue;
-    presence[i] = best;
+    // Edge contrast just inside against just outside both long edges: the strip's edges are
+    // sharp and straight, so this holds where the strip's colour is close to the surface's.
+    let edge = 0, ne = 0;
+    for (const side of [-1, 1]) {
+      if (!bilinear(img, bx + side * eIn * vx, by + side * eIn * vy, px, 0)) continue;
+      const ir = px[0], ig = px[1], ib = px[2];
+      if (!bilinear(img, bx + side * eOut * vx, by + side * eOut * vy, px, 0)) continue;
+      edge += Math.hypot(ir - px[0], ig - px[1], ib - px[2]);
+      ne++;
+    }
+    presence[i] = Math.max(best, ne ? edge / ne : 0);
     valid[i] = 1;
   }
   // light smoothing of presence
@@ -389,7 +411,7 @@ function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profi
     for (let j = Math.max(0, i - k); j <= Math.min(n - 1, i + k); j++) if (valid[j]) (s += presence[j]), c++;
     sm[i] = c ? s / c : 0;
   }
-  return { t0: tMin, n, inner, presence: sm, valid };
+  return { t0: tMin, n, inner, presence: sm, valid, surface };
 }
 
 // ---------------------------------------------------------------- layout fit
@@ -435,11 +457,13 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
         length: c.length * f,
       };
       const g = fitStrip(img, chart, layout, padEndMm, axis0);
-      if (g && (!best || g.fitScore > best.fitScore)) best = g;
-      if (best && best.fitScore > 15) return best;
+      if (g && (!best || g.rank > best.rank)) best = g;
+      // A strip of the chart's length with a clear pad pattern: no need to look further.
+      if (best && best.lengthOk && best.rank > 15) return best;
     }
   }
-  if (!best) throw new ReadingError("no_strip", NO_STRIP);
+  // No candidate shows the chart's pads standing out from bare plastic between them.
+  if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
   return best;
 }
 
@@ -476,6 +500,8 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
       if (prof.presence[i] > thr) (last = t), (falseRun = 0);
       else if (++falseRun > maxGap) break;
     }
+    // Reaching the photo's edge after more than half a gap of surface: the strip ended before it.
+    if (truncated && falseRun > maxGap / 2) truncated = false;
     return { end: last + dir * 0.5, truncated };
   };
   const wP = walk(1), wM = walk(-1);
@@ -491,17 +517,37 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     scale = scaleW;
     kRange = 0.12;
   }
+  // Local light along the strip, from the surface beside it (median over about ±1 strip
+  // width), so that a shadow across the strip does not look like a change of colour.
+  const light = new Float32Array(prof.n);
+  {
+    const reach = Math.max(3, Math.round(wpx)), stepL = Math.max(1, Math.round(reach / 4));
+    const win: number[] = [];
+    for (let i = 0; i < prof.n; i++) {
+      win.length = 0;
+      for (let j = i - reach; j <= i + reach; j += stepL) if (j >= 0 && j < prof.n && prof.valid[j]) win.push(prof.surface[j]);
+      light[i] = win.length ? median(win) : 0;
+    }
+  }
+  const midLight: number[] = [];
+  for (let t = Math.round(-axis.length * 0.4); t <= Math.round(axis.length * 0.4); t++) {
+    const i = idx0 + t;
+    if (i >= 0 && i < prof.n && prof.valid[i] && light[i] > 0) midLight.push(light[i]);
+  }
+  const lRef = median(midLight);
+  const gain = (i: number) => (lRef > 0 && light[i] > 0 ? Math.max(0.25, Math.min(4, lRef / light[i])) : 1);
   // Bare-plastic colour: median of the inner band over the component's middle.
   const chs: number[][] = [[], [], []];
   for (let t = Math.round(-axis.length * 0.4); t <= Math.round(axis.length * 0.4); t++) {
     const i = idx0 + t;
-    if (i >= 0 && i < prof.n && prof.valid[i]) for (let c = 0; c < 3; c++) chs[c].push(prof.inner[i * 3 + c]);
+    if (i >= 0 && i < prof.n && prof.valid[i]) for (let c = 0; c < 3; c++) chs[c].push(prof.inner[i * 3 + c] * gain(i));
   }
   const bare = chs.map(median);
   // Q: difference from bare plastic, prefix-summed.
   const Qp = new Float64Array(prof.n + 1);
   for (let i = 0; i < prof.n; i++) {
-    const q = prof.valid[i] ? Math.hypot(prof.inner[i * 3] - bare[0], prof.inner[i * 3 + 1] - bare[1], prof.inner[i * 3 + 2] - bare[2]) : 0;
+    const gi = prof.valid[i] ? gain(i) : 1;
+    const q = prof.valid[i] ? Math.hypot(prof.inner[i * 3] * gi - bare[0], prof.inner[i * 3 + 1] * gi - bare[1], prof.inner[i * 3 + 2] * gi - bare[2]) : 0;
     Qp[i + 1] = Qp[i] + q;
   }
   const meanQ = (t0: number, t1: number) => {
@@ -511,7 +557,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     if (b < a) return 0;
     return (Qp[b + 1] - Qp[a]) / (b - a + 1);
   };
-  type Fit = { score: number; tip: number; dir: 1 | -1; k: number; off: number };
+  type Fit = { score: number; tip: number; dir: 1 | -1; k: number; off: number; ps: number; gs: number };
   let bestFit: Fit | null = null;
   const fits: Fit[] = [];
   for (const tipSide of [1, -1] as const) {
@@ -540,13 +586,14 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
         }
         gs /= layout.gaps.length;
         const score = ps - gs - Math.abs(off / scale) * 0.5 - Math.abs(k - 1) * 20;
-        if (!bf || score > bf.score) bf = { score, tip, dir, k, off };
+        if (!bf || score > bf.score) bf = { score, tip, dir, k, off, ps, gs };
       }
     }
     if (bf) fits.push(bf);
     if (bf && (!bestFit || bf.score > bestFit.score)) bestFit = bf;
   }
   if (!bestFit) return null;
+  if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
   if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2)
     warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
@@ -584,6 +631,9 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     pads,
     bare: bareIv,
     fitScore: bestFit.score,
+    rank: bestFit.score * (lengthOk ? 1 : 0.6),
+    lengthOk,
+    convincing: bestFit.score >= Math.max(4, bestFit.gs),
     warnings,
   };
 }

@@ -137,6 +137,8 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
 
   const pads: PadReading[] = [];
   const missing: string[] = [];
+  const missingFlags: boolean[] = [];
+  let blank = 0;
   const halfSteps: number[] = [];
   for (let i = 0; i < chart.pads.length; i++) {
     const cp = chart.pads[i];
@@ -168,7 +170,13 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
     // Does this pad look like bare plastic while the chart says it never does?
     const minPadToStrip = Math.min(...cp.swatches.map((s) => deltaE2000(s.lab, stripLab)));
     const toStrip = deltaE2000(lab, stripLab);
-    if (minPadToStrip >= 4 && toStrip < Math.min(2.5, 0.4 * minPadToStrip) && spread < 2) missing.push(cp.label);
+    // Plastic-like: the sample looks like the bare strip. It counts as a missing pad only where
+    // every colour on the pad's scale differs clearly from the plastic.
+    const plasticLike = toStrip < 2.5 && spread < 2;
+    if (plasticLike) blank++;
+    const isMissing = plasticLike && minPadToStrip >= 4 && toStrip < 0.4 * minPadToStrip;
+    if (isMissing) missing.push(cp.label);
+    missingFlags.push(isMissing);
 
     const reasons: string[] = [];
     const rel = match.deltaE / match.halfStep;
@@ -208,11 +216,15 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
     if (options.crops) reading.crop = await cropPad(img, pl.centre[0], pl.centre[1], Math.max(pl.halfAlong, pl.halfAcross) * 1.4);
     pads.push(reading);
   }
-  if (missing.length === chart.pads.length && chart.pads.length > 1) throw new ReadingError("no_strip", NO_STRIP_MESSAGE);
+  // Nothing but bare plastic (or a plain surface) where the chart puts every pad: no strip was seen.
+  if (chart.pads.length > 1 && blank === chart.pads.length && missing.length > 0) throw new ReadingError("no_strip", NO_STRIP_MESSAGE);
   // Pads whose colours are nowhere near the chart on most of the strip: this is not a strip
   // of this chart (or not a strip at all).
-  const alien = pads.filter((p, i) => p.deltaE > 12 && p.deltaE > 2.5 * halfSteps[i]).length;
-  if (chart.pads.length > 1 && alien >= Math.ceil((2 * chart.pads.length) / 3))
+  // A pad already judged missing (bare plastic where the chart puts a pad) is not counted here:
+  // that is a strip with fewer pads, told apart below.
+  const alien = pads.filter((p, i) => !missingFlags[i] && p.deltaE > 12 && p.deltaE > 2.5 * halfSteps[i]).length;
+  const shown = chart.pads.length - missing.length;
+  if (chart.pads.length > 1 && (alien >= Math.ceil((2 * chart.pads.length) / 3) || (shown > 0 && alien === shown)))
     throw new ReadingError(
       "no_strip",
       `No test strip matching the chart${chart.name ? ` "${chart.name}"` : ""} was found in this photo. Check the chart, lay the strip flat on a plain surface with the whole strip in view, and take the photo again.`,
