@@ -52,14 +52,14 @@ export default function History({ loaderData }: Route.ComponentProps) {
         </EmptyState>
       ) : (
         <Card className="overflow-x-auto p-0">
-          <table className="w-full min-w-[34rem] text-left text-sm" data-testid="history-table">
+          <table className="w-full text-left text-sm" data-testid="history-table">
             <thead className="bg-sand text-ink-soft">
               <tr>
                 <th className="p-3">Photo</th>
                 <th className="p-3">{sortLink("taken", "Taken")}</th>
                 <th className="p-3">Values</th>
-                <th className="p-3">{sortLink("status", "Status")}</th>
-                <th className="p-3">Confirmed by</th>
+                <th className="hidden p-3 sm:table-cell">{sortLink("status", "Status")}</th>
+                <th className="hidden p-3 sm:table-cell">Confirmed by</th>
               </tr>
             </thead>
             <tbody className="divide-y divide-line">
@@ -72,8 +72,12 @@ export default function History({ loaderData }: Route.ComponentProps) {
                       <span className="text-ink-soft">—</span>
                     )}
                   </td>
-                  <td className="p-3 whitespace-nowrap">
-                    <a href={`${base}/readings/${r.id}`}>{fmt(r.takenAt)}</a>
+                  <td className="p-3">
+                    <a href={`${base}/readings/${r.id}`} className="whitespace-nowrap">{fmt(r.takenAt)}</a>
+                    <span className="block text-ink-soft sm:hidden">
+                      {STATUS_WORDS[r.status] ?? r.status}
+                      {r.confirmedBy ? ` · by ${r.confirmedBy}` : ""}
+                    </span>
                   </td>
                   <td className="p-3">
                     {r.pads.length ? r.pads.map((p) => (
@@ -82,8 +86,8 @@ export default function History({ loaderData }: Route.ComponentProps) {
                       </span>
                     )) : <span className="text-ink-soft">no values</span>}
                   </td>
-                  <td className={cx("p-3", r.status === "failed" && "text-alert", r.status === "read" && "text-caution")}>{STATUS_WORDS[r.status] ?? r.status}</td>
-                  <td className="p-3">{r.confirmedBy ?? "—"}</td>
+                  <td className={cx("hidden p-3 sm:table-cell", r.status === "failed" && "text-alert", r.status === "read" && "text-caution")}>{STATUS_WORDS[r.status] ?? r.status}</td>
+                  <td className="hidden p-3 sm:table-cell">{r.confirmedBy ?? "—"}</td>
                 </tr>
               ))}
             </tbody>
