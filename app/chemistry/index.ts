@@ -9,4 +9,4 @@ export { validateWaterInput, WaterInputError } from "./validate";
 export { estimateVolumeLitres, litresFromUsGallons, usGallonsFromLitres, drainIntervalDays, type Shape, type InsideDimsCm } from "./volume";
 export { firstFillRoutine, routineTopUp, foamTreatment, type RoutineStep } from "./routines";
 export { carbonateConstants, calciteSaturationIndex } from "./carbonate";
-export { ProductError } from "./doses";
+export { ProductError, availableChlorineOfChemical } from "./doses";

@@ -1,4 +1,5 @@
 import { Form, data, redirect } from "react-router";
+import { availableChlorineOfChemical } from "~/chemistry";
 import { chemicalName } from "~/components/plan/plan-ui";
 import { Button, Card, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
 import { ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from "~/features/plan/catalogue.server";
@@ -27,8 +28,19 @@ export async function loader({ context, request }: Route.LoaderArgs) {
         packageUnit: e.product.packageSize.unit,
         edited: e.edited,
         defaultStrengthPercent: Math.round(e.base!.strength * 10000) / 100,
+        availableChlorinePerPure: chlorineFraction(e.product.chemical, e.product.form),
       })),
   };
+}
+
+/** Available chlorine of the pure ingredient, for solid chlorine products (liquids are dosed by g/L). */
+function chlorineFraction(chemical: string, form: string) {
+  if (form === "liquid") return null;
+  try {
+    return availableChlorineOfChemical(chemical);
+  } catch {
+    return null;
+  }
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
@@ -71,7 +83,11 @@ export default function ProductsPage({ loaderData, actionData }: Route.Component
                 <Input name="name" defaultValue={p.name} />
               </Field>
               <div className="grid grid-cols-2 gap-3">
-                <Field label="Strength (%)" hint="active ingredient" error={f.strengthPercent}>
+                <Field
+                  label="Strength (%)"
+                  hint={p.availableChlorinePerPure ? "purity of the active ingredient" : "active ingredient"}
+                  error={f.strengthPercent}
+                >
                   <Input name="strengthPercent" inputMode="decimal" defaultValue={String(p.strengthPercent)} />
                 </Field>
                 <Field label="Form" error={f.form}>
@@ -97,6 +113,13 @@ export default function ProductsPage({ loaderData, actionData }: Route.Component
                   </Field>
                 )}
               </div>
+              {p.availableChlorinePerPure && (
+                <p className="text-sm text-caution" data-testid="available-chlorine-hint">
+                  At {p.strengthPercent} % this gives about {Math.round(p.strengthPercent * p.availableChlorinePerPure * 10) / 10} % available
+                  chlorine. Labels often print the available chlorine instead: if yours says, for example, 55 % available chlorine,
+                  enter {Math.round((55 / p.availableChlorinePerPure) * 10) / 10} % here, not 55 %, or the plan would give too much.
+                </p>
+              )}
               <div className="flex flex-wrap gap-2">
                 <Button type="submit">Save</Button>
               </div>
