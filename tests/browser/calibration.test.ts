@@ -20,6 +20,7 @@ import { parseChart } from "~/reading";
 import { renderChartPhoto } from "../render/chart-photo";
 import { renderStripPhoto } from "../render/strip-photo";
 import { BASE_URL, launch, screenshot, signIn } from "../support/browser";
+import { createUser } from "../support/fixtures";
 
 const printed = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
 /** The chart as first entered: every swatch a little off the printed card (as if typed from a catalogue). */
@@ -128,8 +129,8 @@ describe("calibrating a chart from a photo", () => {
     expect(worst).toBeLessThan(2);
 
     // An owner's tub on this batch: a new strip photo is read with version 2 and keeps it.
-    const ownerEmail = DEMO_USERS.find((u) => u.key === "birch")!.email;
-    const owner = (await db.query.user.findFirst({ where: eq(s.user.email, ownerEmail) }))!;
+    const ownerUser = await createUser("owner");
+    const owner = (await db.query.user.findFirst({ where: eq(s.user.id, ownerUser.id) }))!;
     const [tub] = await db.insert(s.tub).values({ ownerId: owner.id, name: `Test tub ${lot}`, volumeLitres: 1000, sanitiser: "chlorine", batchId: created.batchId }).returning();
     const strip = await renderStripPhoto(printed, { seed: 5 });
     const key = `tubs/${tub.id}/uploads/${randomUUID()}.jpg`;
