@@ -61,7 +61,7 @@ describe("clients", () => {
 
     await tp.goto("/clients/review");
     const item = tp.getByTestId("review-item").filter({ hasText: tub.name });
-    await item.getByLabel("Correct free_chlorine").fill("2");
+    await item.getByLabel("Correct Free chlorine").fill("2");
     await screenshot(tp, "32-review");
     await item.getByRole("button", { name: "Mark reviewed" }).click();
     await tp.waitForURL(/done=1/);

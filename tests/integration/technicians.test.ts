@@ -8,6 +8,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import * as s from "~/db/schema";
 import { correctionsReport, createChart, loadBatch, proposeFromSolutions, saveVersion } from "~/features/charts/charts.server";
 import { dashboard } from "~/features/clients/clients.server";
+import { auth } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { parseChart } from "~/reading";
 import { renderChartPhoto } from "../render/chart-photo";
@@ -175,5 +176,23 @@ describe("clients", () => {
     expect((await db.query.readingPad.findFirst({ where: eq(s.readingPad.id, pad.id) }))!.confirmedValue).toBe(3);
     const q2 = await callRoute(review.loader!, { url: "/clients/review", user: tech });
     expect((q2.data as { readings: { id: string }[] }).readings.map((x) => x.id)).not.toContain(r.id);
+  });
+});
+
+describe("admin: users and roles", () => {
+  it("an admin changes a role and bans a user, whose sessions end at once; nobody else may", async () => {
+    const admin = await createUser("admin");
+    const target = await createUser("owner");
+    const mod = await importRoute("routes/technician/admin-users.tsx");
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: tech, form: { intent: "role", userId: target.id, role: "admin" } })).status).toBe(403);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: target.id, role: "wizard" } })).status).toBe(400);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: admin.id, role: "owner" } })).status).toBe(400);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: target.id, role: "technician" } })).status).toBe(302);
+    expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.role).toBe("technician");
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "ban", userId: target.id } })).status).toBe(302);
+    expect(await auth.api.getSession({ headers: new Headers({ cookie: target.cookie }) })).toBeNull();
+    expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.banned).toBe(true);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "unban", userId: target.id } })).status).toBe(302);
+    expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.banned).toBe(false);
   });
 });

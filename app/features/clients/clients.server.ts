@@ -11,6 +11,7 @@ import { env } from "~/lib/env.server";
 import { sendMail } from "~/lib/mail.server";
 import { hasRole } from "~/lib/permissions";
 import type { Tub } from "~/lib/tubs.server";
+import { analyteLabel } from "./labels";
 
 export class ClientInputError extends Error {
   constructor(message: string, public status = 400) {
@@ -110,7 +111,7 @@ export async function clientTubs(user: SessionUser) {
   return db.select().from(tub).where(and(inArray(tub.id, shared.map((s) => s.tubId)), isNull(tub.archivedAt))).orderBy(tub.name);
 }
 
-const label = (a: string) => a.replace(/_/g, " ").replace(/^./, (c) => c.toUpperCase());
+const label = analyteLabel;
 
 export async function dashboard(user: SessionUser, now = new Date()) {
   const tubs = await clientTubs(user);
@@ -126,7 +127,7 @@ export async function dashboard(user: SessionUser, now = new Date()) {
     : [];
   const treatments = await db.select().from(treatment).where(inArray(treatment.tubId, ids)).orderBy(desc(treatment.addedAt));
   const owners = await db.select({ id: userTable.id, name: userTable.name }).from(userTable).where(inArray(userTable.id, [...new Set(tubs.map((t) => t.ownerId))]));
-  return tubs.map((t) => {
+  const rows = tubs.map((t) => {
     const latest = latestByTub.get(t.id);
     let targets: Partial<Record<string, Range>> = {};
     try {
@@ -161,6 +162,9 @@ export async function dashboard(user: SessionUser, now = new Date()) {
       lastTreatment: lastTreatment ? { name: lastTreatment.productName, amount: lastTreatment.amount, unit: lastTreatment.unit, at: lastTreatment.addedAt.toISOString() } : null,
     };
   });
+  // Tubs that need attention first: readings to review, water out of range, test overdue.
+  const score = (r: (typeof rows)[number]) => (r.waiting ? 4 : 0) + (r.outOfRange.length ? 2 : 0) + (r.overdue ? 1 : 0);
+  return rows.sort((a, b) => score(b) - score(a) || a.name.localeCompare(b.name));
 }
 
 // ---------------------------------------------------------------- review

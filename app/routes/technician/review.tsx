@@ -1,6 +1,7 @@
 import { data, redirect } from "react-router";
 import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
+import { analyteLabel } from "~/features/clients/labels";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/review";
 
@@ -51,10 +52,10 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
               <ul className="space-y-2">
                 {r.pads.map((p) => (
                   <li key={p.id} className="flex flex-wrap items-center gap-3">
-                    <span className="w-40 font-bold">{p.analyte.replace(/_/g, " ")}</span>
+                    <span className="w-40 font-bold">{analyteLabel(p.analyte)}</span>
                     <span className="text-sm">read {p.readValue ?? "–"} {p.unit}{p.confirmedValue !== null ? ` · owner: ${p.confirmedValue}` : ""}</span>
                     {p.needsReview && <span className="text-sm text-caution">{p.reason ?? "unsure"}</span>}
-                    <input name={`pad_${p.id}`} inputMode="decimal" aria-label={`Correct ${p.analyte}`} placeholder="correct to" className="w-28 rounded border border-line px-2 py-1" />
+                    <input name={`pad_${p.id}`} inputMode="decimal" aria-label={`Correct ${analyteLabel(p.analyte)}`} placeholder="correct to" className="w-28 rounded border border-line px-2 py-1" />
                   </li>
                 ))}
               </ul>
