@@ -1,6 +1,7 @@
 import { Form, NavLink, Outlet } from "react-router";
 import { NAV_ITEMS } from "~/components/nav";
 import { cx } from "~/components/ui";
+import { unreadCount } from "~/features/notify/notifications.server";
 import { hasRole } from "~/lib/permissions";
 import { requireUser } from "~/lib/session.server";
 import type { Route } from "./+types/signed-in-layout";
@@ -9,13 +10,16 @@ export const middleware: Route.MiddlewareFunction[] = [
   ({ context, request }) => void requireUser(context, request),
 ];
 
-export function loader({ context, request }: Route.LoaderArgs) {
+export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireUser(context, request);
-  return { user: { id: user.id, name: user.name, email: user.email, role: user.role ?? "owner" } };
+  return {
+    user: { id: user.id, name: user.name, email: user.email, role: user.role ?? "owner" },
+    unread: await unreadCount(user.id),
+  };
 }
 
 export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
-  const { user } = loaderData;
+  const { user, unread } = loaderData;
   const items = NAV_ITEMS.filter((i) => hasRole(user, ...i.roles));
   return (
     <div className="min-h-screen">
@@ -35,6 +39,11 @@ export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
                 }
               >
                 {item.label}
+                {item.to === "/notifications" && unread > 0 && (
+                  <span className="ml-1.5 rounded-full bg-alert px-2 py-0.5 text-xs text-white" aria-label={`${unread} unread`}>
+                    {unread > 99 ? "99+" : unread}
+                  </span>
+                )}
               </NavLink>
             ))}
           </nav>
