@@ -113,6 +113,19 @@ describe("calibrating a chart from a photo", () => {
     await page.waitForURL(/saved=2/);
     await page.getByText("reads with version 2").first().waitFor();
     await screenshot(page, "25-chart-version-2");
+
+    // The editor warns about neighbours too close to tell apart, and refuses values out of order
+    // without losing the edits; the batch keeps reading with version 2.
+    const ph2 = page.getByLabel("pH swatch 2 hex");
+    await ph2.fill(await page.getByLabel("pH swatch 1 hex").inputValue());
+    await page.getByText(/too close to tell apart/).waitFor();
+    await page.getByLabel("pH swatch 3 value").fill("6.5");
+    await page.getByText(/Swatch values must rise/).waitFor();
+    await page.getByRole("button", { name: "Save as a new version" }).click();
+    await page.getByRole("alert").filter({ hasText: /must rise from one swatch to the next/ }).waitFor();
+    expect(await page.getByLabel("pH swatch 3 value").inputValue()).toBe("6.5");
+    await page.getByRole("alert").filter({ hasText: /must rise from one swatch/ }).scrollIntoViewIfNeeded();
+    await screenshot(page, "26-editor-bad-values");
     await context.close();
 
     batch = await db.query.stripBatch.findFirst({ where: eq(s.stripBatch.id, created.batchId) });

@@ -20,6 +20,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
     batchId: batch?.id ?? null,
     versions: versions.map((v) => ({ id: v.id, version: v.version, source: SOURCES[v.source as keyof typeof SOURCES] ?? v.source, note: v.note, createdAt: v.createdAt.toISOString(), batchLot: batches.find((b) => b.id === v.batchId)?.lot ?? null })),
     current: current ? { id: current.id, version: current.version, definition: current.definition as EditChart } : null,
+    saved: url.searchParams.get("saved"),
   };
 }
 
@@ -70,7 +71,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
 }
 
 export default function ChartPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { chart, batches, batchId, versions, current } = loaderData;
+  const { chart, batches, batchId, versions, current, saved } = loaderData;
   const a = actionData as { intent?: string; form?: string; definition?: string } | undefined;
   const batch = batches.find((b) => b.id === batchId);
   let initial = current?.definition ?? null;
@@ -84,6 +85,7 @@ export default function ChartPage({ loaderData, actionData }: Route.ComponentPro
   return (
     <div className="space-y-6">
       <PageTitle sub={batch ? `Lot ${batch.lot} reads with version ${batch.currentVersion ?? "–"}` : "No batch yet"}>{chart.name}</PageTitle>
+      {saved && batch && !a?.form && <Notice tone="ok">Version {saved} saved. Lot {batch.lot} now reads with it; earlier readings keep their own version.</Notice>}
       <Card>
         <h2 className="mb-2 text-lg font-bold">Strip batches</h2>
         <ul className="divide-y divide-line">
