@@ -5,25 +5,28 @@ import { env } from "./env.server";
 
 export type Mail = { to: string; subject: string; text: string; html: string; headers?: Record<string, string> };
 
+/** A nodemailer transport for an smtp:// or smtps:// URL (SMTP_URL by default). */
+export function smtpTransport(smtpUrl = env().SMTP_URL): Transporter {
+  const url = new URL(smtpUrl);
+  return nodemailer.createTransport({
+    host: url.hostname,
+    port: Number(url.port) || (url.protocol === "smtps:" ? 465 : 587),
+    secure: url.protocol === "smtps:",
+    auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 20_000,
+  });
+}
+
 let transport: Transporter | undefined;
 
-function transporter() {
-  if (!transport) {
-    const url = new URL(env().SMTP_URL);
-    transport = nodemailer.createTransport({
-      host: url.hostname,
-      port: Number(url.port) || (url.protocol === "smtps:" ? 465 : 587),
-      secure: url.protocol === "smtps:",
-      auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
-      connectionTimeout: 10_000,
-      greetingTimeout: 10_000,
-      socketTimeout: 20_000,
-    });
-  }
-  return transport;
+/** The process's shared transport to SMTP_URL. */
+export function defaultTransport(): Transporter {
+  return (transport ??= smtpTransport());
 }
 
 export async function sendMail(mail: Mail) {
-  const info = await transporter().sendMail({ from: env().MAIL_FROM, ...mail });
+  const info = await defaultTransport().sendMail({ from: env().MAIL_FROM, ...mail });
   return { messageId: info.messageId as string };
 }

@@ -6,13 +6,14 @@
 // the SMTP server and marks it sent afterwards: a retry, a second worker or a
 // restarted worker finds it sent (or being sent) and sends nothing.
 import { and, eq, inArray, sql } from "drizzle-orm";
-import nodemailer, { type Transporter } from "nodemailer";
+import type { Transporter } from "nodemailer";
 import type PgBoss from "pg-boss";
 import { emailLog, emailPreference, notification } from "../../db/schema";
 import { appBoss } from "../../jobs/boss.server";
 import { DELIVER_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
 import { env } from "../../lib/env.server";
+import { defaultTransport, smtpTransport } from "../../lib/mail.server";
 
 export type OutgoingEmail = {
   /** the kind of message, e.g. "retest", "invitation"; users can switch kinds off */
@@ -67,21 +68,9 @@ export async function enqueueEmail(mail: OutgoingEmail, opts: { boss?: PgBoss; s
   }
 }
 
-/** A nodemailer transport for an smtp:// or smtps:// URL (SMTP_URL by default). */
-export function smtpTransport(smtpUrl = env().SMTP_URL): Transporter {
-  const url = new URL(smtpUrl);
-  return nodemailer.createTransport({
-    host: url.hostname,
-    port: Number(url.port) || (url.protocol === "smtps:" ? 465 : 587),
-    secure: url.protocol === "smtps:",
-    auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
-    connectionTimeout: 10_000,
-    greetingTimeout: 10_000,
-    socketTimeout: 20_000,
-  });
-}
+export { smtpTransport };
 
-let defaultTransport: Transporter | undefined;
+
 
 export type DeliverOutcome = "sent" | "already-sent" | "switched-off";
 
@@ -121,7 +110,7 @@ export async function deliverEmail(
     .returning({ id: emailLog.id });
   if (!claimed) return "already-sent";
 
-  const transport = opts.transport ?? (defaultTransport ??= smtpTransport());
+  const transport = opts.transport ?? defaultTransport();
   try {
     await transport.sendMail({
       from: env().MAIL_FROM,
