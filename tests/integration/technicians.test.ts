@@ -117,6 +117,37 @@ describe("reference solutions and owners' corrections", () => {
     expect(() => parseChart(p.definition)).not.toThrow();
   });
 
+  it("through the calibration page: a strip photo with known values is proposed, and saved only on request", async () => {
+    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const params = { chartId: chart.chartId, batchId: chart.batchId };
+    const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
+    const strip = await renderStripPhoto(demo, { seed: 14, values: { free_chlorine: 3, ph: 7.2 } });
+    const fd = new FormData();
+    fd.set("intent", "solutions");
+    fd.set("photo_0", new File([new Uint8Array(strip.jpeg)], "strip.jpg", { type: "image/jpeg" }));
+    fd.set("value_0_free_chlorine", "3");
+    fd.set("value_0_ph", "7.2");
+    const missing = new FormData();
+    missing.set("intent", "solutions");
+    missing.set("value_1_ph", "7.2");
+    const bad = await callRoute(mod.action!, { url, params, user: tech, form: missing });
+    expect(bad.status).toBe(400);
+    expect((bad.data as { form: string }).form).toMatch(/Photo 2: choose the strip photo/);
+    const before = await currentVersionId();
+    const r = await callRoute(mod.action!, { url, params, user: tech, form: fd });
+    expect(r.status).toBe(200);
+    const proposal = (r.data as { proposal: { definition: object; changes: { analyte: string; value: number; deltaE: number }[] } }).proposal;
+    expect(proposal.changes.map((c) => [c.analyte, c.value]).sort()).toEqual([["free_chlorine", 3], ["ph", 7.2]]);
+    // The rendered strip shows the printed colours, so the refit moves them only a little.
+    for (const c of proposal.changes) expect(c.deltaE).toBeLessThan(4);
+    expect(await currentVersionId()).toBe(before);
+    const saved = await callRoute(mod.action!, { url, params, user: tech, form: { intent: "save", source: "solutions", definition: JSON.stringify(proposal.definition) } });
+    expect(saved.status).toBe(302);
+    const v = (await db.query.chartVersion.findFirst({ where: eq(s.chartVersion.id, (await currentVersionId())!) }))!;
+    expect(v.source).toBe("solutions");
+    expect(v.id).not.toBe(before);
+  });
+
   it("shows the offset between read and confirmed values and proposes the colour owners' strips showed", async () => {
     const t = await createTub(owner.id, { batchId: chart.batchId });
     const seenLab = { l: 60, a: 40, b: 30 }; // what strips confirmed as pH 7.6 really looked like (invented)

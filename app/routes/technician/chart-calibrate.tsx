@@ -227,6 +227,20 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
             ))}
           </tbody>
         </table>
+        {corrections.pads.some((p) => p.bySwatch.some((b) => b.seen)) && (
+          <ul className="mt-3 space-y-1 text-sm" data-testid="seen-colours">
+            {corrections.pads.flatMap((p) =>
+              p.bySwatch
+                .filter((b) => b.seen)
+                .map((b) => (
+                  <li key={`${p.analyte}-${b.value}`} className="flex flex-wrap items-center gap-2">
+                    {p.label} {b.value}: chart <Swatch color={pads.find((x) => x.analyte === p.analyte)?.swatches.find((x) => x.value === b.value)?.color ?? ""} /> owners&apos; strips
+                    <Swatch color={b.seen!} /> ({b.n} confirmed, ΔE00 {b.deltaE?.toFixed(1)})
+                  </li>
+                )),
+            )}
+          </ul>
+        )}
         {corrections.proposal ? (
           <div className="mt-3">
             <p className="mb-2 text-sm">Where owners confirmed a value at least twice, the colour their strips showed differs from the chart:</p>
