@@ -1,6 +1,7 @@
 // Water-chemistry engine: pure functions, no database, no HTTP.
 
 export * from "./types";
+export { PARAMETER_NAMES, parameterName } from "./names";
 export { planTreatment, AUTHORITY_NOTE, type PlanOptions } from "./plan";
 export { langelier, BALANCED_BAND, type LangelierInput, type LangelierResult } from "./lsi";
 export { DEFAULT_TARGETS, resolveTargets } from "./targets";

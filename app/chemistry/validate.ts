@@ -1,6 +1,7 @@
 // Input validation: structure with zod 4, then plausibility (wrong units, absurd values) in plain words.
 
 import { z } from "zod";
+import { PARAMETER_NAMES } from "./names";
 import type { WaterInput } from "./types";
 
 /** Bad input; the message is one line a tub owner understands. */
@@ -22,15 +23,7 @@ const LABELS: Record<string, string> = {
   targets: "The target ranges",
   treatmentLog: "The treatment log",
   now: "The time now",
-  free_chlorine: "Free chlorine",
-  total_chlorine: "Total chlorine",
-  bromine: "Bromine",
-  ph: "pH",
-  total_alkalinity: "Total alkalinity",
-  total_hardness: "Total hardness",
-  calcium_hardness: "Calcium hardness",
-  cyanuric_acid: "Cyanuric acid",
-  borate: "Borate (as boron)",
+  ...PARAMETER_NAMES,
 };
 
 function label(path: PropertyKey[]): string {

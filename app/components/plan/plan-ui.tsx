@@ -1,21 +1,11 @@
 // Pieces of the plan, treatment and setup pages.
 import { useEffect, useState } from "react";
 import { Form } from "react-router";
-import type { PlanStep, WaterBalance } from "~/chemistry";
+import { PARAMETER_NAMES, type PlanStep, type WaterBalance } from "~/chemistry";
 import { Button, ButtonLink, Card, Notice, cx } from "~/components/ui";
 import { remainingWords } from "~/features/plan/time";
 
-export const PARAMETER_NAMES: Record<string, string> = {
-  free_chlorine: "Free chlorine",
-  total_chlorine: "Total chlorine",
-  bromine: "Bromine",
-  ph: "pH",
-  total_alkalinity: "Total alkalinity",
-  total_hardness: "Total hardness",
-  calcium_hardness: "Calcium hardness",
-  cyanuric_acid: "Cyanuric acid",
-  borate: "Borate",
-};
+export { PARAMETER_NAMES };
 
 export const CHEMICAL_NAMES: Record<string, string> = {
   sodium_dichloroisocyanurate_dihydrate: "sodium dichloroisocyanurate dihydrate",

@@ -6,6 +6,7 @@ import {
   DEFAULT_TARGETS,
   ProductError,
   WaterInputError,
+  parameterName,
   planTreatment,
   resolveTargets,
   validateWaterInput,
@@ -138,14 +139,6 @@ const TARGET_LIMITS: Record<Parameter, number> = {
   calcium_hardness: 800,
   cyanuric_acid: 100,
 };
-const PARAM_WORDS: Record<Parameter, string> = {
-  free_chlorine: "Free chlorine",
-  bromine: "Bromine",
-  ph: "pH",
-  total_alkalinity: "Total alkalinity",
-  calcium_hardness: "Calcium hardness",
-  cyanuric_acid: "Cyanuric acid",
-};
 
 export function parseTargets(t: Pick<Tub, "sanitiser">, form: FormData): { ok: true; targets: Partial<Record<Parameter, Partial<Range>>> } | { ok: false; fields: Record<string, string> } {
   const fields: Record<string, string> = {};
@@ -155,7 +148,7 @@ export function parseTargets(t: Pick<Tub, "sanitiser">, form: FormData): { ok: t
     const raw = { min: String(form.get(`${p}.min`) ?? "").trim(), max: String(form.get(`${p}.max`) ?? "").trim() };
     const min = raw.min === "" ? def.min : Number(raw.min.replace(",", "."));
     const max = raw.max === "" ? def.max : Number(raw.max.replace(",", "."));
-    const name = PARAM_WORDS[p];
+    const name = parameterName(p);
     if (!Number.isFinite(min) || !Number.isFinite(max)) fields[p] = `${name}: the lowest and highest values must be numbers.`;
     else if (min < 0 || max < 0) fields[p] = `${name}: the range cannot be negative.`;
     else if (min >= max) fields[p] = `${name}: the lowest value must be below the highest.`;

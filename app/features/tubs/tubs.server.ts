@@ -1,24 +1,13 @@
 // Tub settings: create, edit, archive, with the volume helper and the strip batch in use.
 import { asc, eq, isNull } from "drizzle-orm";
 import { z } from "zod";
-import { estimateVolumeLitres, litresFromUsGallons, resolveTargets, type Parameter, type Range } from "~/chemistry";
+import { estimateVolumeLitres, litresFromUsGallons, parameterName, resolveTargets, type Parameter, type Range } from "~/chemistry";
 import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tubs.server";
 
-export const PARAMETER_LABELS: Record<string, string> = {
-  free_chlorine: "Free chlorine",
-  bromine: "Bromine",
-  ph: "pH",
-  total_alkalinity: "Total alkalinity",
-  calcium_hardness: "Calcium hardness",
-  cyanuric_acid: "Cyanuric acid (stabiliser)",
-  total_chlorine: "Total chlorine",
-  total_hardness: "Total hardness",
-};
-
-export const parameterLabel = (a: string) => PARAMETER_LABELS[a] ?? a.replace(/_/g, " ");
+export const parameterLabel = parameterName;
 
 /** Strip batches an owner can choose from: every batch with a current chart version. */
 export async function listBatches() {
