@@ -440,22 +440,7 @@ function alkalinityStage(ctx: Ctx, ta: number, ph: number | null): { ta: number;
     // pH already low: aerate first (raises pH without changing alkalinity), then acid.
     const airPh = equilibriumPhWithAir(w0.alk, ctx.water);
     const toPh = Math.min(phRange.max, airPh);
-    pushStep(ctx, {
-      kind: "aerate",
-      parameter: "ph",
-      direction: "raise",
-      from: r2(ph),
-      to: r2(toPh),
-      chemical: null,
-      productId: null,
-      productName: null,
-      grams: null,
-      millilitres: null,
-      retestAfterHours: 4,
-      words: `pH is low but alkalinity is high: do not add soda ash. Run the jets and air blower with the cover off for a few hours; CO2 escapes and pH rises toward ${r2(toPh).toFixed(1)} without changing alkalinity. Then retest.`,
-      sideEffects: [],
-      cautions: ["Keep everyone out while the cover is off and the jets run unattended.", ...generalCautions()],
-    });
+    pushAerationStep(ctx, ph, toPh);
     w0 = closedWaterFromReading(toPh, ta, ctx.water);
     startPh = toPh;
   }
@@ -509,22 +494,7 @@ function phStage(ctx: Ctx, ta: number, ph: number) {
   if (ph < range.min) {
     if (ta > taRange.max) {
       const toPh = Math.min(range.aim, equilibriumPhWithAir(w0.alk, ctx.water));
-      pushStep(ctx, {
-        kind: "aerate",
-        parameter: "ph",
-        direction: "raise",
-        from: r2(ph),
-        to: r2(toPh),
-        chemical: null,
-        productId: null,
-        productName: null,
-        grams: null,
-        millilitres: null,
-        retestAfterHours: 4,
-        words: `pH is low but alkalinity is high: raise pH by aeration, not soda ash. Run the jets and blower with the cover off for a few hours, then retest.`,
-        sideEffects: [],
-        cautions: ["Keep everyone out while the cover is off and the jets run unattended.", ...generalCautions()],
-      });
+      pushAerationStep(ctx, ph, toPh);
       return;
     }
     const product = pickProduct(ctx.products, "ph_up");
@@ -593,4 +563,24 @@ function balance(
     method: `${method}; balanced within ±${BALANCED_BAND}`,
     calciteSaturationIndex: r2(r.calciteSaturationIndex),
   };
+}
+
+/** pH is low but alkalinity high: aeration (CO2 escapes) raises pH without changing alkalinity; soda ash would add more. */
+function pushAerationStep(ctx: Parameters<typeof pushStep>[0], ph: number, toPh: number) {
+  pushStep(ctx, {
+    kind: "aerate",
+    parameter: "ph",
+    direction: "raise",
+    from: r2(ph),
+    to: r2(toPh),
+    chemical: null,
+    productId: null,
+    productName: null,
+    grams: null,
+    millilitres: null,
+    retestAfterHours: 4,
+    words: `pH is low but alkalinity is high: do not add soda ash. Run the jets and air blower with the cover off for a few hours; CO2 escapes and pH rises toward ${r2(toPh).toFixed(1)} without changing alkalinity. Then retest.`,
+    sideEffects: [],
+    cautions: ["Keep everyone out while the cover is off and the jets run unattended.", ...generalCautions()],
+  });
 }
