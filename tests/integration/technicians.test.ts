@@ -187,6 +187,7 @@ describe("clients", () => {
     expect(board.map((b) => b.id)).toContain(t.id);
 
     const access = (await db.query.tubAccess.findFirst({ where: eq(s.tubAccess.tubId, t.id) }))!;
+    expect((await callRoute(sharing.action!, { url: `/tubs/${t.id}/sharing`, params: { tubId: t.id }, user: owner, form: { intent: "revoke", id: "x" } })).status).toBe(404);
     const rev = await callRoute(sharing.action!, { url: `/tubs/${t.id}/sharing`, params: { tubId: t.id }, user: owner, form: { intent: "revoke", id: access.id } });
     expect(rev.status).toBe(302);
     expect((await callRoute(detail.loader!, { url: `/tubs/${t.id}`, params: { tubId: t.id }, user: tech })).status).toBe(404);
@@ -205,6 +206,7 @@ describe("clients", () => {
     const after = (await db.query.reading.findFirst({ where: eq(s.reading.id, r.id) }))!;
     expect(after.reviewedBy).toBe(tech.id);
     expect((await db.query.readingPad.findFirst({ where: eq(s.readingPad.id, pad.id) }))!.confirmedValue).toBe(3);
+    expect((await callRoute(review.action!, { url: "/clients/review", user: tech, form: { readingId: "not-an-id" } })).status).toBe(404);
     const q2 = await callRoute(review.loader!, { url: "/clients/review", user: tech });
     expect((q2.data as { readings: { id: string }[] }).readings.map((x) => x.id)).not.toContain(r.id);
   });

@@ -20,6 +20,7 @@ export class ClientInputError extends Error {
 }
 
 const INVITATION_DAYS = 14;
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 // ---------------------------------------------------------------- sharing
 
@@ -64,10 +65,12 @@ export async function inviteTechnician(owner: SessionUser, t: Tub, emailIn: stri
 }
 
 export async function withdrawInvitation(t: Tub, invitationId: string) {
+  if (!UUID.test(invitationId)) throw new ClientInputError("We could not find that invitation.", 404);
   await db.update(invitation).set({ revokedAt: new Date() }).where(and(eq(invitation.id, invitationId), eq(invitation.tubId, t.id), isNull(invitation.revokedAt)));
 }
 
 export async function revokeAccess(t: Tub, accessId: string) {
+  if (!UUID.test(accessId)) throw new ClientInputError("We could not find that technician's access.", 404);
   await db.update(tubAccess).set({ revokedAt: new Date() }).where(and(eq(tubAccess.id, accessId), eq(tubAccess.tubId, t.id), isNull(tubAccess.revokedAt)));
 }
 
@@ -192,6 +195,7 @@ export async function reviewQueue(user: SessionUser) {
 
 /** Marks a reading reviewed; corrected values (pad id -> value) replace what was confirmed. */
 export async function markReviewed(user: SessionUser, readingId: string, corrections: Record<string, number>) {
+  if (!UUID.test(readingId) || !Object.keys(corrections).every((id) => UUID.test(id))) throw new ClientInputError("We could not find that reading among your clients' tubs.", 404);
   const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
   const allowed = (await clientTubs(user)).map((t) => t.id);
   if (!r || !allowed.includes(r.tubId)) throw new ClientInputError("We could not find that reading among your clients' tubs.", 404);
