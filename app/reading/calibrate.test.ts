@@ -2,7 +2,8 @@
 // Oracles: colorjs.io (a general-purpose colour library, independent of app/reading/colour.ts) for
 // CIEDE2000 between the calibrated and the printed swatches; the renderer's known layout and
 // printed colours (tests/render/chart-photo.ts) as ground truth. The 2 ΔE00 bound is the issue's
-// acceptance figure; about 1 ΔE00 is commonly quoted as a just-noticeable difference
+// acceptance figure; about 1 ΔE00 is commonly quoted as a just-noticeable difference (common practice,
+// from memory)
 // (Sharma, Wu and Dalal 2005 discuss CIEDE2000's scaling).
 import { readFileSync } from "node:fs";
 import Color from "colorjs.io";
