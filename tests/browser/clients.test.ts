@@ -35,7 +35,7 @@ describe("clients", () => {
     await screenshot(op, "30-sharing-invited");
 
     const mail = await waitForMail(techEmail, new RegExp(tub.name));
-    expect(mail.html).toContain("Open the invitation");
+    expect(mail.html).toContain("See the invitation");
     const link = new URL(firstLink(mail));
     expect(link.pathname).toMatch(/^\/invitations\//);
 

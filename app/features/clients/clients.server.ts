@@ -6,9 +6,10 @@ import { resolveTargets, type Parameter, type Range } from "~/chemistry";
 import { invitation, reading, readingPad, treatment, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { layout } from "~/lib/emails";
 import { env } from "~/lib/env.server";
-import { sendMail } from "~/lib/mail.server";
+import { invitationEmail } from "~/features/notify/messages.server";
+import { enqueueEmail } from "~/features/notify/outbox.server";
+import { ensurePreferences } from "~/features/notify/preferences.server";
 import { hasRole } from "~/lib/permissions";
 import type { Tub } from "~/lib/tubs.server";
 import { analyteLabel } from "./labels";
@@ -49,18 +50,11 @@ export async function inviteTechnician(owner: SessionUser, t: Tub, emailIn: stri
     .insert(invitation)
     .values({ tubId: t.id, email, token, invitedBy: owner.id, expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000) })
     .returning();
-  const url = `${env().PUBLIC_URL.replace(/\/$/, "")}/invitations/${token}`;
-  const mail = layout({
-    subject: `${owner.name} invites you to look after “${t.name}” on Dipwell`,
-    greeting: "Hello,",
-    paragraphs: [
-      `${owner.name} would like you to look after the hot tub “${t.name}” on Dipwell: you will see its readings, treatments and notes and can review unsure readings.`,
-      `The invitation works for ${INVITATION_DAYS} days. Sign in with a technician account at this e-mail address to accept it.`,
-      "If you do not expect this, you can ignore this message.",
-    ],
-    action: { label: "Open the invitation", url },
-  });
-  await sendMail({ to: email, subject: mail.subject, text: mail.text, html: mail.html });
+  const acceptUrl = `${env().PUBLIC_URL.replace(/\/$/, "")}/invitations/${token}`;
+  // Through the outbox: retried with back-off if the mail server is down, sent once.
+  const known = await db.query.user.findFirst({ where: eq(userTable.email, email) });
+  const recipient = known ? { id: known.id, name: known.name, unsubscribeToken: (await ensurePreferences(known.id)).unsubscribeToken } : null;
+  await enqueueEmail(invitationEmail({ invitationId: row.id, to: email, tubName: t.name, inviterName: owner.name, acceptUrl, validDays: INVITATION_DAYS, recipient }));
   return row;
 }
 

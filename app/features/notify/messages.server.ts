@@ -152,13 +152,16 @@ export async function reminderEmail(r: DueReminder, to: Recipient, week: WeekRea
  */
 export function invitationEmail(opts: {
   invitationId: string; to: string; tubName: string; inviterName: string; acceptUrl: string;
+  /** how long the invitation works */
+  validDays?: number;
   recipient?: { id: string; name: string; unsubscribeToken: string } | null;
 }): OutgoingEmail {
   const content = layout({
     subject: `${opts.inviterName} invited you to look after ${opts.tubName}`,
     greeting: opts.recipient ? `Hello ${opts.recipient.name},` : "Hello,",
     paragraphs: [
-      `${opts.inviterName} would like you to look after the water in ${opts.tubName} on Dipwell, as their technician.`,
+      `${opts.inviterName} would like you to look after the water in ${opts.tubName} on Dipwell, as their technician: you will see its readings, treatments and notes and can review unsure readings.`,
+      `${opts.validDays ? `The invitation works for ${opts.validDays} days. ` : ""}Sign in with a technician account at this e-mail address to accept it.`,
       "If you do not know them, ignore this message: nothing changes until you accept.",
     ],
     action: { label: "See the invitation", url: opts.acceptUrl },
