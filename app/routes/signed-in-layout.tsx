@@ -29,13 +29,13 @@ export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
             <img src="/favicon.svg" alt="" width={28} height={28} />
             <span className="text-xl font-bold">Dipwell</span>
           </a>
-          <nav aria-label="Main" className="order-3 flex w-full gap-1 overflow-x-auto sm:order-none sm:w-auto">
+          <nav aria-label="Main" className="order-3 -mx-2 flex w-full flex-wrap gap-x-1 sm:order-none sm:mx-0 sm:w-auto">
             {items.map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}
                 className={({ isActive }) =>
-                  cx("whitespace-nowrap rounded-lg px-3 py-2 font-bold no-underline", isActive ? "bg-well-50 text-well-900" : "text-ink-soft hover:text-well-700")
+                  cx("whitespace-nowrap rounded-lg px-2 py-1.5 font-bold no-underline sm:px-3 sm:py-2", isActive ? "bg-well-50 text-well-900" : "text-ink-soft hover:text-well-700")
                 }
               >
                 {item.label}
