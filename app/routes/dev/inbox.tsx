@@ -44,6 +44,7 @@ export default function Inbox({ loaderData }: Route.ComponentProps) {
           </details>
         </Card>
       )}
+      {messages.length > 0 && (
       <ul className="divide-y divide-line rounded-card border border-line bg-shell">
         {messages.map((m) => (
           <li key={m.id}>
@@ -54,6 +55,7 @@ export default function Inbox({ loaderData }: Route.ComponentProps) {
           </li>
         ))}
       </ul>
+      )}
     </div>
   );
 }
