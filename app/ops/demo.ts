@@ -14,6 +14,6 @@ export type DemoUserKey = (typeof DEMO_USERS)[number]["key"];
 
 export const DEMO_TUBS = [
   { name: "Garden tub", owner: "ash", volumeLitres: 1200, volumeUnit: "L", sanitiser: "chlorine", timeZone: "Europe/London", sharedWithTech: true, chart: "demo-3pad.json" },
-  { name: "Cabin tub", owner: "ash", volumeLitres: 1514, volumeUnit: "gal", sanitiser: "bromine", timeZone: "Europe/London", sharedWithTech: false, chart: "demo-6pad.json" },
+  { name: "Cabin tub", owner: "ash", volumeLitres: 1514, volumeUnit: "gal", sanitiser: "bromine", timeZone: "Europe/London", sharedWithTech: false, chart: "demo-bromine-4pad.json" },
   { name: "Deck spa", owner: "birch", volumeLitres: 950, volumeUnit: "L", sanitiser: "chlorine", timeZone: "America/Vancouver", sharedWithTech: true, chart: "demo-6pad.json" },
 ] as const;
