@@ -4,11 +4,11 @@
 // four outer corners) and marks a blank white area of the card. Here:
 //   grid corners -> projective map of the unit square -> one quad per cell (its inner part)
 //   -> robust sampling of each cell in linear light (image.ts sampleQuad)
-//   -> white-reference correction (Bradford, colour.ts whiteCorrectionMatrix) mapping the
+//   -> white-reference correction (the reader's, colour.ts whiteCorrectionMatrix) mapping the
 //      card's blank paper to its known colour
 //   -> CIELAB D65 and sRGB hex per cell.
 // Pure: no database, no HTTP. Coordinates are in the original photo's pixels.
-import { deltaE2000, hexToRgb, labToHex, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, correctLinear, type Lab, type Rgb } from "./colour";
+import { deltaE2000, hexToRgb, labToHex, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, correctLinear, type Lab, type Rgb, type WhiteCorrection } from "./colour";
 import { decodePhoto, sampleQuad, type RgbImage } from "./image";
 import type { StripChart } from "./chart";
 
@@ -142,7 +142,7 @@ export function sampleChartImage(
   img: RgbImage,
   grid: ChartGrid,
   white: Quad,
-  opts: { paperColor?: string; scale?: number; original?: { width: number; height: number }; adaptation?: "rgb" | "bradford" } = {},
+  opts: { paperColor?: string; scale?: number; original?: { width: number; height: number }; adaptation?: WhiteCorrection } = {},
 ): ChartPhotoSample {
   const k = opts.scale ?? 1;
   const W = opts.original?.width ?? img.width / k, H = opts.original?.height ?? img.height / k;
@@ -162,15 +162,10 @@ export function sampleChartImage(
   if (ws.spreadDeltaE > 6)
     throw new CalibrationError("bad_white", "The area marked as white is not even (it holds print, a shadow or an edge). Mark a blank white part of the card.");
   const known = hexToRgb(opts.paperColor ?? "#ffffff").map(srgbToLinear);
-  // Default: von Kries scaling per channel in linear RGB (the card's paper -> its known colour).
-  // A colour cast in a photo comes from the light and the camera's white balance acting on the
-  // camera's own channels, so a per-channel scale undoes it; on rendered casts this keeps the
-  // worst swatch under 1 ΔE00 where Bradford (cone space) leaves up to 2.9 (measured in
-  // calibrate.test.ts). "bradford" gives the strip reader's correction instead.
-  const m =
-    opts.adaptation === "bradford"
-      ? whiteCorrectionMatrix(ws.linear, known)
-      : [0, 1, 2].map((i) => [0, 1, 2].map((j) => (i === j ? known[i] / Math.max(1e-6, ws.linear[i]) : 0)));
+  // The strip reader's light correction (colour.ts whiteCorrectionMatrix): von Kries scaling per
+  // linear channel, the card's paper -> its known colour. On rendered casts this keeps the worst
+  // swatch under 1 ΔE00 where Bradford (cone space) leaves up to 2.9 (calibrate.test.ts).
+  const m = whiteCorrectionMatrix(ws.linear, known, opts.adaptation === "bradford" ? "bradford" : "channel");
   const quads = cellQuads(grid);
   let brighter = 0;
   const cells = quads.map((row, r) =>
@@ -200,7 +195,7 @@ export function sampleChartImage(
 }
 
 /** Decodes a chart photo and samples it; grid and white area are in the original photo's pixels. */
-export async function sampleChartPhoto(photo: Buffer, grid: ChartGrid, white: Quad, opts: { paperColor?: string; adaptation?: "rgb" | "bradford" } = {}) {
+export async function sampleChartPhoto(photo: Buffer, grid: ChartGrid, white: Quad, opts: { paperColor?: string; adaptation?: WhiteCorrection } = {}) {
   const { image, original } = await decodePhoto(photo);
   const scale = image.width / original.width;
   return { ...sampleChartImage(image, grid, white, { ...opts, scale, original }), imageSize: original };

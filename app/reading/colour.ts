@@ -103,16 +103,31 @@ export function bradfordMatrix(sourceWhiteXyz: [number, number, number], destWhi
   return mulMat(BRADFORD_INV, mulMat(diag, BRADFORD));
 }
 
+export type WhiteCorrection = "channel" | "bradford";
+
 /**
  * White-reference light correction in linear sRGB: returns the 3×3 matrix that maps a
  * measured linear RGB of a white (or near-white) reference to its known colour, applied
- * to every other colour measured under the same light. Bradford adaptation in XYZ,
- * wrapped in the sRGB matrices, so it works directly on linear RGB triples.
+ * to every other colour measured under the same light (and exposure).
+ *
+ * "channel" (the default) is von Kries scaling of each linear camera channel: a colour
+ * cast in a photo is the light and the camera's white balance acting on the camera's own
+ * channels, so a diagonal scale there undoes it. "bradford" adapts in the Bradford cone
+ * space instead (CIE chromatic adaptation of the same white), wrapped in the sRGB matrices.
+ * On the project's rendered photos the channel form reads pads and chart swatches closer to
+ * the truth (tests/bench/make-set.ts scored with ../shared/eval/score.mjs; calibrate.test.ts).
  */
-export function whiteCorrectionMatrix(measuredWhiteLinear: readonly number[], knownWhiteLinear: readonly number[]): Mat3 {
+export function whiteCorrectionMatrix(
+  measuredWhiteLinear: readonly number[],
+  knownWhiteLinear: readonly number[],
+  method: WhiteCorrection = "channel",
+): Mat3 {
   const src = mulVec(LINEAR_SRGB_TO_XYZ, measuredWhiteLinear);
   const dst = mulVec(LINEAR_SRGB_TO_XYZ, knownWhiteLinear);
   if (!(src[1] > 1e-6)) throw new Error("white reference is black");
+  if (method === "channel") {
+    return [0, 1, 2].map((i) => [0, 1, 2].map((j) => (i === j ? knownWhiteLinear[i] / Math.max(1e-6, measuredWhiteLinear[i]) : 0))) as Mat3;
+  }
   return mulMat(XYZ_TO_LINEAR_SRGB, mulMat(bradfordMatrix(src, dst), LINEAR_SRGB_TO_XYZ));
 }
 
