@@ -251,6 +251,130 @@ export function findCandidates(s: Search, chart: StripChart, divs: number[] = [1
   return cands;
 }
 
+/**
+ * Candidates from pairs of long, straight, parallel edges about one strip width apart: a coarse
+ * Hough transform (1° by 1 px) of the sharp edges of the search copy's log whiteness. This finds
+ * a strip whose bright blob merges with a pale surface, a grout line or another bright object,
+ * where the thresholded components cannot separate it. Each pair's extent along the lines is
+ * taken from where its edge pixels lie.
+ */
+export function edgePairCandidates(s: Search, chart: StripChart, maxOut = 8): Candidate[] {
+  const { w, h, wh } = s;
+  const L = new Float32Array(w * h);
+  for (let i = 0; i < L.length; i++) L[i] = Math.log(wh[i]);
+  // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
+  const mag = new Float32Array(w * h), ang = new Float32Array(w * h);
+  const hist = new Uint32Array(256);
+  for (let y = 1; y < h - 1; y++)
+    for (let x = 1; x < w - 1; x++) {
+      const i = y * w + x;
+      const gx = L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1];
+      const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
+      const m = Math.hypot(gx, gy) / 8;
+      mag[i] = m;
+      ang[i] = Math.atan2(gy, gx);
+      hist[Math.min(255, (m * 1000) | 0)]++;
+    }
+  let thr = 0;
+  for (let b = 255, acc = 0; b >= 0; b--) {
+    acc += hist[b];
+    if (acc >= w * h * 0.1) {
+      thr = b / 1000;
+      break;
+    }
+  }
+  thr = Math.max(thr, 0.008);
+  const nT = 180, diag = Math.ceil(Math.hypot(w, h)), nR = 2 * diag + 1;
+  const cosT = new Float32Array(nT), sinT = new Float32Array(nT);
+  for (let k = 0; k < nT; k++) (cosT[k] = Math.cos((k * Math.PI) / nT)), (sinT[k] = Math.sin((k * Math.PI) / nT));
+  const acc = new Float32Array(nT * nR);
+  const ex: number[] = [], ey: number[] = [], et: number[] = [];
+  for (let y = 1; y < h - 1; y++)
+    for (let x = 1; x < w - 1; x++) {
+      const i = y * w + x;
+      const m = mag[i];
+      if (!(m > thr)) continue;
+      // Thin edges: keep local maxima of the magnitude across the edge.
+      const a = ang[i], c = Math.cos(a), sn = Math.sin(a);
+      const dx = Math.round(c), dy = Math.round(sn);
+      if (mag[i + dy * w + dx] > m || mag[i - dy * w - dx] >= m) continue;
+      let th = a < 0 ? a + Math.PI : a;
+      if (th >= Math.PI) th -= Math.PI;
+      const k0 = Math.round((th * nT) / Math.PI);
+      ex.push(x), ey.push(y), et.push(k0 % nT);
+      for (let dk = -1; dk <= 1; dk++) {
+        let k = k0 + dk, sign = 1;
+        if (k < 0) (k += nT), (sign = -1);
+        else if (k >= nT) (k -= nT), (sign = -1);
+        const r = Math.round(sign * (x * cosT[k] + y * sinT[k])) + diag;
+        acc[k * nR + r] += dk === 0 ? 1 : 0.5;
+      }
+    }
+  const aspect = chart.strip.lengthMm / chart.strip.widthMm;
+  const wMin = 3, wMax = Math.max(6, (0.9 * Math.max(w, h)) / aspect * 1.4);
+  const minVotes = Math.max(8, Math.min(40, (0.1 * Math.max(w, h) * 0.35)));
+  type Pair = { k: number; r1: number; r2: number; score: number };
+  const pairs: Pair[] = [];
+  // Votes of a line, with its neighbours on either side (a line's votes spread over ±1 px).
+  const votes = (row: number, r: number) => acc[row + r] + 0.5 * (acc[row + r - 1] + acc[row + r + 1]);
+  const peaks: number[] = [];
+  for (let k = 0; k < nT; k++) {
+    const row = k * nR;
+    peaks.length = 0;
+    for (let r = 1; r < nR - 1; r++) {
+      const v = acc[row + r];
+      if (v >= minVotes && v >= acc[row + r - 1] && v > acc[row + r + 1]) peaks.push(r);
+    }
+    for (let a = 0; a < peaks.length; a++)
+      for (let b = a + 1; b < peaks.length; b++) {
+        const d = peaks[b] - peaks[a];
+        if (d < wMin) continue;
+        if (d > wMax) break;
+        pairs.push({ k, r1: peaks[a], r2: peaks[b], score: Math.sqrt(votes(row, peaks[a]) * votes(row, peaks[b])) });
+      }
+  }
+  pairs.sort((a, b) => b.score - a.score);
+  const out: Candidate[] = [];
+  const chosen: Pair[] = [];
+  const sAlong: number[] = [];
+  for (const p of pairs) {
+    if (out.length >= maxOut || chosen.length >= maxOut * 4) break;
+    if (chosen.some((q) => Math.min(Math.abs(q.k - p.k), nT - Math.abs(q.k - p.k)) <= 3 && Math.abs(q.r1 - p.r1) <= 3 && Math.abs(q.r2 - p.r2) <= 3)) continue;
+    chosen.push(p);
+    // Extent: where edge pixels of either line lie along the lines.
+    const c = cosT[p.k], sn = sinT[p.k];
+    sAlong.length = 0;
+    let n1 = 0, n2 = 0;
+    for (let j = 0; j < ex.length; j++) {
+      const dk = Math.abs(et[j] - p.k);
+      if (Math.min(dk, nT - dk) > 2) continue;
+      const r = ex[j] * c + ey[j] * sn + diag;
+      const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
+      if (!on1 && !on2) continue;
+      if (on1) n1++;
+      else n2++;
+      sAlong.push(-ex[j] * sn + ey[j] * c);
+    }
+    if (n1 < 5 || n2 < 5) continue;
+    sAlong.sort((a, b) => a - b);
+    // Longest run of edge pixels with no gap longer than two strip widths.
+    const gap = Math.max(4, 2 * (p.r2 - p.r1));
+    let bestA = 0, bestB = 0, a0 = 0;
+    for (let j = 1; j <= sAlong.length; j++) {
+      if (j === sAlong.length || sAlong[j] - sAlong[j - 1] > gap) {
+        if (sAlong[j - 1] - sAlong[a0] > sAlong[bestB] - sAlong[bestA]) (bestA = a0), (bestB = j - 1);
+        a0 = j;
+      }
+    }
+    const s0 = sAlong[bestA], s1 = sAlong[bestB];
+    const width = p.r2 - p.r1, length = s1 - s0;
+    if (length < 2.5 * width) continue;
+    const rm = (p.r1 + p.r2) / 2 - diag, sm = (s0 + s1) / 2;
+    out.push({ cx: rm * c - sm * sn, cy: rm * sn + sm * c, angle: Math.atan2(c, -sn), length, width, score: p.score, n: length * width });
+  }
+  return out;
+}
+
 // ---------------------------------------------------------------- working-image sampling
 
 function bilinear(img: RgbImage, x: number, y: number, out: Float32Array, o: number): boolean {
@@ -349,11 +473,11 @@ function refineAxis(img: RgbImage, a: Axis): Axis {
 
 // ---------------------------------------------------------------- along-axis profile
 
-type Profile = { t0: number; n: number; inner: Float32Array; presence: Float32Array; valid: Uint8Array; surface: Float32Array };
+type Profile = { t0: number; n: number; inner: Float32Array; presence: Float32Array; edge: Float32Array; valid: Uint8Array; surface: Float32Array };
 
 function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profile {
   const n = Math.max(1, Math.floor(tMax - tMin) + 1);
-  const inner = new Float32Array(n * 3), presence = new Float32Array(n), valid = new Uint8Array(n);
+  const inner = new Float32Array(n * 3), presence = new Float32Array(n), edges = new Float32Array(n), valid = new Uint8Array(n);
   // Brightness of the surface beside the strip (the brighter side; grout or a dark line on one side is skipped).
   const surface = new Float32Array(n);
   const vx = -a.uy, vy = a.ux;
@@ -400,18 +524,22 @@ function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number): Profi
       edge += Math.hypot(ir - px[0], ig - px[1], ib - px[2]);
       ne++;
     }
-    presence[i] = Math.max(best, ne ? edge / ne : 0);
+    edges[i] = ne ? edge / ne : 0;
+    presence[i] = Math.max(best, edges[i]);
     valid[i] = 1;
   }
   // light smoothing of presence
-  const sm = new Float32Array(n);
   const k = Math.max(1, Math.round(w * 0.08));
-  for (let i = 0; i < n; i++) {
-    let s = 0, c = 0;
-    for (let j = Math.max(0, i - k); j <= Math.min(n - 1, i + k); j++) if (valid[j]) (s += presence[j]), c++;
-    sm[i] = c ? s / c : 0;
-  }
-  return { t0: tMin, n, inner, presence: sm, valid, surface };
+  const smooth = (src: Float32Array) => {
+    const sm = new Float32Array(n);
+    for (let i = 0; i < n; i++) {
+      let s = 0, c = 0;
+      for (let j = Math.max(0, i - k); j <= Math.min(n - 1, i + k); j++) if (valid[j]) (s += src[j]), c++;
+      sm[i] = c ? s / c : 0;
+    }
+    return sm;
+  };
+  return { t0: tMin, n, inner, presence: smooth(presence), edge: smooth(edges), valid, surface };
 }
 
 // ---------------------------------------------------------------- layout fit
@@ -456,9 +584,21 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
         width: c.width * f,
         length: c.length * f,
       };
-      const g = fitStrip(img, chart, layout, padEndMm, axis0);
+      const g = fitBoth(img, chart, layout, padEndMm, axis0);
       if (g && (!best || g.rank > best.rank)) best = g;
       // A strip of the chart's length with a clear pad pattern: no need to look further.
+      if (best && best.lengthOk && best.rank > 15) return best;
+    }
+  }
+  // Strips the bright components missed (merged with a pale surface or a line beside them):
+  // pairs of long parallel edges.
+  if (!best || !best.lengthOk || !best.convincing) {
+    for (const c of edgePairCandidates(search, chart)) {
+      if (process.env.DIPWELL_DEBUG) console.error("edge pair", JSON.stringify({ cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score }));
+      const f = search.f;
+      const axis0: Axis = { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
+      const g = fitBoth(img, chart, layout, padEndMm, axis0);
+      if (g && (!best || g.rank > best.rank)) best = g;
       if (best && best.lengthOk && best.rank > 15) return best;
     }
   }
@@ -467,7 +607,20 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
   return best;
 }
 
-function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis): StripGeometry | null {
+/**
+ * Fits the chart's layout along a candidate axis. When the strip's length is not confirmed, the
+ * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
+ * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
+ */
+function fitBoth(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis): StripGeometry | null {
+  const g = fitStrip(img, chart, layout, padEndMm, axis0);
+  if (g && g.lengthOk && g.convincing) return g;
+  const e = fitStrip(img, chart, layout, padEndMm, axis0, true);
+  if (e && e.convincing && (!g || e.rank > g.rank)) return e;
+  return g;
+}
+
+function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, edgeWalk = false): StripGeometry | null {
   let axis = refineAxis(img, axis0);
   axis = refineAxis(img, axis);
   const warnings: string[] = [];
@@ -489,7 +642,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   const thr = Math.max(6, Math.min(0.4 * pHandle, 30));
   const maxPad = Math.max(...chart.pads.map((p) => p.sizeMm));
   const maxGap = maxPad * scaleW * 1.3 + 2;
-  const walk = (dir: 1 | -1) => {
+  const walk = (dir: 1 | -1, pres = prof.presence, thr0 = thr) => {
     let last = 0, falseRun = 0, truncated = false;
     for (let t = 0; ; t += dir) {
       const i = idx0 + t;
@@ -497,14 +650,34 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
         truncated = true;
         break;
       }
-      if (prof.presence[i] > thr) (last = t), (falseRun = 0);
+      if (pres[i] > thr0) (last = t), (falseRun = 0);
       else if (++falseRun > maxGap) break;
     }
     // Reaching the photo's edge after more than half a gap of surface: the strip ended before it.
     if (truncated && falseRun > maxGap / 2) truncated = false;
     return { end: last + dir * 0.5, truncated };
   };
-  const wP = walk(1), wM = walk(-1);
+  let wP = walk(1), wM = walk(-1);
+  if (edgeWalk) {
+    // A strip lying in line with a dark line (grout, a seam) or another object: the colour
+    // difference runs on past its ends. Its two sharp long edges stop there; walk those instead.
+    const r = (wP.end - wM.end) / chart.strip.lengthMm / scaleW;
+    if (wP.truncated || wM.truncated || r > 1.18) {
+      const me: number[] = [];
+      for (let t = Math.round(-axis.length * 0.4); t <= Math.round(axis.length * 0.4); t++) {
+        const i = idx0 + t;
+        if (i >= 0 && i < prof.n && prof.valid[i]) me.push(prof.edge[i]);
+      }
+      const eH = median(me);
+      if (eH > 4) {
+        const tE = Math.max(4, Math.min(0.4 * eH, 30));
+        const eP = walk(1, prof.edge, tE), eM = walk(-1, prof.edge, tE);
+        const rE = (eP.end - eM.end) / chart.strip.lengthMm / scaleW;
+        if (!eP.truncated && !eM.truncated && rE >= 0.85 && rE <= 1.18) (wP = eP), (wM = eM);
+        else return null;
+      } else return null;
+    } else return null;
+  }
   if (process.env.DIPWELL_DEBUG) console.error("walk", wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
   const eP = wP.end, eM = wM.end;
   const lm = eP - eM;

@@ -1,0 +1,74 @@
+/**
+ * Robustness sweep of the strip reader over rendered photos: every chart, surface, cast, random
+ * rotations, glare and shadow. Prints the share of pads within 0.5 and 1 chart step and the failures.
+ *
+ *   npx tsx tests/bench/robustness.ts [--n 60] [--seed0 7000] [--cache /tmp/dipwell-robustness]
+ */
+import fs from "node:fs";
+import path from "node:path";
+import { renderStripPhoto } from "../render/strip-photo";
+import { asRenderChart } from "../render/types";
+import { parseChart, readStrip } from "../../app/reading/index";
+
+const args = process.argv.slice(2);
+const opt = (k: string, d: string) => (args.includes(k) ? args[args.indexOf(k) + 1]! : d);
+const N = Number(opt("--n", "60")), seed0 = Number(opt("--seed0", "7000"));
+const cache = opt("--cache", "/tmp/dipwell-robustness");
+fs.mkdirSync(cache, { recursive: true });
+
+const chartFiles = ["calibration/demo-3pad.json", "calibration/demo-6pad.json", "calibration/demo-bromine-4pad.json", "../shared/eval/charts/practice-3pad.json"];
+const charts = chartFiles.map((f) => JSON.parse(fs.readFileSync(f, "utf8")));
+const surfaces = ["paper", "counter", "wood", "cloth", "tiles"] as const;
+const casts = ["daylight", "warm", "cool", "fluorescent"] as const;
+const pale = ["#f2f2f0", "#efece4", "#f4f4f4"];
+
+/** Position of a value on a pad's swatch scale, in steps (piecewise linear). */
+function toIndex(sw: { value: number }[], v: number): number {
+  if (v <= sw[0]!.value) return 0;
+  for (let i = 1; i < sw.length; i++) if (v <= sw[i]!.value) return i - 1 + (v - sw[i - 1]!.value) / (sw[i]!.value - sw[i - 1]!.value);
+  return sw.length - 1;
+}
+
+let pads = 0, in05 = 0, in1 = 0;
+const fails: string[] = [], worst: string[] = [];
+for (let i = 0; i < N; i++) {
+  const seed = seed0 + i;
+  const ci = i % 4, chart = charts[ci];
+  const surface = surfaces[Math.floor(i / 4) % 5]!;
+  const o = {
+    seed,
+    surface,
+    surfaceColor: i % 3 === 0 ? pale[(i / 3) % 3] : undefined,
+    cast: casts[(i + Math.floor(i / 20)) % 4],
+    shadow: i % 5 === 2,
+    glare: i % 7 === 3 ? 2 : undefined,
+  };
+  const tag = `${seed} ${path.basename(chartFiles[ci]!, ".json")} ${surface}${o.surfaceColor ?? ""} ${o.cast}${o.shadow ? " shadow" : ""}${o.glare ? " glare" : ""}`;
+  const file = path.join(cache, `${seed}.jpg`), tfile = path.join(cache, `${seed}.json`);
+  let truth: { analyte: string; index: number }[], rot: number;
+  if (fs.existsSync(file) && fs.existsSync(tfile)) ({ truth, rot } = JSON.parse(fs.readFileSync(tfile, "utf8")));
+  else {
+    const r = await renderStripPhoto(asRenderChart(chart), o);
+    fs.writeFileSync(file, r.jpeg);
+    truth = r.truth;
+    rot = r.conditions.rotationDeg;
+    fs.writeFileSync(tfile, JSON.stringify({ truth, rot }));
+  }
+  try {
+    const res = await readStrip(fs.readFileSync(file), parseChart(chart));
+    for (const t of truth) {
+      const p = res.pads.find((q) => q.analyte === t.analyte)!;
+      const e = Math.abs(toIndex(chart.pads.find((q: { analyte: string }) => q.analyte === t.analyte).swatches, p.value) - t.index);
+      pads++;
+      if (e <= 0.5) in05++;
+      if (e <= 1) in1++;
+      if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps`);
+    }
+  } catch (e) {
+    pads += truth.length;
+    fails.push(`${tag} rot ${rot}: ${(e as Error).message.slice(0, 60)}`);
+  }
+}
+console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}`);
+for (const f of fails) console.log("  FAIL", f);
+for (const w of worst) console.log("  off ", w);
