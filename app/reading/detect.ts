@@ -12,7 +12,7 @@
 //    strip's two ends; a profile of "difference from bare plastic" is matched to the chart's
 //    pad layout over offset and scale, for both orientations; the better fit tells the tip.
 import type { StripChart } from "./chart";
-import { srgbToLinear } from "./colour";
+import { correctLinear, deltaE2000, hexToRgb, lerpLab, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix } from "./colour";
 import { ReadingError, type RgbImage } from "./image";
 
 export type Interval = [number, number];
@@ -616,7 +616,8 @@ function fitBoth(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: num
   const g = fitStrip(img, chart, layout, padEndMm, axis0);
   if (g && g.lengthOk && g.convincing) return g;
   const e = fitStrip(img, chart, layout, padEndMm, axis0, true);
-  if (e && e.convincing && (!g || e.rank > g.rank)) return e;
+  // The edges' ends win only with pads fitting at least as well: a confirmed length alone does not.
+  if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) return e;
   return g;
 }
 
@@ -658,6 +659,9 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     return { end: last + dir * 0.5, truncated };
   };
   let wP = walk(1), wM = walk(-1);
+  // Neither the colour nor the edges show the strip's ends (a pale strip on a pale surface): the
+  // chart's pads are searched for anywhere along the axis, at the scale given by the width.
+  let free = false;
   if (edgeWalk) {
     // A strip lying in line with a dark line (grout, a seam) or another object: the colour
     // difference runs on past its ends. Its two sharp long edges stop there; walk those instead.
@@ -669,13 +673,16 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
         if (i >= 0 && i < prof.n && prof.valid[i]) me.push(prof.edge[i]);
       }
       const eH = median(me);
-      if (eH > 4) {
-        const tE = Math.max(4, Math.min(0.4 * eH, 30));
+      let found = false;
+      // A textured surface (weave, grain) has edges of its own: a stricter threshold next.
+      for (const frac of [0.4, 0.6]) {
+        if (!(eH > 4) || found) break;
+        const tE = Math.max(4, frac * eH);
         const eP = walk(1, prof.edge, tE), eM = walk(-1, prof.edge, tE);
         const rE = (eP.end - eM.end) / chart.strip.lengthMm / scaleW;
-        if (!eP.truncated && !eM.truncated && rE >= 0.85 && rE <= 1.18) (wP = eP), (wM = eM);
-        else return null;
-      } else return null;
+        if (!eP.truncated && !eM.truncated && rE >= 0.85 && rE <= 1.18) (wP = eP), (wM = eM), (found = true);
+      }
+      if (!found) free = true;
     } else return null;
   }
   if (process.env.DIPWELL_DEBUG) console.error("walk", wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
@@ -685,7 +692,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   const ratio = scale / scaleW;
   let kRange = 0.05;
   let lengthOk = true;
-  if (wP.truncated || wM.truncated || ratio < 0.85 || ratio > 1.18) {
+  if (free || wP.truncated || wM.truncated || ratio < 0.85 || ratio > 1.18) {
     lengthOk = false;
     scale = scaleW;
     kRange = 0.12;
@@ -737,14 +744,22 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     const dir = (-tipSide) as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? wP : wM, handleEnd = tipSide === 1 ? wM : wP;
     const anchors: number[] = [];
-    if (!tipEnd.truncated || handleEnd.truncated) anchors.push(tipEnd.end);
-    if (!lengthOk && !handleEnd.truncated) anchors.push(handleEnd.end - dir * chart.strip.lengthMm * scale);
+    let offMin = -(lengthOk ? 2 : 3) * scale, offMax = -offMin, offStep = 0.5;
+    if (free) {
+      let v0 = -1, v1 = -1;
+      for (let i = 0; i < prof.n; i++) if (prof.valid[i]) (v1 = i), v0 < 0 && (v0 = i);
+      if (v0 < 0) continue;
+      anchors.push(prof.t0 + (dir === 1 ? v0 : v1));
+      (offMin = 0), (offMax = v1 - v0 - padEndMm * scale), (offStep = 1);
+    } else {
+      if (!tipEnd.truncated || handleEnd.truncated) anchors.push(tipEnd.end);
+      if (!lengthOk && !handleEnd.truncated) anchors.push(handleEnd.end - dir * chart.strip.lengthMm * scale);
+    }
     let bf: Fit | null = null;
-    const offMax = (lengthOk ? 2 : 3) * scale;
     for (const tip of anchors)
     for (let k = 1 - kRange; k <= 1 + kRange + 1e-9; k += 0.01) {
       const s = scale * k;
-      for (let off = -offMax; off <= offMax; off += 0.5) {
+      for (let off = offMin; off <= offMax; off += offStep) {
         const at = (mm: number) => tip + dir * (off + mm * s);
         let ps = 0;
         for (const [a, b] of layout.pads) {
@@ -758,7 +773,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
           gs += meanQ(at(m - h), at(m + h));
         }
         gs /= layout.gaps.length;
-        const score = ps - gs - Math.abs(off / scale) * 0.5 - Math.abs(k - 1) * 20;
+        const score = ps - gs - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
         if (!bf || score > bf.score) bf = { score, tip, dir, k, off, ps, gs };
       }
     }
@@ -767,8 +782,38 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   }
   if (!bestFit) return null;
   if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
-  if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2)
-    warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+  if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2) {
+    // The pad pattern fits both ways round: the order whose colours lie closer to the chart's
+    // swatches (after a white correction from the bare plastic) tells the tip.
+    const bareLin = bare.map((v) => srgbToLinear(v / 255));
+    const wm = whiteCorrectionMatrix(bareLin, hexToRgb(chart.strip.color).map(srgbToLinear));
+    const colourCost = (f: Fit) => {
+      let cost = 0;
+      chart.pads.forEach((p, pi) => {
+        const [a, b] = layout.pads[pi];
+        const m = (a + b) / 2, h = ((b - a) / 2) * 0.6, sc = scale * f.k;
+        let i0 = Math.round(f.tip + f.dir * (f.off + (m - h) * sc) - prof.t0), i1 = Math.round(f.tip + f.dir * (f.off + (m + h) * sc) - prof.t0);
+        if (i1 < i0) [i0, i1] = [i1, i0];
+        const c = [0, 0, 0];
+        let n = 0;
+        for (let i = Math.max(0, i0); i <= Math.min(prof.n - 1, i1); i++) if (prof.valid[i]) for (let ch = 0; ch < 3; ch++) (c[ch] += prof.inner[i * 3 + ch]), ch === 0 && n++;
+        if (!n) return void (cost += 50);
+        const lin = correctLinear(wm, c.map((v) => srgbToLinear(v / n / 255)));
+        const lab = linearRgbToLab(lin[0], lin[1], lin[2]);
+        let best = Infinity;
+        for (let j = 0; j < p.swatches.length; j++) {
+          best = Math.min(best, deltaE2000(lab, p.swatches[j].lab));
+          if (j > 0) best = Math.min(best, deltaE2000(lab, lerpLab(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5)));
+        }
+        cost += Math.min(best, 50);
+      });
+      return cost / chart.pads.length;
+    };
+    const c0 = colourCost(fits[0]), c1 = colourCost(fits[1]);
+    if (process.env.DIPWELL_DEBUG) console.error("tip by colour", c0.toFixed(1), c1.toFixed(1));
+    if (Math.abs(c0 - c1) > 3) bestFit = c0 < c1 ? fits[0] : fits[1];
+    else warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+  }
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
   const s = scale * bestFit.k;
   const { dir, tip, off } = bestFit;
@@ -806,7 +851,8 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     fitScore: bestFit.score,
     rank: bestFit.score * (lengthOk ? 1 : 0.6),
     lengthOk,
-    convincing: bestFit.score >= Math.max(4, bestFit.gs),
+    // Searched for anywhere along the axis, the best of many placements must stand out further.
+    convincing: free ? bestFit.score >= Math.max(10, 2 * bestFit.gs) : bestFit.score >= Math.max(4, bestFit.gs),
     warnings,
   };
 }
