@@ -785,18 +785,31 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2) {
     // The pad pattern fits both ways round: the order whose colours lie closer to the chart's
     // swatches (after a white correction from the bare plastic) tells the tip.
-    const bareLin = bare.map((v) => srgbToLinear(v / 255));
-    const wm = whiteCorrectionMatrix(bareLin, hexToRgb(chart.strip.color).map(srgbToLinear));
+    const stripLin = hexToRgb(chart.strip.color).map(srgbToLinear);
     const colourCost = (f: Fit) => {
       let cost = 0;
+      const sc = scale * f.k;
+      const span = (a: number, b: number) => {
+        let i0 = Math.round(f.tip + f.dir * (f.off + a * sc) - prof.t0), i1 = Math.round(f.tip + f.dir * (f.off + b * sc) - prof.t0);
+        if (i1 < i0) [i0, i1] = [i1, i0];
+        return [Math.max(0, i0), Math.min(prof.n - 1, i1)];
+      };
+      // White reference: the bare plastic in this placement's gaps.
+      const gch: number[][] = [[], [], []];
+      for (const [a, b] of layout.gaps) {
+        const m = (a + b) / 2, h = ((b - a) / 2) * 0.6;
+        const [i0, i1] = span(m - h, m + h);
+        for (let i = i0; i <= i1; i++) if (prof.valid[i]) for (let ch = 0; ch < 3; ch++) gch[ch].push(prof.inner[i * 3 + ch]);
+      }
+      const bareLin = gch[0].length ? gch.map((a) => srgbToLinear(median(a) / 255)) : bare.map((v) => srgbToLinear(v / 255));
+      const wm = whiteCorrectionMatrix(bareLin, stripLin);
       chart.pads.forEach((p, pi) => {
         const [a, b] = layout.pads[pi];
-        const m = (a + b) / 2, h = ((b - a) / 2) * 0.6, sc = scale * f.k;
-        let i0 = Math.round(f.tip + f.dir * (f.off + (m - h) * sc) - prof.t0), i1 = Math.round(f.tip + f.dir * (f.off + (m + h) * sc) - prof.t0);
-        if (i1 < i0) [i0, i1] = [i1, i0];
+        const m = (a + b) / 2, h = ((b - a) / 2) * 0.6;
+        const [i0, i1] = span(m - h, m + h);
         const c = [0, 0, 0];
         let n = 0;
-        for (let i = Math.max(0, i0); i <= Math.min(prof.n - 1, i1); i++) if (prof.valid[i]) for (let ch = 0; ch < 3; ch++) (c[ch] += prof.inner[i * 3 + ch]), ch === 0 && n++;
+        for (let i = i0; i <= i1; i++) if (prof.valid[i]) for (let ch = 0; ch < 3; ch++) (c[ch] += prof.inner[i * 3 + ch]), ch === 0 && n++;
         if (!n) return void (cost += 50);
         const lin = correctLinear(wm, c.map((v) => srgbToLinear(v / n / 255)));
         const lab = linearRgbToLab(lin[0], lin[1], lin[2]);
