@@ -3,7 +3,7 @@
 // Vitest (unit, integration against real PostgreSQL, s3rver and SMTP) and the
 // browser tests in Debian's Chromium against the production build.
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, rmSync } from "node:fs";
+import { existsSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import { migrateDatabase } from "./migrate";
 import { TEST_PORTS as P, TEST_SLOT } from "./ports";
@@ -91,17 +91,30 @@ async function main() {
     await waitForPort(P.app, "the Dipwell app", 60_000);
 
     console.log("\n== Vitest: unit, integration and browser tests");
+    const results = path.join(run, "vitest-results.json");
+    rmSync(results, { force: true });
     const code = await new Promise<number>((resolve) => {
-      const child = spawn(bin("vitest"), ["run", ...vitestArgs], { cwd: root, stdio: "inherit", env });
+      const child = spawn(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...vitestArgs], { cwd: root, stdio: "inherit", env });
       child.on("exit", (c) => resolve(c ?? 1));
     });
     failed += code;
     cleanup();
+    printSummary(results, failed);
     process.exit(failed ? 1 : 0);
   } catch (error) {
     cleanup();
     throw error;
   }
+}
+
+/** The plain closing line: "N passed, N failed" (and skipped), from Vitest's JSON report. */
+function printSummary(file: string, failedSteps: number) {
+  if (!existsSync(file)) return;
+  const r = JSON.parse(readFileSync(file, "utf8")) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number };
+  const skipped = r.numPendingTests + r.numTodoTests;
+  // A failed type check counts as a failure too, so the line never reads as a pass when the run failed.
+  const failed = r.numFailedTests + (failedSteps && !r.numFailedTests ? 1 : 0);
+  console.log(`\n${r.numPassedTests} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
 }
 
 main().catch((error) => {
