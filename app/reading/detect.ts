@@ -370,6 +370,22 @@ export function edgePairCandidates(s: Search, chart: StripChart, maxOut = 8): Ca
     const width = p.r2 - p.r1, length = s1 - s0;
     if (length < 2.5 * width) continue;
     const rm = (p.r1 + p.r2) / 2 - diag, sm = (s0 + s1) / 2;
+    // A strip is a bright plastic band: along most of its length its inside is not clearly darker
+    // than the surface on both sides. A grout line, a seam or a shadow's dark band is.
+    const Lat = (r: number, sa: number) => {
+      const x = Math.round(r * c - sa * sn), y = Math.round(r * sn + sa * c);
+      return x >= 0 && y >= 0 && x < w && y < h ? L[y * w + x] : NaN;
+    };
+    const dOut = width / 2 + Math.max(2, width / 2);
+    const contrast: number[] = [];
+    for (let k = 0; k <= 24; k++) {
+      const sa = s0 + ((s1 - s0) * k) / 24;
+      const inside = Lat(rm, sa), o1 = Lat(rm - dOut, sa), o2 = Lat(rm + dOut, sa);
+      if (Number.isNaN(inside)) continue;
+      const outs = [o1, o2].filter((v) => !Number.isNaN(v));
+      if (outs.length) contrast.push(inside - Math.max(...outs));
+    }
+    if (contrast.length >= 5 && median(contrast) < -0.15) continue;
     out.push({ cx: rm * c - sm * sn, cy: rm * sn + sm * c, angle: Math.atan2(c, -sn), length, width, score: p.score, n: length * width });
   }
   return out;
@@ -560,6 +576,13 @@ function chartLayout(chart: StripChart): Layout {
   return { pads, gaps };
 }
 
+/** A placement whose pads stand out from the bare plastic beats one whose gaps look as coloured as its pads, whatever their scores. */
+function better(g: StripGeometry, best: StripGeometry | null): boolean {
+  if (!best) return true;
+  if (g.convincing !== best.convincing) return g.convincing;
+  return g.rank > best.rank;
+}
+
 export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
   const search = makeSearch(img);
   const layout = chartLayout(chart);
@@ -585,9 +608,9 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
         length: c.length * f,
       };
       const g = fitBoth(img, chart, layout, padEndMm, axis0);
-      if (g && (!best || g.rank > best.rank)) best = g;
+      if (g && better(g, best)) best = g;
       // A strip of the chart's length with a clear pad pattern: no need to look further.
-      if (best && best.lengthOk && best.rank > 15) return best;
+      if (best && best.lengthOk && best.convincing && best.rank > 15) return best;
     }
   }
   // Strips the bright components missed (merged with a pale surface or a line beside them):
@@ -598,10 +621,11 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
       const f = search.f;
       const axis0: Axis = { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
       const g = fitBoth(img, chart, layout, padEndMm, axis0);
-      if (g && (!best || g.rank > best.rank)) best = g;
-      if (best && best.lengthOk && best.rank > 15) return best;
+      if (g && better(g, best)) best = g;
+      if (best && best.lengthOk && best.convincing && best.rank > 15) return best;
     }
   }
+  if (process.env.DIPWELL_DEBUG && best) console.error("chosen", JSON.stringify({ c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing }));
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
   return best;
@@ -685,7 +709,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
       if (!found) free = true;
     } else return null;
   }
-  if (process.env.DIPWELL_DEBUG) console.error("walk", wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
+  if (process.env.DIPWELL_DEBUG) console.error("walk", JSON.stringify({ c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), c0: [Math.round(axis0.cx), Math.round(axis0.cy)], w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }), wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
   const eP = wP.end, eM = wM.end;
   const lm = eP - eM;
   let scale = lm / chart.strip.lengthMm;
@@ -737,28 +761,34 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     if (b < a) return 0;
     return (Qp[b + 1] - Qp[a]) / (b - a + 1);
   };
-  type Fit = { score: number; tip: number; dir: 1 | -1; k: number; off: number; ps: number; gs: number };
+  type Fit = { score: number; tip: number; dir: 1 | -1; k: number; off: number; ps: number; gs: number; sc: number };
   let bestFit: Fit | null = null;
   const fits: Fit[] = [];
   for (const tipSide of [1, -1] as const) {
     const dir = (-tipSide) as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? wP : wM, handleEnd = tipSide === 1 ? wM : wP;
-    const anchors: number[] = [];
+    const anchors: { tip: number; sc: number }[] = [];
     let offMin = -(lengthOk ? 2 : 3) * scale, offMax = -offMin, offStep = 0.5;
     if (free) {
       let v0 = -1, v1 = -1;
       for (let i = 0; i < prof.n; i++) if (prof.valid[i]) (v1 = i), v0 < 0 && (v0 = i);
       if (v0 < 0) continue;
-      anchors.push(prof.t0 + (dir === 1 ? v0 : v1));
+      anchors.push({ tip: prof.t0 + (dir === 1 ? v0 : v1), sc: scale });
       (offMin = 0), (offMax = v1 - v0 - padEndMm * scale), (offStep = 1);
     } else {
-      if (!tipEnd.truncated || handleEnd.truncated) anchors.push(tipEnd.end);
-      if (!lengthOk && !handleEnd.truncated) anchors.push(handleEnd.end - dir * chart.strip.lengthMm * scale);
+      if (!tipEnd.truncated || handleEnd.truncated) anchors.push({ tip: tipEnd.end, sc: scale });
+      if (!lengthOk && !handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scale, sc: scale });
+      // One end may run on past the strip (a grain line, a seam or a shadow in line with it): the
+      // layout is also placed from the other end at the scale given by the width.
+      if (lengthOk) {
+        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scaleW, sc: scaleW });
+        if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, sc: scaleW });
+      }
     }
+    for (const { tip, sc } of anchors) {
     let bf: Fit | null = null;
-    for (const tip of anchors)
     for (let k = 1 - kRange; k <= 1 + kRange + 1e-9; k += 0.01) {
-      const s = scale * k;
+      const s = sc * k;
       for (let off = offMin; off <= offMax; off += offStep) {
         const at = (mm: number) => tip + dir * (off + mm * s);
         let ps = 0;
@@ -774,21 +804,24 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
         }
         gs /= layout.gaps.length;
         const score = ps - gs - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
-        if (!bf || score > bf.score) bf = { score, tip, dir, k, off, ps, gs };
+        if (!bf || score > bf.score) bf = { score, tip, dir, k, off, ps, gs, sc };
       }
     }
-    if (bf) fits.push(bf);
+    // Another anchor that lands on a placement already found adds nothing.
+    if (bf && !fits.some((f) => f.dir === bf!.dir && Math.abs(f.tip + f.dir * f.off - (bf!.tip + bf!.dir * bf!.off)) < 1.5 * bf!.sc && Math.abs(f.sc * f.k - bf!.sc * bf!.k) < 0.03 * bf!.sc)) fits.push(bf);
     if (bf && (!bestFit || bf.score > bestFit.score)) bestFit = bf;
+    }
   }
   if (!bestFit) return null;
-  if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
-  if (fits.length === 2 && Math.abs(fits[0].score - fits[1].score) < 2) {
+  if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1), d: f.dir, t: Math.round(f.tip + f.dir * f.off), k: +(f.sc * f.k).toFixed(2) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
+  const rivals = fits.filter((f) => bestFit!.score - f.score < Math.max(2, 0.15 * bestFit!.score));
+  if (rivals.length >= 2) {
     // The pad pattern fits both ways round: the order whose colours lie closer to the chart's
     // swatches (after a white correction from the bare plastic) tells the tip.
     const stripLin = hexToRgb(chart.strip.color).map(srgbToLinear);
     const colourCost = (f: Fit) => {
       let cost = 0;
-      const sc = scale * f.k;
+      const sc = f.sc * f.k;
       const span = (a: number, b: number) => {
         let i0 = Math.round(f.tip + f.dir * (f.off + a * sc) - prof.t0), i1 = Math.round(f.tip + f.dir * (f.off + b * sc) - prof.t0);
         if (i1 < i0) [i0, i1] = [i1, i0];
@@ -819,16 +852,19 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
           if (j > 0) best = Math.min(best, deltaE2000(lab, lerpLab(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5)));
         }
         cost += Math.min(best, 50);
+        if (process.env.DIPWELL_DEBUG) console.error("  pad", p.analyte, best.toFixed(1), JSON.stringify(lab));
       });
       return cost / chart.pads.length;
     };
-    const c0 = colourCost(fits[0]), c1 = colourCost(fits[1]);
-    if (process.env.DIPWELL_DEBUG) console.error("tip by colour", c0.toFixed(1), c1.toFixed(1));
-    if (Math.abs(c0 - c1) > 3) bestFit = c0 < c1 ? fits[0] : fits[1];
-    else warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+    const costs = rivals.map(colourCost);
+    if (process.env.DIPWELL_DEBUG) console.error("placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
+    const order = costs.map((c, i) => i).sort((a, b) => costs[a] - costs[b]);
+    const [i0, i1] = order;
+    if (costs[i1] - costs[i0] > 3) bestFit = rivals[i0];
+    else if (rivals[i0].dir !== rivals[i1].dir) warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
   }
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
-  const s = scale * bestFit.k;
+  const s = bestFit.sc * bestFit.k;
   const { dir, tip, off } = bestFit;
   const vx = -axis.uy, vy = axis.ux;
   const widthMm = chart.strip.widthMm;
