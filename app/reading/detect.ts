@@ -39,6 +39,10 @@ export type StripGeometry = {
   /** Bare-plastic intervals (t) usable as white reference, sorted by t. */
   bare: Interval[];
   fitScore: number;
+  /** Mean ΔE00 from the placed pads' colours to their swatch paths (white-corrected from the gaps). */
+  colourCost: number;
+  /** Length of the blob the axis was fitted over (work px). */
+  axisSpan: number;
   /** fitScore, discounted when the strip's length could not be confirmed (for ranking candidates). */
   rank: number;
   /** Both ends found at the chart's length. */
@@ -468,23 +472,49 @@ function refineAxis(img: RgbImage, a: Axis): Axis {
     ts.push(t), mids.push((sl + sr) / 2), widths.push(wdt);
   }
   if (ts.length < 5) return a;
-  // Robust line fit mid = p + q t.
-  let keep = ts.map(() => true);
-  let p = 0, q = 0;
-  for (let it = 0; it < 3; it++) {
-    let n = 0, st = 0, sm = 0, stt = 0, stm = 0;
-    for (let i = 0; i < ts.length; i++) if (keep[i]) n++, (st += ts[i]), (sm += mids[i]), (stt += ts[i] * ts[i]), (stm += ts[i] * mids[i]);
-    const den = n * stt - st * st;
-    q = Math.abs(den) > 1e-9 ? (n * stm - st * sm) / den : 0;
-    p = (sm - q * st) / n;
-    const res = ts.map((t, i) => Math.abs(mids[i] - p - q * t));
-    const mad = median(res.filter((_, i) => keep[i]));
-    keep = res.map((r) => r <= Math.max(1, 3 * mad));
+  // Both edges are straight and parallel: one slope q, two offsets (left pL, right pR), fitted
+  // robustly. An edge that barely shows (a pale strip on a pale, textured surface) scatters; it is
+  // weighted by its scatter, and the axis is then placed from the clear edge and the width.
+  const ls = mids.map((m, i) => m - widths[i] / 2), rs = mids.map((m, i) => m + widths[i] / 2);
+  let keepL = ts.map(() => true), keepR = ts.map(() => true);
+  let q = 0, pL = 0, pR = 0, madL = 1, madR = 1;
+  for (let it = 0; it < 4; it++) {
+    const wL = 1 / Math.max(0.25, madL * madL), wR = 1 / Math.max(0.25, madR * madR);
+    let nL = 0, tL = 0, sL = 0, nR = 0, tR = 0, sR = 0;
+    for (let i = 0; i < ts.length; i++) {
+      if (keepL[i]) nL++, (tL += ts[i]), (sL += ls[i]);
+      if (keepR[i]) nR++, (tR += ts[i]), (sR += rs[i]);
+    }
+    if (nL < 3 || nR < 3) break;
+    (tL /= nL), (sL /= nL), (tR /= nR), (sR /= nR);
+    let num = 0, den = 0;
+    for (let i = 0; i < ts.length; i++) {
+      if (keepL[i]) (num += wL * (ts[i] - tL) * (ls[i] - sL)), (den += wL * (ts[i] - tL) ** 2);
+      if (keepR[i]) (num += wR * (ts[i] - tR) * (rs[i] - sR)), (den += wR * (ts[i] - tR) ** 2);
+    }
+    q = den > 1e-9 ? num / den : 0;
+    (pL = sL - q * tL), (pR = sR - q * tR);
+    const resL = ts.map((t, i) => Math.abs(ls[i] - pL - q * t)), resR = ts.map((t, i) => Math.abs(rs[i] - pR - q * t));
+    madL = Math.max(0.5, median(resL.filter((_, i) => keepL[i])));
+    madR = Math.max(0.5, median(resR.filter((_, i) => keepR[i])));
+    keepL = resL.map((r) => r <= Math.max(1, 3 * madL));
+    keepR = resR.map((r) => r <= Math.max(1, 3 * madR));
   }
-  const wk = widths.filter((_, i) => keep[i]);
+  const both = widths.filter((_, i) => keepL[i] && keepR[i]);
+  let width = pR - pL;
+  if (!(width > a.width * 0.4 && width < a.width * 2.2)) width = median(both.length >= 3 ? both : widths);
+  let p = (pL + pR) / 2;
+  // One edge far more scattered than the other: the clear edge and the width place the axis.
+  if (madL > 2.5 * madR && madL > 1.5) {
+    width = median(both.length >= 3 ? both : widths);
+    p = pR - width / 2;
+  } else if (madR > 2.5 * madL && madR > 1.5) {
+    width = median(both.length >= 3 ? both : widths);
+    p = pL + width / 2;
+  }
   const nx = a.ux + q * vx, ny = a.uy + q * vy;
   const nn = Math.hypot(nx, ny);
-  return { cx: a.cx + p * vx, cy: a.cy + p * vy, ux: nx / nn, uy: ny / nn, width: median(wk.length >= 3 ? wk : widths), length: a.length };
+  return { cx: a.cx + p * vx, cy: a.cy + p * vy, ux: nx / nn, uy: ny / nn, width, length: a.length };
 }
 
 // ---------------------------------------------------------------- along-axis profile
@@ -576,6 +606,14 @@ function chartLayout(chart: StripChart): Layout {
   return { pads, gaps };
 }
 
+/**
+ * Trust in a placement from how far its pads' colours lie from their swatch paths: pads of a real
+ * strip lie near their paths; a pattern of grout, grain or shadow placed as pads lies far off.
+ */
+function colourTrust(cost: number): number {
+  return cost <= 8 ? 1 : Math.max(0.1, 1 - (cost - 8) / 10);
+}
+
 /** A placement whose pads stand out from the bare plastic beats one whose gaps look as coloured as its pads, whatever their scores. */
 function better(g: StripGeometry, best: StripGeometry | null): boolean {
   if (!best) return true;
@@ -610,7 +648,7 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
       const g = fitBoth(img, chart, layout, padEndMm, axis0);
       if (g && better(g, best)) best = g;
       // A strip of the chart's length with a clear pad pattern: no need to look further.
-      if (best && best.lengthOk && best.convincing && best.rank > 15) return best;
+      if (best && best.lengthOk && best.convincing && best.rank > 15) return wholeStrip(img, chart, layout, padEndMm, best);
     }
   }
   // Strips the bright components missed (merged with a pale surface or a line beside them):
@@ -622,13 +660,26 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
       const axis0: Axis = { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
       const g = fitBoth(img, chart, layout, padEndMm, axis0);
       if (g && better(g, best)) best = g;
-      if (best && best.lengthOk && best.convincing && best.rank > 15) return best;
+      if (best && best.lengthOk && best.convincing && best.rank > 15) return wholeStrip(img, chart, layout, padEndMm, best);
     }
   }
-  if (process.env.DIPWELL_DEBUG && best) console.error("chosen", JSON.stringify({ c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing }));
+  if (process.env.DIPWELL_DEBUG && best) console.error("chosen", JSON.stringify({ c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing }));
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
-  return best;
+  return wholeStrip(img, chart, layout, padEndMm, best);
+}
+
+/**
+ * The axis was fitted over the candidate's blob, often the handle alone; a small error of its
+ * angle moves the pads at the far end off the strip. Fitted again over the whole strip as placed.
+ */
+function wholeStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, g: StripGeometry): StripGeometry {
+  const tm = (g.tipT + g.handleT) / 2, len = Math.abs(g.handleT - g.tipT);
+  if (g.axisSpan >= 0.75 * len) return g;
+  const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
+  const again = fitBoth(img, chart, layout, padEndMm, axis0);
+  if (process.env.DIPWELL_DEBUG && again) console.error("whole strip", JSON.stringify({ fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing }));
+  return again && again.convincing && again.fitScore >= 0.9 * g.fitScore ? again : g;
 }
 
 /**
@@ -815,9 +866,10 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
   if (!bestFit) return null;
   if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1), d: f.dir, t: Math.round(f.tip + f.dir * f.off), k: +(f.sc * f.k).toFixed(2) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
   const rivals = fits.filter((f) => bestFit!.score - f.score < Math.max(2, 0.15 * bestFit!.score));
-  if (rivals.length >= 2) {
-    // The pad pattern fits both ways round: the order whose colours lie closer to the chart's
-    // swatches (after a white correction from the bare plastic) tells the tip.
+  let chosenCost = 0;
+  {
+    // The pad pattern fits both ways round (or from either end): the placement whose colours lie
+    // closer to the chart's swatches (after a white correction from the bare plastic) wins.
     const stripLin = hexToRgb(chart.strip.color).map(srgbToLinear);
     const colourCost = (f: Fit) => {
       let cost = 0;
@@ -852,16 +904,18 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
           if (j > 0) best = Math.min(best, deltaE2000(lab, lerpLab(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5)));
         }
         cost += Math.min(best, 50);
-        if (process.env.DIPWELL_DEBUG) console.error("  pad", p.analyte, best.toFixed(1), JSON.stringify(lab));
       });
       return cost / chart.pads.length;
     };
-    const costs = rivals.map(colourCost);
-    if (process.env.DIPWELL_DEBUG) console.error("placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
-    const order = costs.map((c, i) => i).sort((a, b) => costs[a] - costs[b]);
-    const [i0, i1] = order;
-    if (costs[i1] - costs[i0] > 3) bestFit = rivals[i0];
-    else if (rivals[i0].dir !== rivals[i1].dir) warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+    if (rivals.length >= 2) {
+      const costs = rivals.map(colourCost);
+      if (process.env.DIPWELL_DEBUG) console.error("placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
+      const order = costs.map((c, i) => i).sort((a, b) => costs[a] - costs[b]);
+      const [i0, i1] = order;
+      if (costs[i1] - costs[i0] > 3) bestFit = rivals[i0];
+      else if (rivals[i0].dir !== rivals[i1].dir) warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+      chosenCost = costs[rivals.indexOf(bestFit)] ?? colourCost(bestFit);
+    } else chosenCost = colourCost(bestFit);
   }
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
   const s = bestFit.sc * bestFit.k;
@@ -898,7 +952,9 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     pads,
     bare: bareIv,
     fitScore: bestFit.score,
-    rank: bestFit.score * (lengthOk ? 1 : 0.6),
+    rank: bestFit.score * (lengthOk ? 1 : 0.6) * colourTrust(chosenCost),
+    colourCost: chosenCost,
+    axisSpan: axis.length,
     lengthOk,
     // Searched for anywhere along the axis, the best of many placements must stand out further.
     convincing: free ? bestFit.score >= Math.max(10, 2 * bestFit.gs) : bestFit.score >= Math.max(4, bestFit.gs),
