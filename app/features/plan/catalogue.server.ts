@@ -97,10 +97,10 @@ export function parseProductEdit(form: FormData): { ok: true; values: Omit<typeo
   if (!base) return { ok: false, fields: {}, form: "That product is not in the catalogue." };
   const fields: FieldErrors = {};
   if (v.strengthPercent <= 0)
-    fields.strengthPercent = "Strength cannot be zero or negative: give the percentage of active ingredient printed on the label (for example 56 for 56 %).";
+    fields.strengthPercent = "Strength cannot be zero or negative: give the percentage of active ingredient (for example 93 for 93 %).";
   else if (v.strengthPercent > 100) fields.strengthPercent = `A strength of ${v.strengthPercent} % is impossible: it must be 100 % or less.`;
   else if (v.strengthPercent < 1)
-    fields.strengthPercent = `A strength of ${v.strengthPercent} % is too weak to dose with; check the label (give the percentage, for example 56, not 0.56).`;
+    fields.strengthPercent = `A strength of ${v.strengthPercent} % is too weak to dose with; check the label (give the percentage, for example 93, not 0.93).`;
   const density = v.densityGPerMl ?? (v.form === "liquid" ? (base.densityGPerMl ?? 1) : undefined);
   if (v.form === "liquid" && density !== undefined && !(density >= 0.5 && density <= 2.5))
     fields.densityGPerMl = "The density of a liquid must be between 0.5 and 2.5 g/mL (water is 1.0).";
