@@ -2,6 +2,7 @@
 // the server's own checks (type, size, decoding, content hash), the reader's run, the stored
 // reading and pads, the owner's confirmation, and the bad inputs (wrong type, too large, a missing
 // upload, a photo of something else, the same photo twice).
+import sharp from "sharp";
 import { readFileSync } from "node:fs";
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -105,6 +106,11 @@ describe("a strip photo goes up and is read", () => {
     const photoRoute = await importRoute("routes/tubs/photo.ts");
     const streamed = await callRoute(photoRoute.loader!, { url: "/x", params: { tubId, photoId: out.photoId }, user: owner });
     expect(Buffer.from(await streamed.response!.arrayBuffer()).equals(strip.jpeg)).toBe(true);
+    // Lists get a small WebP thumbnail, made once and kept in storage beside the photo.
+    const thumb = await callRoute(photoRoute.loader!, { url: "/x?size=thumb", params: { tubId, photoId: out.photoId }, user: owner });
+    expect(thumb.response?.headers.get("content-type")).toBe("image/webp");
+    const meta = await sharp(Buffer.from(await thumb.response!.arrayBuffer())).metadata();
+    expect([meta.width, meta.height]).toEqual([160, 160]);
   });
 
   it("the same photo sent twice gives back the same reading, not a second one", async () => {

@@ -364,6 +364,24 @@ export async function photoForTub(t: Tub, photoId: string) {
   return (await db.query.photo.findFirst({ where: and(eq(photo.id, photoId), eq(photo.tubId, t.id)) })) ?? null;
 }
 
+/**
+ * A small WebP of a photo for lists (history), made the first time it is asked for and kept
+ * in storage beside the photo, so a phone never downloads a 12-megapixel photo for a thumbnail.
+ * Returns null when the photo cannot be decoded (the caller then serves the photo itself).
+ */
+export async function thumbnailKey(p: { s3Key: string }) {
+  const key = `${p.s3Key}.thumb.webp`;
+  if (await headObject(key)) return key;
+  try {
+    const bytes = await getObjectBytes(p.s3Key);
+    const thumb = await sharp(bytes, { limitInputPixels: 50_000_000 }).rotate().resize(160, 160, { fit: "cover" }).webp({ quality: 70 }).toBuffer();
+    await putObject(key, thumb, "image/webp");
+    return key;
+  } catch {
+    return null;
+  }
+}
+
 export async function cropKeyFor(t: Tub, photoId: string, analyte: string) {
   const p = await photoForTub(t, photoId);
   if (!p) return null;

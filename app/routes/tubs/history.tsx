@@ -67,7 +67,7 @@ export default function History({ loaderData }: Route.ComponentProps) {
                 <tr key={r.id}>
                   <td className="p-3">
                     {r.photoId ? (
-                      <img src={`${base}/photos/${r.photoId}`} alt="Strip photo" loading="lazy" className="h-12 w-12 rounded-md border border-line object-cover" />
+                      <img src={`${base}/photos/${r.photoId}?size=thumb`} alt="Strip photo" loading="lazy" className="h-12 w-12 rounded-md border border-line object-cover" />
                     ) : (
                       <span className="text-ink-soft">—</span>
                     )}

@@ -1,6 +1,7 @@
-// GET /tubs/:tubId/photos/:photoId: the strip photo, streamed from storage to those who may see the tub.
+// GET /tubs/:tubId/photos/:photoId: the strip photo, streamed from storage to those who may see the tub;
+// ?size=thumb gives a small WebP for lists.
 import { streamObject } from "~/features/readings/api.server";
-import { photoForTub } from "~/features/readings/readings.server";
+import { photoForTub, thumbnailKey } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import type { Route } from "./+types/photo";
@@ -10,5 +11,9 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub } = await requireTub(user, params.tubId, "view");
   const p = await photoForTub(tub, params.photoId);
   if (!p) return new Response("We could not find that photo.", { status: 404 });
+  if (new URL(request.url).searchParams.get("size") === "thumb") {
+    const thumb = await thumbnailKey(p);
+    if (thumb) return streamObject(thumb, "image/webp");
+  }
   return streamObject(p.s3Key, p.contentType);
 }
