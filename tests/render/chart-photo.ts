@@ -20,6 +20,7 @@ import {
   type LightField,
 } from "./camera";
 import { hexToLinear, type Rgb } from "./colour";
+import { clamp01, dropShadow, rectCoverage, to16 } from "./pixels";
 import { makeRng, pixelHash } from "./prng";
 import { makeSurface, SURFACES, type SurfaceName } from "./surfaces";
 import type { Point, Quad, RenderChart } from "./types";
@@ -92,6 +93,8 @@ const FILL = 0.75;
 const MARGIN_MM = 8;
 const WHITE_GAP_MM = 6;
 const WHITE_MM = 24;
+/** The card's soft drop shadow on the surface (mm). */
+const CARD_SHADOW = { reach: 4, depth: 0.3, softness: 1.2 };
 
 export async function renderChartPhoto(chart: RenderChart, options: ChartPhotoOptions = {}): Promise<ChartPhoto> {
   const seed = options.seed ?? 1;
@@ -172,16 +175,12 @@ export async function renderChartPhoto(chart: RenderChart, options: ChartPhotoOp
       let r = alb[0]!;
       let g = alb[1]!;
       let b = alb[2]!;
-      const sd = Math.max(Math.abs(X) - halfW, Math.abs(Y) - halfH);
-      const cov = clamp01(0.5 - sd * pxPerMm);
+      const cov = rectCoverage(X, Y, halfW, halfH, pxPerMm);
       if (cov < 1) {
-        const so = Math.max(Math.abs(X - dox) - halfW, Math.abs(Y - doy) - halfH);
-        if (so < 4) {
-          const k = 1 - 0.3 * Math.exp(-Math.max(0, so) / 1.2);
-          r *= k;
-          g *= k;
-          b *= k;
-        }
+        const k = dropShadow(X, Y, dox, doy, halfW, halfH, CARD_SHADOW);
+        r *= k;
+        g *= k;
+        b *= k;
       }
       if (cov > 0) {
         const tex = 1 + 0.01 * (pixelHash(x, y, texSeed) - 0.5);
@@ -258,10 +257,4 @@ export async function renderChartPhoto(chart: RenderChart, options: ChartPhotoOp
   };
 }
 
-function clamp01(v: number): number {
-  return v < 0 ? 0 : v > 1 ? 1 : v;
-}
 
-function to16(v: number): number {
-  return v <= 0 ? 0 : v >= 1 ? 65535 : Math.round(v * 65535);
-}

@@ -4,6 +4,7 @@
  * reading engine's own code.
  */
 import { converter, formatHex } from "culori";
+import { clamp01 } from "./pixels";
 import type { RenderPad } from "./types";
 
 export type Rgb = [number, number, number];
@@ -103,6 +104,3 @@ export function padHexAt(pad: RenderPad, index: number, mix: PadMix = "lab"): st
   return formatHex({ mode: "lrgb", r, g, b }) ?? linearToHex([r, g, b]);
 }
 
-function clamp01(v: number): number {
-  return v < 0 ? 0 : v > 1 ? 1 : v;
-}

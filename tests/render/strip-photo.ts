@@ -20,6 +20,7 @@ import {
   type LightField,
 } from "./camera";
 import { hexToLinear, indexToValue, padColourAt, valueToIndex, type PadMix, type Rgb } from "./colour";
+import { clamp01, dropShadow, rectCoverage, to16 } from "./pixels";
 import { fbm, makeRng, pixelHash } from "./prng";
 import { makeSurface, SURFACES, type SurfaceName } from "./surfaces";
 import type { Point, RenderChart } from "./types";
@@ -76,6 +77,9 @@ export type StripPhotoOptions = {
   /** Faint mottling of the wet pads (default true). */
   padTexture?: boolean;
 };
+
+/** The strip's soft drop shadow on the surface (mm). */
+const STRIP_SHADOW = { reach: 3, depth: 0.32, softness: 0.7 };
 
 export type StripTruth = { analyte: string; value: number; index: number };
 
@@ -264,16 +268,12 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
       let gr = alb[1]!;
       let b = alb[2]!;
       if (!noStrip) {
-        const sd = Math.max(Math.abs(X) - halfL, Math.abs(Y) - halfW);
-        const cov = clamp01(0.5 - sd * ppm);
+        const cov = rectCoverage(X, Y, halfL, halfW, ppm);
         if (cov < 1) {
-          const so = Math.max(Math.abs(X - dox) - halfL, Math.abs(Y - doy) - halfW);
-          if (so < 3) {
-            const k = 1 - 0.32 * Math.exp(-Math.max(0, so) / 0.7);
-            r *= k;
-            gr *= k;
-            b *= k;
-          }
+          const k = dropShadow(X, Y, dox, doy, halfL, halfW, STRIP_SHADOW);
+          r *= k;
+          gr *= k;
+          b *= k;
         }
         if (cov > 0) {
           const tex = 1 + 0.012 * (pixelHash(x, y, texSeed) - 0.5);
@@ -371,14 +371,8 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
   return { jpeg, truth, conditions };
 }
 
-function clamp01(v: number): number {
-  return v < 0 ? 0 : v > 1 ? 1 : v;
-}
 
 function smooth(t: number): number {
   return t * t * (3 - 2 * t);
 }
 
-function to16(v: number): number {
-  return v <= 0 ? 0 : v >= 1 ? 65535 : Math.round(v * 65535);
-}
