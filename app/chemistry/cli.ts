@@ -4,14 +4,8 @@
 import { readFileSync } from "node:fs";
 import { ProductError } from "./doses";
 import { planTreatment } from "./plan";
-import { validateWaterInput, WaterInputError } from "./validate";
+import { hasNonFinite, validateWaterInput, WaterInputError } from "./validate";
 
-function hasNonFinite(x: unknown): boolean {
-  if (typeof x === "number") return !Number.isFinite(x);
-  if (Array.isArray(x)) return x.some(hasNonFinite);
-  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
-  return false;
-}
 
 function main(argv: string[]): number {
   const arg = argv[0];

@@ -6,7 +6,7 @@ export { planTreatment, AUTHORITY_NOTE, type PlanOptions } from "./plan";
 export { langelier, BALANCED_BAND, type LangelierInput, type LangelierResult } from "./lsi";
 export { DEFAULT_TARGETS, resolveTargets } from "./targets";
 export { DEFAULT_PRODUCTS, cautionsFor, generalCautions } from "./products";
-export { validateWaterInput, WaterInputError } from "./validate";
+export { hasNonFinite, validateWaterInput, WaterInputError } from "./validate";
 export { estimateVolumeLitres, litresFromUsGallons, usGallonsFromLitres, drainIntervalDays, type Shape, type InsideDimsCm } from "./volume";
 export { firstFillRoutine, routineTopUp, foamTreatment, type RoutineStep } from "./routines";
 export { carbonateConstants, calciteSaturationIndex } from "./carbonate";

@@ -233,3 +233,11 @@ export function validateWaterInput(json: unknown): WaterInput {
     products: d.products?.map((p) => ({ cautions: [], packageSize: { amount: 1, unit: "kg" as const }, ...p })) as WaterInput["products"],
   };
 }
+
+/** True when any number in a plan (or any value) is NaN or ±Infinity: such a plan is never shown. */
+export function hasNonFinite(x: unknown): boolean {
+  if (typeof x === "number") return !Number.isFinite(x);
+  if (Array.isArray(x)) return x.some(hasNonFinite);
+  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
+  return false;
+}

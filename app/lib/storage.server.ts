@@ -48,3 +48,16 @@ export async function getObjectBytes(key: string): Promise<Buffer> {
 export async function putObject(key: string, body: Buffer, contentType: string) {
   await s3().send(new PutObjectCommand({ Bucket: bucket(), Key: key, Body: body, ContentType: contentType, ContentLength: body.length }));
 }
+
+/** Streams an object from storage to the browser (private, cached briefly); 404 when it is not there. */
+export async function streamObject(key: string, contentType: string) {
+  try {
+    const out = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
+    const body = out.Body!.transformToWebStream();
+    const headers = new Headers({ "content-type": out.ContentType ?? contentType, "cache-control": "private, max-age=3600" });
+    if (out.ContentLength) headers.set("content-length", String(out.ContentLength));
+    return new Response(body as ReadableStream, { headers });
+  } catch {
+    return new Response("The photo is not in storage.", { status: 404 });
+  }
+}

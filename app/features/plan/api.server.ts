@@ -1,21 +1,19 @@
-// JSON answers for the plan API: who is asking, and errors as JSON with the right status.
+// JSON answers for the plan API: errors as { error } with no caching.
 import type { RouterContextProvider } from "react-router";
-import { optionalUser } from "~/lib/session.server";
+import { apiTub as tubFor, apiUser as userFor } from "~/lib/api.server";
+import type { TubNeed } from "~/lib/tubs.server";
+
+const NO_STORE = { "cache-control": "no-store" };
+const asError = (error: string) => ({ error });
 
 export function json(body: unknown, status = 200) {
-  return Response.json(body, { status, headers: { "cache-control": "no-store" } });
+  return Response.json(body, { status, headers: NO_STORE });
 }
 
 export function apiUser(context: Readonly<RouterContextProvider>) {
-  const user = optionalUser(context);
-  if (!user) throw json({ error: "Sign in to use the water-plan API." }, 401);
-  return user;
+  return userFor(context, { message: "Sign in to use the water-plan API.", body: asError, headers: NO_STORE });
 }
 
-/** A thrown data(…, { status }) from requireTub becomes a JSON response. */
-export function asJsonError(thrown: unknown): Response {
-  if (thrown instanceof Response) return thrown;
-  const t = thrown as { type?: string; data?: { message?: string }; init?: ResponseInit | null };
-  if (t && t.type === "DataWithResponseInit") return json({ error: t.data?.message ?? "Not allowed." }, t.init?.status ?? 500);
-  throw thrown;
+export function apiTub(context: Readonly<RouterContextProvider>, tubId: string | undefined, need: TubNeed) {
+  return tubFor(context, tubId, need, { body: asError, headers: NO_STORE });
 }

@@ -1,6 +1,6 @@
 // POST /api/tubs/:tubId/photos  { key } → registers the uploaded photo, reads it, { readingId, duplicate }.
 import { z } from "zod";
-import { apiTub } from "~/features/readings/api.server";
+import { apiTub } from "~/lib/api.server";
 import { PhotoError, registerPhoto } from "~/features/readings/readings.server";
 import type { Route } from "./+types/tubs.photos";
 

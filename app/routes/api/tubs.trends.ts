@@ -1,5 +1,5 @@
 // GET /api/tubs/:tubId/trends → every parameter over time, target bands, treatments.
-import { apiTub } from "~/features/readings/api.server";
+import { apiTub } from "~/lib/api.server";
 import { trends } from "~/features/readings/readings.server";
 import type { Route } from "./+types/tubs.trends";
 

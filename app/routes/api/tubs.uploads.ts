@@ -1,6 +1,6 @@
 // POST /api/tubs/:tubId/uploads  { contentType, size } → { key, url } for a presigned PUT.
 import { z } from "zod";
-import { apiTub } from "~/features/readings/api.server";
+import { apiTub } from "~/lib/api.server";
 import { PhotoError, presignPhotoUpload } from "~/features/readings/readings.server";
 import type { Route } from "./+types/tubs.uploads";
 

@@ -1,14 +1,8 @@
 // POST /api/water-plan: the water-chemistry engine for signed-in users, input as in water-plan.md.
-import { ProductError, WaterInputError, planTreatment, validateWaterInput } from "~/chemistry";
+import { ProductError, WaterInputError, hasNonFinite, planTreatment, validateWaterInput } from "~/chemistry";
 import { apiUser, json } from "~/features/plan/api.server";
 import type { Route } from "./+types/api-water-plan";
 
-function hasNonFinite(x: unknown): boolean {
-  if (typeof x === "number") return !Number.isFinite(x);
-  if (Array.isArray(x)) return x.some(hasNonFinite);
-  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
-  return false;
-}
 
 export function loader({ context }: Route.LoaderArgs) {
   apiUser(context);

@@ -1,5 +1,5 @@
 // GET /tubs/:tubId/photos/:photoId/crop/:analyte: one pad's crop as the reader saw it.
-import { streamObject } from "~/features/readings/api.server";
+import { streamObject } from "~/lib/storage.server";
 import { cropKeyFor } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";

@@ -1,6 +1,6 @@
 // GET /tubs/:tubId/photos/:photoId: the strip photo, streamed from storage to those who may see the tub;
 // ?size=thumb gives a small WebP for lists.
-import { streamObject } from "~/features/readings/api.server";
+import { streamObject } from "~/lib/storage.server";
 import { photoForTub, thumbnailKey } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
