@@ -1,9 +1,8 @@
 // Outgoing e-mail over SMTP with nodemailer: any provider in production
-// (SMTP_URL), the local mail catcher when developing and testing.
+// (SMTP_URL), the local mail catcher when developing and testing. Messages are
+// sent by the outbox (app/features/notify/outbox.server.ts), never directly.
 import nodemailer, { type Transporter } from "nodemailer";
 import { env } from "./env.server";
-
-export type Mail = { to: string; subject: string; text: string; html: string; headers?: Record<string, string> };
 
 /** A nodemailer transport for an smtp:// or smtps:// URL (SMTP_URL by default). */
 export function smtpTransport(smtpUrl = env().SMTP_URL): Transporter {
@@ -24,9 +23,4 @@ let transport: Transporter | undefined;
 /** The process's shared transport to SMTP_URL. */
 export function defaultTransport(): Transporter {
   return (transport ??= smtpTransport());
-}
-
-export async function sendMail(mail: Mail) {
-  const info = await defaultTransport().sendMail({ from: env().MAIL_FROM, ...mail });
-  return { messageId: info.messageId as string };
 }
