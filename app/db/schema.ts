@@ -293,6 +293,7 @@ export const reading = pgTable(
     status: readingStatusEnum("status").notNull(),
     /** why the photo could not be read, in the words shown to the owner */
     error: text("error"),
+    /** true when any pad is unsure (a trigger on reading_pad keeps it so; see drizzle/0001) */
     needsReview: boolean("needs_review").notNull().default(false),
     reviewedBy: text("reviewed_by").references(() => user.id, { onDelete: "set null" }),
     reviewedAt: timestamp("reviewed_at", { withTimezone: true }),
@@ -306,6 +307,12 @@ export const reading = pgTable(
   (t) => [
     index("reading_tub_taken_idx").on(t.tubId, t.takenAt),
     uniqueIndex("reading_photo_idx").on(t.photoId),
+    // A tub's current water: its latest sure reading (read without doubts, confirmed, by hand, or reviewed).
+    index("reading_current_idx")
+      .on(t.tubId, t.takenAt)
+      .where(sql`status in ('read', 'confirmed', 'manual') and (not needs_review or reviewed_at is not null)`),
+    // Readings waiting for a technician: unsure and not yet reviewed (the review queue, the dashboard's counts).
+    index("reading_waiting_idx").on(t.tubId, t.takenAt).where(sql`reviewed_at is null and needs_review`),
   ],
 );
 
@@ -456,5 +463,10 @@ export const emailLog = pgTable(
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
-  (t) => [index("email_log_status_idx").on(t.status)],
+  (t) => [
+    index("email_log_status_idx").on(t.status),
+    // the admin's log, newest first, whole or by status
+    index("email_log_updated_idx").on(t.updatedAt),
+    index("email_log_status_updated_idx").on(t.status, t.updatedAt),
+  ],
 );

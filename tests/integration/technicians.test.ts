@@ -184,7 +184,7 @@ describe("clients", () => {
     const detail = await importRoute("routes/tubs/detail.tsx");
     expect((await callRoute(detail.loader!, { url: `/tubs/${t.id}`, params: { tubId: t.id }, user: tech })).status).toBe(200);
     const board = await dashboard({ id: tech.id, role: "technician" } as never);
-    expect(board.map((b) => b.id)).toContain(t.id);
+    expect(board.rows.map((b) => b.id)).toContain(t.id);
 
     const access = (await db.query.tubAccess.findFirst({ where: eq(s.tubAccess.tubId, t.id) }))!;
     expect((await callRoute(sharing.action!, { url: `/tubs/${t.id}/sharing`, params: { tubId: t.id }, user: owner, form: { intent: "revoke", id: "x" } })).status).toBe(404);
@@ -200,7 +200,7 @@ describe("clients", () => {
     const [pad] = await db.insert(s.readingPad).values({ readingId: r.id, analyte: "free_chlorine", unit: "mg/L", readValue: 1, needsReview: true, reviewReason: "Please check Free chlorine" }).returning();
     const review = await importRoute("routes/technician/review.tsx");
     const q = await callRoute(review.loader!, { url: "/clients/review", user: tech });
-    expect((q.data as { readings: { id: string }[] }).readings.map((x) => x.id)).toContain(r.id);
+    expect((q.data as { items: { id: string }[] }).items.map((x) => x.id)).toContain(r.id);
     const done = await callRoute(review.action!, { url: "/clients/review", user: tech, form: { readingId: r.id, [`pad_${pad.id}`]: "3" } });
     expect(done.status).toBe(302);
     const after = (await db.query.reading.findFirst({ where: eq(s.reading.id, r.id) }))!;
@@ -208,7 +208,7 @@ describe("clients", () => {
     expect((await db.query.readingPad.findFirst({ where: eq(s.readingPad.id, pad.id) }))!.confirmedValue).toBe(3);
     expect((await callRoute(review.action!, { url: "/clients/review", user: tech, form: { readingId: "not-an-id" } })).status).toBe(404);
     const q2 = await callRoute(review.loader!, { url: "/clients/review", user: tech });
-    expect((q2.data as { readings: { id: string }[] }).readings.map((x) => x.id)).not.toContain(r.id);
+    expect((q2.data as { items: { id: string }[] }).items.map((x) => x.id)).not.toContain(r.id);
   });
 });
 

@@ -9,15 +9,15 @@ export type TrendData = {
   treatments: { t: number; label: string; parameter: string | null }[];
 };
 
-export async function fetchTrends(tubId: string): Promise<TrendData> {
-  const res = await fetch(`/api/tubs/${tubId}/trends`, { headers: { accept: "application/json" } });
+export async function fetchTrends(tubId: string, days?: number): Promise<TrendData> {
+  const res = await fetch(`/api/tubs/${tubId}/trends${days ? `?days=${days}` : ""}`, { headers: { accept: "application/json" } });
   if (res.status === 401) throw new Error("You are signed out. Sign in again to see the trends.");
   if (!res.ok) throw new Error("The trends could not be loaded. Check your connection and reload the page.");
   return (await res.json()) as TrendData;
 }
 
-export function TrendCharts({ tubId, timeZone }: { tubId: string; timeZone: string }) {
-  const q = useQuery({ queryKey: ["trends", tubId], queryFn: () => fetchTrends(tubId) });
+export function TrendCharts({ tubId, timeZone, days }: { tubId: string; timeZone: string; days?: number }) {
+  const q = useQuery({ queryKey: ["trends", tubId, days ?? null], queryFn: () => fetchTrends(tubId, days) });
   if (q.isPending) {
     return (
       <div className="space-y-4" aria-busy="true" data-testid="trends-loading">

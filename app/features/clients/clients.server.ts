@@ -3,15 +3,17 @@
 import { randomBytes } from "node:crypto";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { resolveTargets, type Parameter, type Range } from "~/chemistry";
-import { invitation, reading, readingPad, treatment, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
+import { chartVersion, invitation, reading, readingPad, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { invitationEmail } from "~/features/notify/messages.server";
+import { invitationEmail, reviewedEmail } from "~/features/notify/messages.server";
 import { enqueueEmail } from "~/features/notify/outbox.server";
 import { ensurePreferences } from "~/features/notify/preferences.server";
 import { hasRole } from "~/lib/permissions";
+import { likePattern, pageOf, stopIfAborted } from "~/lib/paging";
 import type { Tub } from "~/lib/tubs.server";
+import { parseChart } from "~/reading/chart";
 import { analyteLabel } from "./labels";
 
 export class ClientInputError extends Error {
@@ -100,105 +102,246 @@ export async function acceptInvitation(user: SessionUser, token: string | undefi
 
 // ---------------------------------------------------------------- dashboard
 
-/** Tubs the technician looks after for clients (for an admin: every tub). */
-export async function clientTubs(user: SessionUser) {
-  if (hasRole(user, "admin")) return db.select().from(tub).where(isNull(tub.archivedAt)).orderBy(tub.name);
-  const shared = await db.select({ tubId: tubAccess.tubId }).from(tubAccess).where(and(eq(tubAccess.technicianId, user.id), isNull(tubAccess.revokedAt)));
-  if (!shared.length) return [];
-  return db.select().from(tub).where(and(inArray(tub.id, shared.map((s) => s.tubId)), isNull(tub.archivedAt))).orderBy(tub.name);
+/**
+ * SQL that limits a query to the tubs a technician looks after for clients (an admin: every tub).
+ * `$1` is the technician's id, or null for an admin. `alias` is the tub table's alias.
+ */
+const clientTubFilter = (alias: string) =>
+  `${alias}.archived_at is null and ($1::text is null or exists (select 1 from tub_access a where a.tub_id = ${alias}.id and a.technician_id = $1 and a.revoked_at is null))`;
+
+const technicianParam = (user: SessionUser) => (hasRole(user, "admin") ? null : user.id);
+
+/** Whether the user may review readings of this tub: an admin, or a technician with active access. */
+async function looksAfter(user: SessionUser, tubId: string) {
+  const r = await db.$client.query(`select 1 from tub t where t.id = $2 and ${clientTubFilter("t")}`, [technicianParam(user), tubId]);
+  return (r.rowCount ?? 0) > 0;
 }
 
 const label = analyteLabel;
 
-export async function dashboard(user: SessionUser, now = new Date()) {
-  const tubs = await clientTubs(user);
-  if (!tubs.length) return [];
-  const ids = tubs.map((t) => t.id);
-  const readings = await db.select().from(reading).where(inArray(reading.tubId, ids)).orderBy(desc(reading.takenAt));
-  const latestByTub = new Map<string, typeof reading.$inferSelect>();
-  for (const r of readings) if (!latestByTub.has(r.tubId) && r.status !== "failed") latestByTub.set(r.tubId, r);
-  const latestIds = [...latestByTub.values()].map((r) => r.id);
-  const unreviewed = readings.filter((r) => !r.reviewedAt);
-  const pads = latestIds.length || unreviewed.length
-    ? await db.select().from(readingPad).where(inArray(readingPad.readingId, [...new Set([...latestIds, ...unreviewed.map((r) => r.id)])]))
-    : [];
-  const treatments = await db.select().from(treatment).where(inArray(treatment.tubId, ids)).orderBy(desc(treatment.addedAt));
-  const owners = await db.select({ id: userTable.id, name: userTable.name }).from(userTable).where(inArray(userTable.id, [...new Set(tubs.map((t) => t.ownerId))]));
-  const rows = tubs.map((t) => {
-    const latest = latestByTub.get(t.id);
-    let targets: Partial<Record<string, Range>> = {};
-    try {
-      targets = resolveTargets(t.sanitiser, (t.targets ?? {}) as Partial<Record<Parameter, Partial<Range>>>) as unknown as Record<string, Range>;
-    } catch {
-      targets = resolveTargets(t.sanitiser) as unknown as Record<string, Range>;
-    }
-    const outOfRange = latest
-      ? pads
-          .filter((p) => p.readingId === latest.id)
-          .flatMap((p) => {
-            const v = p.confirmedValue ?? p.readValue;
-            const r = targets[p.analyte];
-            if (v === null || !r || (r.min === 0 && r.max === 0)) return [];
-            if (v < r.min) return [`${label(p.analyte)} low (${v}${p.unit ? ` ${p.unit}` : ""}; aim ${r.min}–${r.max})`];
-            if (v > r.max) return [`${label(p.analyte)} high (${v}${p.unit ? ` ${p.unit}` : ""}; aim ${r.min}–${r.max})`];
-            return [];
-          })
-      : [];
-    const dueAt = latest ? new Date(latest.takenAt.getTime() + t.testEveryDays * 86_400_000) : null;
-    const waiting = unreviewed.filter((r) => r.tubId === t.id && (r.needsReview || pads.some((p) => p.readingId === r.id && p.needsReview))).length;
-    const lastTreatment = treatments.find((x) => x.tubId === t.id);
+export const DASHBOARD_PAGE_SIZE = 24;
+export const DASHBOARD_VIEWS = ["attention", "all"] as const;
+export type DashboardView = (typeof DASHBOARD_VIEWS)[number];
+
+type DashboardSqlRow = {
+  id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; everyDays: number; ownerName: string;
+  latestAt: Date | null; pads: { a: string; u: string | null; v: number | null }[] | null;
+  waiting: number; waitingNewest: Date | null;
+  trName: string | null; trAmount: number | null; trUnit: string | null; trAt: Date | null;
+};
+
+/**
+ * One row per client tub, computed in PostgreSQL: the current water (the latest reading that is
+ * sure: read without doubts, confirmed, entered by hand, or reviewed), the readings waiting for
+ * review (count and newest), the last treatment. Each lookup is an index probe per tub
+ * (reading_current_idx, reading_waiting_idx, treatment_tub_added_idx), so the cost grows with
+ * the number of tubs, not with their history.
+ */
+async function dashboardRows(user: SessionUser, q: string) {
+  const r = await db.$client.query<DashboardSqlRow>(
+    `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName",
+            cur.taken_at as "latestAt", cur.pads, w.n as waiting, w.newest as "waitingNewest",
+            tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
+       from tub t
+       join "user" o on o.id = t.owner_id
+       left join lateral (
+         select r.taken_at,
+                (select json_agg(json_build_object('a', p.analyte, 'u', p.unit, 'v', coalesce(p.confirmed_value, p.read_value)) order by p.analyte)
+                   from reading_pad p where p.reading_id = r.id) as pads
+           from reading r
+          where r.tub_id = t.id and r.status in ('read', 'confirmed', 'manual') and (not r.needs_review or r.reviewed_at is not null)
+          order by r.taken_at desc limit 1
+       ) cur on true
+       left join lateral (
+         select count(*)::int as n, max(r.taken_at) as newest
+           from reading r where r.tub_id = t.id and r.reviewed_at is null and r.needs_review
+       ) w on true
+       left join lateral (
+         select x.product_name, x.amount, x.unit, x.added_at from treatment x where x.tub_id = t.id order by x.added_at desc limit 1
+       ) tr on true
+      where ${clientTubFilter("t")}
+        and ($2::text is null or t.name ilike $2 or o.name ilike $2)`,
+    [technicianParam(user), q ? likePattern(q) : null],
+  );
+  return r.rows;
+}
+
+function targetsOf(sanitiser: "chlorine" | "bromine", overrides: unknown): Partial<Record<string, Range>> {
+  try {
+    return resolveTargets(sanitiser, (overrides ?? {}) as Partial<Record<Parameter, Partial<Range>>>) as unknown as Record<string, Range>;
+  } catch {
+    return resolveTargets(sanitiser) as unknown as Record<string, Range>;
+  }
+}
+
+/**
+ * The technicians' dashboard: every client tub's state, those needing attention first
+ * (readings to review, water out of range, test overdue), one page at a time, with totals.
+ * `q` searches tub and owner names.
+ */
+export async function dashboard(
+  user: SessionUser,
+  opts: { page?: number; q?: string; view?: DashboardView; signal?: AbortSignal } = {},
+  now = new Date(),
+) {
+  const found = await dashboardRows(user, opts.q ?? "");
+  stopIfAborted(opts.signal);
+  const all = found.map((t) => {
+    const targets = targetsOf(t.sanitiser, t.targets);
+    const outOfRange = (t.pads ?? []).flatMap((p) => {
+      const r = targets[p.a];
+      if (p.v === null || !r || (r.min === 0 && r.max === 0)) return [];
+      const unit = p.u ? ` ${p.u}` : "";
+      if (p.v < r.min) return [`${label(p.a)} low (${p.v}${unit}; aim ${r.min}–${r.max})`];
+      if (p.v > r.max) return [`${label(p.a)} high (${p.v}${unit}; aim ${r.min}–${r.max})`];
+      return [];
+    });
+    const dueAt = t.latestAt ? new Date(t.latestAt.getTime() + t.everyDays * 86_400_000) : null;
     return {
       id: t.id,
       name: t.name,
-      ownerName: owners.find((o) => o.id === t.ownerId)?.name ?? "",
-      latestAt: latest?.takenAt.toISOString() ?? null,
+      ownerName: t.ownerName,
+      latestAt: t.latestAt?.toISOString() ?? null,
       outOfRange,
       overdue: !dueAt || dueAt < now,
       dueAt: dueAt?.toISOString() ?? null,
-      waiting,
-      lastTreatment: lastTreatment ? { name: lastTreatment.productName, amount: lastTreatment.amount, unit: lastTreatment.unit, at: lastTreatment.addedAt.toISOString() } : null,
+      waiting: t.waiting,
+      /** a reading newer than the current water that is unsure and not yet reviewed */
+      unsureNewerAt: t.waitingNewest && (!t.latestAt || t.waitingNewest > t.latestAt) ? t.waitingNewest.toISOString() : null,
+      lastTreatment: t.trName && t.trAt ? { name: t.trName, amount: t.trAmount, unit: t.trUnit, at: t.trAt.toISOString() } : null,
     };
   });
   // Tubs that need attention first: readings to review, water out of range, test overdue.
-  const score = (r: (typeof rows)[number]) => (r.waiting ? 4 : 0) + (r.outOfRange.length ? 2 : 0) + (r.overdue ? 1 : 0);
-  return rows.sort((a, b) => score(b) - score(a) || a.name.localeCompare(b.name));
+  const score = (r: (typeof all)[number]) => (r.waiting ? 4 : 0) + (r.outOfRange.length ? 2 : 0) + (r.overdue ? 1 : 0);
+  const scored = all.map((r) => ({ r, s: score(r) }));
+  scored.sort((a, b) => b.s - a.s || a.r.name.localeCompare(b.r.name) || a.r.id.localeCompare(b.r.id));
+  const view = opts.view ?? "all";
+  const listed = view === "attention" ? scored.filter((x) => x.s > 0) : scored;
+  const page = pageOf(listed.length, DASHBOARD_PAGE_SIZE, opts.page ?? 1);
+  return {
+    rows: listed.slice(page.offset, page.offset + page.size).map((x) => x.r),
+    page,
+    totals: {
+      tubs: all.length,
+      attention: scored.filter((x) => x.s > 0).length,
+      waiting: all.reduce((n, r) => n + r.waiting, 0),
+      outOfRange: all.filter((r) => r.outOfRange.length).length,
+      overdue: all.filter((r) => r.overdue).length,
+    },
+  };
 }
 
 // ---------------------------------------------------------------- review
 
-export async function reviewQueue(user: SessionUser) {
-  const tubs = await clientTubs(user);
-  if (!tubs.length) return [];
-  const ids = tubs.map((t) => t.id);
-  const candidates = await db.select().from(reading).where(and(inArray(reading.tubId, ids), isNull(reading.reviewedAt))).orderBy(desc(reading.takenAt)).limit(200);
-  if (!candidates.length) return [];
-  const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, candidates.map((r) => r.id)));
-  return candidates
-    .filter((r) => r.needsReview || pads.some((p) => p.readingId === r.id && p.needsReview))
-    .map((r) => ({
-      id: r.id,
-      tubId: r.tubId,
-      tubName: tubs.find((t) => t.id === r.tubId)?.name ?? "",
-      takenAt: r.takenAt.toISOString(),
-      status: r.status,
-      pads: pads
-        .filter((p) => p.readingId === r.id)
-        .map((p) => ({ id: p.id, analyte: p.analyte, unit: p.unit, readValue: p.readValue, confirmedValue: p.confirmedValue, needsReview: p.needsReview, reason: p.reviewReason, confidence: p.confidence })),
-    }));
+export const REVIEW_PAGE_SIZE = 20;
+
+type ReviewSqlRow = { id: string; tubId: string; tubName: string; ownerName: string; takenAt: Date; status: string; photoId: string | null; chartVersionId: string | null };
+
+/**
+ * Every reading waiting for a technician (unsure and not yet reviewed) in the tubs the user
+ * looks after, oldest first, one page at a time: the photo, each pad's crop and value beside
+ * the chart's swatches for that pad.
+ */
+export async function reviewQueue(user: SessionUser, opts: { page?: number; signal?: AbortSignal } = {}) {
+  const params = [technicianParam(user)];
+  const waiting = `r.reviewed_at is null and r.needs_review and ${clientTubFilter("t")}`;
+  const [{ total }] = (await db.$client.query<{ total: number }>(`select count(*)::int as total from reading r join tub t on t.id = r.tub_id where ${waiting}`, params)).rows;
+  const page = pageOf(total, REVIEW_PAGE_SIZE, opts.page ?? 1);
+  stopIfAborted(opts.signal);
+  if (total === 0) return { items: [], page };
+  const rows = (
+    await db.$client.query<ReviewSqlRow>(
+      `select r.id, r.tub_id as "tubId", t.name as "tubName", o.name as "ownerName", r.taken_at as "takenAt", r.status,
+              r.photo_id as "photoId", r.chart_version_id as "chartVersionId"
+         from reading r join tub t on t.id = r.tub_id join "user" o on o.id = t.owner_id
+        where ${waiting}
+        order by r.taken_at asc, r.id asc
+        limit $2 offset $3`,
+      [...params, page.size, page.offset],
+    )
+  ).rows;
+  // One page: at most REVIEW_PAGE_SIZE readings, so these lists stay small.
+  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((r) => r.id))) : [];
+  const versionIds = [...new Set(rows.map((r) => r.chartVersionId).filter((v): v is string => Boolean(v)))];
+  const versions = versionIds.length ? await db.select({ id: chartVersion.id, definition: chartVersion.definition }).from(chartVersion).where(inArray(chartVersion.id, versionIds)) : [];
+  const swatchesByVersion = new Map<string, Map<string, { label: string; swatches: { value: number; color: string }[] }>>();
+  for (const v of versions) {
+    try {
+      const chart = parseChart(v.definition);
+      swatchesByVersion.set(v.id, new Map(chart.pads.map((p) => [p.analyte, { label: p.label, swatches: p.swatches.map((s) => ({ value: s.value, color: s.color })) }])));
+    } catch {
+      // a chart that no longer parses: the values are shown without swatches
+    }
+  }
+  const padsByReading = new Map<string, (typeof pads)[number][]>();
+  for (const p of pads) padsByReading.set(p.readingId, [...(padsByReading.get(p.readingId) ?? []), p]);
+  return {
+    page,
+    items: rows.map((r) => {
+      const chartPads = r.chartVersionId ? swatchesByVersion.get(r.chartVersionId) : undefined;
+      return {
+        id: r.id,
+        tubId: r.tubId,
+        tubName: r.tubName,
+        ownerName: r.ownerName,
+        takenAt: r.takenAt.toISOString(),
+        status: r.status,
+        photoId: r.photoId,
+        pads: (padsByReading.get(r.id) ?? [])
+          .sort((a, b) => a.analyte.localeCompare(b.analyte))
+          .map((p) => ({
+            id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? label(p.analyte), unit: p.unit,
+            readValue: p.readValue, confirmedValue: p.confirmedValue, needsReview: p.needsReview, reason: p.reviewReason,
+            confidence: p.confidence, hasCrop: Boolean(p.cropKey && r.photoId), swatches: chartPads?.get(p.analyte)?.swatches ?? [],
+          })),
+      };
+    }),
+  };
 }
 
-/** Marks a reading reviewed; corrected values (pad id -> value) replace what was confirmed. */
+/**
+ * A technician's review: corrected values (pad id -> value) replace what was read; the other pads
+ * are confirmed as read. The reading counts as the tub's water from then on, and the owner is told
+ * (e-mail through the outbox, and the in-app notifications).
+ */
 export async function markReviewed(user: SessionUser, readingId: string, corrections: Record<string, number>) {
-  if (!UUID.test(readingId) || !Object.keys(corrections).every((id) => UUID.test(id))) throw new ClientInputError("We could not find that reading among your clients' tubs.", 404);
+  const notFound = () => new ClientInputError("We could not find that reading among your clients' tubs.", 404);
+  if (!UUID.test(readingId) || !Object.keys(corrections).every((id) => UUID.test(id))) throw notFound();
   const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
-  const allowed = (await clientTubs(user)).map((t) => t.id);
-  if (!r || !allowed.includes(r.tubId)) throw new ClientInputError("We could not find that reading among your clients' tubs.", 404);
+  if (!r || !(await looksAfter(user, r.tubId))) throw notFound();
+  if (r.reviewedAt) throw new ClientInputError("This reading has already been reviewed.", 409);
+  const now = new Date();
+  const changes: string[] = [];
   await db.transaction(async (tx) => {
-    for (const [padId, value] of Object.entries(corrections)) {
-      await tx.update(readingPad).set({ confirmedValue: value, source: "corrected" }).where(and(eq(readingPad.id, padId), eq(readingPad.readingId, r.id)));
+    const pads = await tx.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+    for (const p of pads) {
+      const corrected = corrections[p.id];
+      if (corrected !== undefined && corrected !== p.readValue) {
+        await tx.update(readingPad).set({ confirmedValue: corrected, source: "corrected" }).where(eq(readingPad.id, p.id));
+        changes.push(`${label(p.analyte)}: ${p.readValue ?? "no value"} → ${corrected}${p.unit ? ` ${p.unit}` : ""}`);
+      } else if (p.confirmedValue === null && p.readValue !== null) {
+        await tx.update(readingPad).set({ confirmedValue: p.readValue, source: "confirmed" }).where(eq(readingPad.id, p.id));
+      }
     }
-    await tx.update(reading).set({ reviewedBy: user.id, reviewedAt: new Date() }).where(eq(reading.id, r.id));
+    await tx
+      .update(reading)
+      .set({
+        reviewedBy: user.id, reviewedAt: now,
+        ...(r.status === "read" ? { status: "confirmed" as const, confirmedBy: user.id, confirmedAt: now } : {}),
+      })
+      .where(eq(reading.id, r.id));
   });
+  const t = await db.query.tub.findFirst({ where: eq(tub.id, r.tubId) });
+  const owner = t ? await db.query.user.findFirst({ where: eq(userTable.id, t.ownerId) }) : null;
+  if (t && owner && owner.id !== user.id) {
+    const pref = await ensurePreferences(owner.id);
+    await enqueueEmail(
+      reviewedEmail({
+        readingId: r.id, tubId: t.id, tubName: t.name, takenAt: r.takenAt, timeZone: t.timeZone, technicianName: user.name, changes,
+        recipient: { id: owner.id, name: owner.name, email: owner.email, unsubscribeToken: pref.unsubscribeToken },
+      }),
+    );
+  }
 }
 
 // ---------------------------------------------------------------- visit notes

@@ -1,17 +1,28 @@
 // Admin: users and their roles. Direct updates of better-auth's admin-plugin columns; a ban
 // also ends the user's sessions so it takes effect at once.
-import { asc, eq } from "drizzle-orm";
+import { asc, count, eq, ilike, or } from "drizzle-orm";
 import { session, user as userTable } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
+import { likePattern, pageOf } from "~/lib/paging";
 import { ROLE_NAMES, type Role } from "~/lib/permissions";
 import { ClientInputError } from "./clients.server";
 
-export async function listUsers() {
-  return db
+export const USER_PAGE_SIZE = 50;
+
+/** One page of accounts by e-mail address; `q` searches names and addresses. */
+export async function listUsers(opts: { q?: string; page?: number } = {}) {
+  const where = opts.q ? or(ilike(userTable.email, likePattern(opts.q)), ilike(userTable.name, likePattern(opts.q))) : undefined;
+  const [{ total }] = await db.select({ total: count() }).from(userTable).where(where);
+  const page = pageOf(total, USER_PAGE_SIZE, opts.page ?? 1);
+  const users = await db
     .select({ id: userTable.id, name: userTable.name, email: userTable.email, role: userTable.role, banned: userTable.banned, banReason: userTable.banReason, emailVerified: userTable.emailVerified, createdAt: userTable.createdAt })
     .from(userTable)
-    .orderBy(asc(userTable.email));
+    .where(where)
+    .orderBy(asc(userTable.email))
+    .limit(page.size)
+    .offset(page.offset);
+  return { users, page };
 }
 
 async function target(admin: SessionUser, userId: string) {

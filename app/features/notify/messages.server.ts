@@ -174,3 +174,34 @@ export function invitationEmail(opts: {
   };
 }
 
+
+/** Tells a tub's owner that their technician reviewed an unsure reading, with any corrections. */
+export function reviewedEmail(opts: {
+  readingId: string; tubId: string; tubName: string; takenAt: Date; timeZone: string; technicianName: string;
+  /** "Free chlorine: 1 → 3 mg/L", one per corrected pad */
+  changes: string[];
+  recipient: { id: string; name: string; email: string; unsubscribeToken: string };
+}): OutgoingEmail {
+  const when = formatLocal(opts.takenAt.toISOString(), opts.timeZone);
+  const outcome = opts.changes.length
+    ? `${opts.technicianName} corrected ${opts.changes.length === 1 ? "one value" : `${opts.changes.length} values`}: ${opts.changes.join("; ")}.`
+    : `${opts.technicianName} confirmed the values as the reader saw them.`;
+  const note = { title: `${opts.tubName}: your reading was reviewed`, body: `The reading of ${when}. ${outcome}` };
+  const url = appUrl(`/tubs/${opts.tubId}/readings/${opts.readingId}`);
+  const content = layout({
+    subject: note.title,
+    greeting: `Hello ${opts.recipient.name},`,
+    paragraphs: [
+      `The reader was unsure about some pads of your reading of ${opts.tubName} taken ${when}, so your technician checked it.`,
+      outcome,
+      "The treatment plan now uses the reviewed values. Open the tub to see the next safe step.",
+    ],
+    action: { label: "See the reading", url },
+  });
+  const full = withUnsubscribe(content, "reviewed", opts.recipient.unsubscribeToken);
+  return {
+    kind: "reviewed", to: opts.recipient.email, userId: opts.recipient.id, tubId: opts.tubId, dedupeKey: `reviewed:${opts.readingId}`,
+    subject: full.subject, text: full.text, html: full.html, headers: full.headers,
+    notification: { ...note, link: `/tubs/${opts.tubId}/readings/${opts.readingId}` },
+  };
+}

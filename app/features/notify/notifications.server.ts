@@ -2,6 +2,7 @@
 import { and, count, desc, eq, isNull } from "drizzle-orm";
 import { emailLog, notification } from "../../db/schema";
 import { db } from "../../lib/db.server";
+import { pageOf } from "../../lib/paging";
 
 export async function listNotifications(userId: string, limit = 100) {
   return db.select().from(notification).where(eq(notification.userId, userId)).orderBy(desc(notification.createdAt)).limit(limit);
@@ -19,7 +20,13 @@ export async function markRead(userId: string, id: string | null) {
   await db.update(notification).set({ readAt: new Date() }).where(where);
 }
 
-export async function emailLogRows(status: string | null, limit = 200) {
-  const q = db.select().from(emailLog);
-  return (status ? q.where(eq(emailLog.status, status)) : q).orderBy(desc(emailLog.updatedAt)).limit(limit);
+export const EMAIL_LOG_PAGE_SIZE = 50;
+
+/** One page of the e-mail log, newest first, whole or of one status. */
+export async function emailLogRows(status: string | null, pageAsked = 1) {
+  const where = status ? eq(emailLog.status, status) : undefined;
+  const [{ total }] = await db.select({ total: count() }).from(emailLog).where(where);
+  const page = pageOf(total, EMAIL_LOG_PAGE_SIZE, pageAsked);
+  const rows = await db.select().from(emailLog).where(where).orderBy(desc(emailLog.updatedAt), desc(emailLog.id)).limit(page.size).offset(page.offset);
+  return { rows, page };
 }

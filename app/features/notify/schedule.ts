@@ -13,6 +13,7 @@ export const MESSAGE_KINDS = {
   drain_due: "Time to drain and refill",
   weekly_summary: "Weekly summary of each tub",
   invitation: "Invitations to look after a tub",
+  reviewed: "A technician reviewed one of your readings",
 } as const;
 export type MessageKind = keyof typeof MESSAGE_KINDS;
 export const isMessageKind = (k: string): k is MessageKind => Object.hasOwn(MESSAGE_KINDS, k);

@@ -1,7 +1,7 @@
 // Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
 // the reader run, the owner's review, history, CSV and trends.
 import { createHash, randomUUID } from "node:crypto";
-import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, inArray, lte } from "drizzle-orm";
 import sharp from "sharp";
 import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
 import { chartVersion, photo, reading, readingPad, treatment, user as userTable } from "~/db/schema";
@@ -9,6 +9,8 @@ import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { getObjectBytes, headObject, presignUpload, putObject } from "~/lib/storage.server";
+import { pageOf } from "~/lib/paging";
+import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tubs.server";
 import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
 
@@ -279,8 +281,7 @@ export const PAGE_SIZE = 10;
 
 export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SORTS; dir: "asc" | "desc"; page: number }) {
   const [{ total }] = await db.select({ total: count() }).from(reading).where(eq(reading.tubId, t.id));
-  const pages = Math.max(1, Math.ceil(total / PAGE_SIZE));
-  const page = Math.min(Math.max(1, opts.page), pages);
+  const { page, pages } = pageOf(total, PAGE_SIZE, opts.page);
   const col = HISTORY_SORTS[opts.sort];
   const rows = await db
     .select({ r: reading, confirmer: userTable.name })
@@ -290,13 +291,17 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
     .orderBy(opts.dir === "asc" ? asc(col) : desc(col), desc(reading.takenAt), desc(reading.id))
     .limit(PAGE_SIZE)
     .offset((page - 1) * PAGE_SIZE);
+  // One page of readings (PAGE_SIZE at most), their pads grouped by reading.
   const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((x) => x.r.id))) : [];
+  const padsOf = new Map<string, (typeof pads)[number][]>();
+  for (const p of pads) padsOf.set(p.readingId, [...(padsOf.get(p.readingId) ?? []), p]);
   return {
     total, page, pages,
     rows: rows.map(({ r, confirmer }) => ({
-      id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, photoId: r.photoId, confirmedBy: confirmer, needsReview: r.needsReview,
-      pads: pads
-        .filter((p) => p.readingId === r.id)
+      id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, photoId: r.photoId, confirmedBy: confirmer,
+      /** unsure and neither confirmed nor reviewed: not to be taken as the water */
+      needsReview: r.needsReview && !r.reviewedAt && r.status !== "confirmed",
+      pads: (padsOf.get(r.id) ?? [])
         .map((p) => ({ analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, source: p.source })),
     })),
   };
@@ -307,52 +312,103 @@ const csvCell = (v: unknown) => {
   return /[",\n\r]/.test(s) || /^[=+\-@]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 };
 
-/** Every reading of the tub as CSV: one row per reading, read and confirmed value per parameter. */
-export async function historyCsv(t: Tub) {
-  const rows = await db
-    .select({ r: reading, confirmer: userTable.name })
-    .from(reading)
-    .leftJoin(userTable, eq(userTable.id, reading.confirmedBy))
-    .where(eq(reading.tubId, t.id))
-    .orderBy(asc(reading.takenAt));
-  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((x) => x.r.id))) : [];
-  const analytes = [...new Set(pads.map((p) => p.analyte))].sort();
-  const header = ["taken_at", "status", "confirmed_by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`])];
-  const lines = [header.join(",")];
-  for (const { r, confirmer } of rows) {
-    const cells: unknown[] = [r.takenAt.toISOString(), r.status, confirmer ?? "", r.confirmedAt?.toISOString() ?? ""];
-    for (const a of analytes) {
-      const p = pads.find((x) => x.readingId === r.id && x.analyte === a);
-      cells.push(p?.readValue ?? "", p?.confirmedValue ?? "", p?.unit ?? "");
-    }
-    lines.push(cells.map(csvCell).join(","));
-  }
-  return lines.join("\r\n") + "\r\n";
+const CSV_BATCH = 500;
+
+type CsvPads = Record<string, [number | null, number | null, string | null]>;
+
+/**
+ * Every reading of the tub as CSV, oldest first: one row per reading, read and confirmed value per
+ * parameter. Streamed in batches of readings (pads gathered per reading in SQL), so memory stays
+ * flat however long the history, and it stops when the download is cancelled.
+ */
+export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<Uint8Array> {
+  const encoder = new TextEncoder();
+  let analytes: string[] | null = null;
+  let after: { at: Date; id: string } | null = null;
+  let finished = false;
+  return new ReadableStream<Uint8Array>({
+    async pull(controller) {
+      if (signal?.aborted) return controller.close();
+      if (!analytes) {
+        const found = await db.$client.query<{ analyte: string }>(
+          "select distinct p.analyte from reading_pad p join reading r on r.id = p.reading_id where r.tub_id = $1 order by 1",
+          [t.id],
+        );
+        analytes = found.rows.map((x) => x.analyte);
+        const header = ["taken_at", "status", "confirmed_by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`])];
+        controller.enqueue(encoder.encode(header.map(csvCell).join(",") + "\r\n"));
+        return;
+      }
+      if (finished) return controller.close();
+      const batch = await db.$client.query<{ id: string; takenAt: Date; status: string; confirmer: string | null; confirmedAt: Date | null; pads: CsvPads | null }>(
+        `select r.id, r.taken_at as "takenAt", r.status, u.name as confirmer, r.confirmed_at as "confirmedAt",
+                (select json_object_agg(p.analyte, json_build_array(p.read_value, p.confirmed_value, p.unit)) from reading_pad p where p.reading_id = r.id) as pads
+           from reading r left join "user" u on u.id = r.confirmed_by
+          where r.tub_id = $1 and ($2::timestamptz is null or (r.taken_at, r.id) > ($2::timestamptz, $3::uuid))
+          order by r.taken_at, r.id limit $4`,
+        [t.id, after?.at ?? null, after?.id ?? null, CSV_BATCH],
+      );
+      const lines: string[] = [];
+      for (const r of batch.rows) {
+        const cells: unknown[] = [r.takenAt.toISOString(), r.status, r.confirmer ?? "", r.confirmedAt?.toISOString() ?? ""];
+        for (const a of analytes) {
+          const p = r.pads?.[a];
+          cells.push(p?.[0] ?? "", p?.[1] ?? "", p?.[2] ?? "");
+        }
+        lines.push(cells.map(csvCell).join(","));
+      }
+      if (lines.length) controller.enqueue(encoder.encode(lines.join("\r\n") + "\r\n"));
+      const last = batch.rows.at(-1);
+      if (batch.rows.length < CSV_BATCH || !last) finished = true;
+      else after = { at: last.takenAt, id: last.id };
+    },
+  });
 }
 
-/** Trend series per parameter with the tub's target band, and the treatments on the time axis. */
-export async function trends(t: Tub) {
-  const rows = await db.select().from(reading).where(eq(reading.tubId, t.id)).orderBy(asc(reading.takenAt));
-  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((r) => r.id))) : [];
-  const when = new Map(rows.map((r) => [r.id, r.takenAt.getTime()]));
+/** The whole CSV as one string (for small tubs and tests); the route streams it. */
+export async function historyCsv(t: Tub) {
+  return new Response(historyCsvStream(t)).text();
+}
+
+export { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
+
+/**
+ * Trend series per parameter over the chosen period (the last `days` days), with the tub's target
+ * band and the treatments on the time axis. Points come from SQL already in time order.
+ */
+export async function trends(t: Tub, opts: { days?: number; now?: Date } = {}) {
+  const days = Math.min(MAX_TREND_DAYS, Math.max(1, Math.round(opts.days ?? TREND_PERIODS[0])));
+  const to = opts.now ?? new Date();
+  const from = new Date(to.getTime() - days * 86_400_000);
+  const points = await db
+    .select({ readingId: reading.id, takenAt: reading.takenAt, analyte: readingPad.analyte, unit: readingPad.unit, confirmed: readingPad.confirmedValue, read: readingPad.readValue })
+    .from(reading)
+    .innerJoin(readingPad, eq(readingPad.readingId, reading.id))
+    .where(and(eq(reading.tubId, t.id), gte(reading.takenAt, from), lte(reading.takenAt, to)))
+    .orderBy(asc(reading.takenAt), asc(reading.id));
   const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
   const byAnalyte = new Map<string, { unit: string; points: { t: number; value: number; readingId: string; confirmed: boolean }[] }>();
-  for (const p of pads) {
-    const value = p.confirmedValue ?? p.readValue;
+  for (const p of points) {
+    const value = p.confirmed ?? p.read;
     if (value === null || value === undefined) continue;
     const s = byAnalyte.get(p.analyte) ?? { unit: p.unit ?? "", points: [] };
-    s.points.push({ t: when.get(p.readingId)!, value, readingId: p.readingId, confirmed: p.confirmedValue !== null });
+    s.points.push({ t: p.takenAt.getTime(), value, readingId: p.readingId, confirmed: p.confirmed !== null });
     byAnalyte.set(p.analyte, s);
   }
-  const treatments = await db.select().from(treatment).where(eq(treatment.tubId, t.id)).orderBy(asc(treatment.addedAt));
+  const treatments = await db
+    .select()
+    .from(treatment)
+    .where(and(eq(treatment.tubId, t.id), gte(treatment.addedAt, from), lte(treatment.addedAt, to)))
+    .orderBy(asc(treatment.addedAt));
   return {
     tub: { id: t.id, name: t.name },
+    period: { days, from: from.toISOString(), to: to.toISOString() },
     parameters: [...byAnalyte.entries()].map(([analyte, s]) => {
       const target = targets.get(analyte);
       return {
         analyte, label: parameterLabel(analyte), unit: s.unit,
         target: target ? { min: target.min, max: target.max } : null,
-        points: s.points.sort((a, b) => a.t - b.t),
+        points: s.points,
       };
     }),
     treatments: treatments.map((x) => ({ t: x.addedAt.getTime(), label: `${x.productName} ${x.amount} ${x.unit}`, parameter: x.parameter })),

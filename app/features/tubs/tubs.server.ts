@@ -1,10 +1,12 @@
 // Tub settings: create, edit, archive, with the volume helper and the strip batch in use.
-import { asc, eq, isNull } from "drizzle-orm";
+import { and, asc, desc, eq, isNotNull, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { estimateVolumeLitres, litresFromUsGallons, parameterName, resolveTargets, type Parameter, type Range } from "~/chemistry";
 import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
+import { likePattern, pageOf } from "~/lib/paging";
+import { hasRole } from "~/lib/permissions";
 import type { Tub } from "~/lib/tubs.server";
 
 export const parameterLabel = parameterName;
@@ -127,4 +129,46 @@ export function tubTargets(t: Pick<Tub, "sanitiser" | "targets">): TargetRow[] {
 export function displayVolume(t: Pick<Tub, "volumeLitres" | "volumeUnit">) {
   if (t.volumeUnit === "USgal") return `${Math.round(t.volumeLitres / 3.785411784)} US gal (${Math.round(t.volumeLitres)} L)`;
   return `${Math.round(t.volumeLitres)} L`;
+}
+
+export const TUB_PAGE_SIZE = 24;
+
+/**
+ * One page of the tubs a user looks after: their own first, then their clients' (a technician's
+ * shared tubs; an admin's: everyone's), by name; `q` searches tub and owner names.
+ */
+export async function tubListPage(user: SessionUser, opts: { page?: number; q?: string } = {}) {
+  const where = `t.archived_at is null
+     and (t.owner_id = $1 or $2::boolean
+          or ($3::boolean and exists (select 1 from tub_access a where a.tub_id = t.id and a.technician_id = $1 and a.revoked_at is null)))
+     and ($4::text is null or t.name ilike $4 or o.name ilike $4)`;
+  const params = [user.id, hasRole(user, "admin"), hasRole(user, "technician"), opts.q ? likePattern(opts.q) : null];
+  const [{ total, own }] = (
+    await db.$client.query<{ total: number; own: number }>(
+      `select count(*)::int as total, count(*) filter (where t.owner_id = $1)::int as own from tub t join "user" o on o.id = t.owner_id where ${where}`,
+      params,
+    )
+  ).rows;
+  const page = pageOf(total, TUB_PAGE_SIZE, opts.page ?? 1);
+  const rows = (
+    await db.$client.query<{ id: string; name: string; volumeLitres: number; sanitiser: "chlorine" | "bromine"; mine: boolean; ownerName: string }>(
+      `select t.id, t.name, t.volume_litres as "volumeLitres", t.sanitiser, t.owner_id = $1 as mine, o.name as "ownerName"
+         from tub t join "user" o on o.id = t.owner_id
+        where ${where}
+        order by (t.owner_id = $1) desc, t.name, t.id
+        limit $5 offset $6`,
+      [...params, page.size, page.offset],
+    )
+  ).rows;
+  return { tubs: rows, page, own };
+}
+
+/** The user's own archived tubs (a short list: at most 100, newest first). */
+export async function archivedTubs(user: SessionUser) {
+  return db
+    .select({ id: tub.id, name: tub.name })
+    .from(tub)
+    .where(and(eq(tub.ownerId, user.id), isNotNull(tub.archivedAt)))
+    .orderBy(desc(tub.archivedAt))
+    .limit(100);
 }

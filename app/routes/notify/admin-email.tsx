@@ -3,6 +3,8 @@
 import { PageTitle, EmptyState, cx } from "~/components/ui";
 import { emailLogRows } from "~/features/notify/notifications.server";
 import { EMAIL_STATUSES } from "~/features/notify/statuses";
+import { Pager, withParams } from "~/components/Pager";
+import { askedPage } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/admin-email";
 
@@ -12,9 +14,9 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   requireRole(context, request, "admin");
   const asked = new URL(request.url).searchParams.get("status");
   const status = asked && (EMAIL_STATUSES as readonly string[]).includes(asked) ? asked : null;
-  const rows = await emailLogRows(status);
+  const { rows, page } = await emailLogRows(status, askedPage(new URL(request.url)));
   return {
-    status,
+    status, page,
     rows: rows.map((r) => ({
       id: r.id, kind: r.kind, to: r.to, subject: r.subject, status: r.status, attempts: r.attempts,
       lastError: r.lastError, updatedAt: r.updatedAt.toISOString(), sentAt: r.sentAt?.toISOString() ?? null,
@@ -25,7 +27,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 const tone: Record<string, string> = { sent: "bg-ok-soft text-ok", failed: "bg-caution-soft text-caution", dead: "bg-alert-soft text-alert" };
 
 export default function AdminEmail({ loaderData }: Route.ComponentProps) {
-  const { rows, status } = loaderData;
+  const { rows, status, page } = loaderData;
   return (
     <div className="space-y-4">
       <PageTitle sub="Failed messages are retried with growing gaps; “dead” ones gave up.">E-mail log</PageTitle>
@@ -54,6 +56,7 @@ export default function AdminEmail({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       )}
+      <Pager page={page.page} pages={page.pages} href={(p) => withParams({ status }, { page: p })} label="Pages of the e-mail log" />
     </div>
   );
 }

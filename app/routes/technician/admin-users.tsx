@@ -2,6 +2,8 @@ import { data, redirect } from "react-router";
 import { Button, Card, Notice, PageTitle, Select } from "~/components/ui";
 import { ClientInputError } from "~/features/clients/clients.server";
 import { listUsers, setBanned, setRole } from "~/features/clients/users.server";
+import { Pager, withParams } from "~/components/Pager";
+import { askedPage, searchText } from "~/lib/paging";
 import { ROLE_NAMES } from "~/lib/permissions";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/admin-users";
@@ -10,8 +12,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Users · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const admin = requireRole(context, request, "admin");
-  const users = await listUsers();
-  return { me: admin.id, users: users.map((u) => ({ ...u, createdAt: u.createdAt.toISOString() })) };
+  const url = new URL(request.url);
+  const q = searchText(url);
+  const { users, page } = await listUsers({ q, page: askedPage(url) });
+  return { me: admin.id, q, page, users: users.map((u) => ({ ...u, createdAt: u.createdAt.toISOString() })) };
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
@@ -32,12 +36,23 @@ export async function action({ context, request }: Route.ActionArgs) {
 }
 
 export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
-  const { users, me } = loaderData;
+  const { users, me, q, page } = loaderData;
   const a = actionData as { userId?: string; form?: string } | undefined;
   return (
     <div className="space-y-5">
       <PageTitle sub="Accounts, their roles, and bans.">Users</PageTitle>
       {a?.form && <Notice tone="alert">{a.form}</Notice>}
+      <form method="get" role="search" className="flex flex-wrap items-end gap-2">
+        <label className="flex min-w-56 flex-1 flex-col text-sm font-bold">
+          Find a user by name or e-mail
+          <input name="q" type="search" defaultValue={q} className="mt-1 rounded-lg border border-line px-3 py-2 font-normal" />
+        </label>
+        <Button type="submit">Search</Button>
+        {q && <a href="/admin/users" className="px-2 py-2">Show all</a>}
+      </form>
+      <p className="text-ink-soft" data-testid="users-total">
+        {page.total} account{page.total === 1 ? "" : "s"}{q ? ` matching “${q}”` : ""}
+      </p>
       <ul className="space-y-3" data-testid="users">
         {users.map((u) => (
           <li key={u.id}>
@@ -69,6 +84,7 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
           </li>
         ))}
       </ul>
+      <Pager page={page.page} pages={page.pages} href={(p) => withParams({ q }, { page: p })} label="Pages of users" />
     </div>
   );
 }

@@ -1,5 +1,7 @@
+import { Pager, withParams } from "~/components/Pager";
 import { Card, EmptyState, PageTitle, cx } from "~/components/ui";
-import { dashboard } from "~/features/clients/clients.server";
+import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clients/clients.server";
+import { askedPage, searchText } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/clients";
 
@@ -7,24 +9,45 @@ export const meta: Route.MetaFunction = () => [{ title: "Clients · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireRole(context, request, "technician", "admin");
-  return { tubs: await dashboard(user) };
+  const url = new URL(request.url);
+  const q = searchText(url);
+  const asked = url.searchParams.get("show");
+  const view: DashboardView = (DASHBOARD_VIEWS as readonly string[]).includes(asked ?? "") ? (asked as DashboardView) : "all";
+  const board = await dashboard(user, { page: askedPage(url), q, view, signal: request.signal });
+  return { ...board, q, view };
 }
 
 const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
 
 export default function Clients({ loaderData }: Route.ComponentProps) {
-  const { tubs } = loaderData;
-  const waiting = tubs.reduce((s, t) => s + t.waiting, 0);
+  const { rows: tubs, page, totals, q, view } = loaderData;
+  const params = { q, show: view === "all" ? null : view };
   return (
     <div className="space-y-5">
-      <PageTitle sub="Every client tub at a glance.">Clients</PageTitle>
-      {waiting > 0 && (
+      <PageTitle sub={`${totals.tubs} client tub${totals.tubs === 1 ? "" : "s"}: ${totals.attention} need${totals.attention === 1 ? "s" : ""} attention, ${totals.outOfRange} out of range, ${totals.overdue} due for a test.`}>Clients</PageTitle>
+      {totals.waiting > 0 && (
         <a href="/clients/review" className="block rounded-xl border border-caution/30 bg-caution-soft px-4 py-3 font-bold text-caution no-underline">
-          {waiting} reading{waiting === 1 ? "" : "s"} waiting for your review →
+          {totals.waiting} reading{totals.waiting === 1 ? "" : "s"} waiting for your review →
         </a>
       )}
+      <form method="get" className="flex flex-wrap items-end gap-2" role="search">
+        <label className="flex min-w-56 flex-1 flex-col text-sm font-bold">
+          Find a tub or owner
+          <input name="q" defaultValue={q} type="search" className="mt-1 rounded-lg border border-line px-3 py-2 font-normal" />
+        </label>
+        <label className="flex flex-col text-sm font-bold">
+          Show
+          <select name="show" defaultValue={view} className="mt-1 rounded-lg border border-line px-3 py-2 font-normal">
+            <option value="all">All tubs</option>
+            <option value="attention">Only those needing attention</option>
+          </select>
+        </label>
+        <button type="submit" className="rounded-lg bg-well-700 px-4 py-2 font-bold text-white">Show</button>
+      </form>
       {tubs.length === 0 ? (
-        <EmptyState title="No client tubs yet">When an owner invites you to look after a tub, it appears here.</EmptyState>
+        <EmptyState title={q || view !== "all" ? "No tub matches" : "No client tubs yet"}>
+          {q || view !== "all" ? "Try another name, or show all tubs." : "When an owner invites you to look after a tub, it appears here."}
+        </EmptyState>
       ) : (
         <ul className="grid gap-3 sm:grid-cols-2" data-testid="client-tubs">
           {tubs.map((t) => (
@@ -34,8 +57,13 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                 <p className="text-sm text-ink-soft">{t.ownerName}</p>
                 <ul className="mt-2 space-y-1 text-sm">
                   <li className={t.outOfRange.length ? "font-bold text-alert" : "text-ok"}>
-                    {t.outOfRange.length ? `Out of range: ${t.outOfRange.join("; ")}` : t.latestAt ? "Water in range at the last reading" : "No readings yet"}
+                    {t.outOfRange.length ? `Out of range: ${t.outOfRange.join("; ")}` : t.latestAt ? "Water in range at the last sure reading" : "No sure reading yet"}
                   </li>
+                  {t.unsureNewerAt && (
+                    <li className="font-bold text-caution" data-testid="unsure-newer">
+                      Unconfirmed: a newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.
+                    </li>
+                  )}
                   <li className={t.overdue ? "font-bold text-caution" : ""}>
                     {t.latestAt ? `Last test ${when(t.latestAt)}` : "Never tested"}
                     {t.overdue ? " · test overdue" : t.dueAt ? ` · next due ${when(t.dueAt)}` : ""}
@@ -51,6 +79,7 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       )}
+      <Pager page={page.page} pages={page.pages} href={(p) => withParams(params, { page: p })} label="Pages of client tubs" />
     </div>
   );
 }

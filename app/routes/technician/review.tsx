@@ -1,7 +1,8 @@
 import { data, redirect } from "react-router";
+import { Pager } from "~/components/Pager";
 import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
-import { analyteLabel } from "~/features/clients/labels";
+import { askedPage } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
 import type { Route } from "./+types/review";
 
@@ -9,61 +10,128 @@ export const meta: Route.MetaFunction = () => [{ title: "Review readings · Dipw
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireRole(context, request, "technician", "admin");
-  return { readings: await reviewQueue(user) };
+  const url = new URL(request.url);
+  const queue = await reviewQueue(user, { page: askedPage(url), signal: request.signal });
+  return { ...queue, done: url.searchParams.has("done") };
+}
+
+/** Corrections from the form: a typed value wins over a tapped swatch; blank means "as read". */
+function corrections(fd: FormData): Record<string, number> | string {
+  const out: Record<string, number> = {};
+  for (const [k, v] of fd.entries()) {
+    const m = /^(pad|swatch)_(.+)$/.exec(k);
+    if (!m || typeof v !== "string" || v.trim() === "") continue;
+    if (m[1] === "swatch" && String(fd.get(`pad_${m[2]}`) ?? "").trim() !== "") continue;
+    const n = Number(v.trim().replace(",", "."));
+    if (!Number.isFinite(n) || n < 0 || n > 5000) return "Corrected values must be numbers from 0 to 5000 (pH from 0 to 14).";
+    out[m[2]] = n;
+  }
+  return out;
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
   const user = requireRole(context, request, "technician", "admin");
   const fd = await request.formData();
   const readingId = String(fd.get("readingId") ?? "");
-  const corrections: Record<string, number> = {};
-  for (const [k, v] of fd.entries()) {
-    if (!k.startsWith("pad_") || typeof v !== "string" || v.trim() === "") continue;
-    const n = Number(v.replace(",", "."));
-    if (!Number.isFinite(n) || n < 0) return data({ readingId, form: "Corrected values must be numbers of zero or more." }, { status: 400 });
-    corrections[k.slice(4)] = n;
-  }
+  const page = Math.max(1, Number.parseInt(String(fd.get("page") ?? "1"), 10) || 1);
+  const fixed = fd.get("intent") === "confirm" ? {} : corrections(fd);
+  if (typeof fixed === "string") return data({ readingId, form: fixed }, { status: 400 });
   try {
-    await markReviewed(user, readingId, corrections);
+    await markReviewed(user, readingId, fixed);
   } catch (e) {
     if (e instanceof ClientInputError) return data({ readingId, form: e.message }, { status: e.status });
     throw e;
   }
-  return redirect("/clients/review?done=1");
+  return redirect(`/clients/review?page=${page}&done=1`);
 }
 
+const fmt = (n: number | null | undefined) => (n === null || n === undefined ? "–" : String(n));
+
 export default function Review({ loaderData, actionData }: Route.ComponentProps) {
-  const { readings } = loaderData;
+  const { items, page, done } = loaderData;
   const a = actionData as { readingId?: string; form?: string } | undefined;
   return (
     <div className="space-y-5">
-      <PageTitle sub="Readings the reader was unsure about. Check them, correct a value if needed, and mark them reviewed.">Readings to review</PageTitle>
-      {readings.length === 0 ? (
+      <PageTitle sub="Readings the reader was unsure about, oldest first. Compare each pad with the chart, confirm it as read in one tap, or correct a value.">
+        Readings to review
+      </PageTitle>
+      {done && <Notice tone="ok">Reviewed. The owner has been told.</Notice>}
+      {page.total > 0 && (
+        <p className="text-ink-soft" data-testid="review-total">
+          {page.total} reading{page.total === 1 ? "" : "s"} waiting
+        </p>
+      )}
+      {items.length === 0 ? (
         <EmptyState title="Nothing to review">Every unsure reading has been reviewed.</EmptyState>
       ) : (
-        readings.map((r) => (
-          <Card key={r.id} data-testid="review-item">
-            <p className="font-bold">
-              <a href={`/tubs/${r.tubId}`}>{r.tubName}</a> · {new Date(r.takenAt).toLocaleString("en-GB")}
-            </p>
-            <form method="post" className="mt-2 space-y-2">
-              <input type="hidden" name="readingId" value={r.id} />
+        items.map((r) => {
+          const base = `/tubs/${r.tubId}`;
+          const formId = `review-${r.id}`;
+          return (
+            <Card key={r.id} data-testid="review-item" className="space-y-3">
+              <div className="flex flex-wrap items-start gap-4">
+                {r.photoId ? (
+                  <a href={`${base}/photos/${r.photoId}`} target="_blank" rel="noreferrer" className="shrink-0">
+                    <img src={`${base}/photos/${r.photoId}?size=thumb`} alt={`Strip photo of ${r.tubName}`} width={112} height={112} loading="lazy" className="h-28 w-28 rounded-md border border-line object-cover" />
+                  </a>
+                ) : (
+                  <span className="text-ink-soft">No photo</span>
+                )}
+                <div>
+                  <p className="font-bold">
+                    <a href={`${base}/readings/${r.id}`}>{r.tubName}</a>
+                  </p>
+                  <p className="text-sm text-ink-soft">
+                    {r.ownerName} · taken {new Date(r.takenAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })} · <strong className="text-caution">unconfirmed</strong>
+                  </p>
+                </div>
+              </div>
               {a?.readingId === r.id && a.form && <Notice tone="alert">{a.form}</Notice>}
-              <ul className="space-y-2">
+              <form method="post" id={formId}>
+                <input type="hidden" name="readingId" value={r.id} />
+                <input type="hidden" name="page" value={page.page} />
+              </form>
+              <ul className="divide-y divide-line">
                 {r.pads.map((p) => (
-                  <li key={p.id} className="flex flex-wrap items-center gap-3">
-                    <span className="w-40 font-bold">{analyteLabel(p.analyte)}</span>
-                    <span className="text-sm">read {p.readValue ?? "–"} {p.unit}{p.confirmedValue !== null ? ` · owner: ${p.confirmedValue}` : ""}</span>
-                    {p.needsReview && <span className="text-sm text-caution">{p.reason ?? "unsure"}</span>}
-                    <input name={`pad_${p.id}`} inputMode="decimal" aria-label={`Correct ${analyteLabel(p.analyte)}`} placeholder="correct to" className="w-28 rounded border border-line px-2 py-1" />
+                  <li key={p.id} className="flex flex-wrap items-center gap-3 py-2">
+                    {p.hasCrop ? (
+                      <img src={`${base}/photos/${r.photoId}/crop/${p.analyte}`} alt={`${p.label} pad as photographed`} width={48} height={48} loading="lazy" className="h-12 w-12 rounded border border-line object-cover" />
+                    ) : (
+                      <span className="h-12 w-12 rounded border border-dashed border-line" aria-hidden="true" />
+                    )}
+                    <div className="w-44">
+                      <p className="font-bold">{p.label}</p>
+                      <p className="text-sm">
+                        read <strong>{fmt(p.readValue)}</strong> {p.unit}
+                        {p.confirmedValue !== null ? ` · owner: ${p.confirmedValue}` : ""}
+                      </p>
+                      {p.needsReview && <p className="text-sm text-caution">{p.reason ?? "unsure"}</p>}
+                    </div>
+                    {p.swatches.length > 0 && (
+                      <fieldset className="flex flex-wrap gap-1">
+                        <legend className="sr-only">Chart colours for {p.label}: tap the one the pad matches</legend>
+                        {p.swatches.map((s) => (
+                          <label key={s.value} className="flex cursor-pointer flex-col items-center text-xs">
+                            <input type="radio" form={formId} name={`swatch_${p.id}`} value={s.value} className="peer sr-only" />
+                            <span className="h-9 w-9 rounded border-2 border-line peer-checked:border-ink peer-focus-visible:outline peer-focus-visible:outline-2" style={{ background: s.color }} />
+                            <span className={s.value === p.readValue ? "font-bold" : ""}>{s.value}</span>
+                          </label>
+                        ))}
+                      </fieldset>
+                    )}
+                    <input form={formId} name={`pad_${p.id}`} inputMode="decimal" aria-label={`Correct ${p.label}`} placeholder="or type" className="w-24 rounded border border-line px-2 py-1" />
                   </li>
                 ))}
               </ul>
-              <Button type="submit">Mark reviewed</Button>
-            </form>
-          </Card>
-        ))
+              <div className="flex flex-wrap gap-2">
+                <Button type="submit" form={formId} name="intent" value="confirm">Confirm as read</Button>
+                <Button type="submit" form={formId} name="intent" value="correct" variant="secondary">Save corrections</Button>
+              </div>
+            </Card>
+          );
+        })
       )}
+      <Pager page={page.page} pages={page.pages} href={(p) => `?page=${p}`} label="Pages of readings to review" />
     </div>
   );
 }

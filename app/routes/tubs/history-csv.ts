@@ -1,5 +1,5 @@
-// GET /tubs/:tubId/history.csv: every reading of the tub as a spreadsheet.
-import { historyCsv } from "~/features/readings/readings.server";
+// GET /tubs/:tubId/history.csv: every reading of the tub as a spreadsheet, streamed.
+import { historyCsvStream } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import type { Route } from "./+types/history-csv";
@@ -8,7 +8,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub } = await requireTub(user, params.tubId, "view");
   const name = tub.name.replace(/[^\w-]+/g, "-").replace(/^-|-$/g, "").toLowerCase() || "tub";
-  return new Response(await historyCsv(tub), {
+  return new Response(historyCsvStream(tub, request.signal), {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="dipwell-${name}-readings.csv"` },
   });
 }

@@ -1,6 +1,7 @@
 // History: every reading of the tub, sortable and paginated, with the photo and who confirmed it.
 import { ButtonLink, Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server";
+import { askedPage } from "~/lib/paging";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import type { Route } from "./+types/history";
@@ -12,9 +13,9 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub } = await requireTub(user, params.tubId, "view");
   const url = new URL(request.url);
   const sortParam = url.searchParams.get("sort");
-  const sort = (sortParam && sortParam in HISTORY_SORTS ? sortParam : "taken") as keyof typeof HISTORY_SORTS;
+  const sort = (sortParam && Object.hasOwn(HISTORY_SORTS, sortParam) ? sortParam : "taken") as keyof typeof HISTORY_SORTS;
   const dir = url.searchParams.get("dir") === "asc" ? "asc" : "desc";
-  const page = Math.max(1, Number.parseInt(url.searchParams.get("page") ?? "1", 10) || 1);
+  const page = askedPage(url);
   return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, sort, dir: dir as "asc" | "desc", ...(await historyPage(tub, { sort, dir, page })) };
 }
 
@@ -86,7 +87,10 @@ export default function History({ loaderData }: Route.ComponentProps) {
                       </span>
                     )) : <span className="text-ink-soft">no values</span>}
                   </td>
-                  <td className={cx("hidden p-3 sm:table-cell", r.status === "failed" && "text-alert", r.status === "read" && "text-caution")}>{STATUS_WORDS[r.status] ?? r.status}</td>
+                  <td className={cx("hidden p-3 sm:table-cell", r.status === "failed" && "text-alert", r.status === "read" && "text-caution")}>
+                    {STATUS_WORDS[r.status] ?? r.status}
+                    {r.needsReview && <span className="block font-bold text-caution">unsure · waiting for review</span>}
+                  </td>
                   <td className="hidden p-3 sm:table-cell">{r.confirmedBy ?? "—"}</td>
                 </tr>
               ))}

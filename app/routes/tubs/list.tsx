@@ -1,31 +1,32 @@
+import { Pager, withParams } from "~/components/Pager";
 import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { archivedTubs, tubListPage } from "~/features/tubs/tubs.server";
+import { askedPage, searchText } from "~/lib/paging";
 import { hasRole } from "~/lib/permissions";
 import { requireUser } from "~/lib/session.server";
-import { listTubs, ownerNames } from "~/lib/tubs.server";
 import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Tubs · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireUser(context, request);
-  const all = await listTubs(user, { includeArchived: true });
-  const tubs = all.filter((t) => !t.archivedAt);
-  const archived = all.filter((t) => t.archivedAt && t.ownerId === user.id).map((t) => ({ id: t.id, name: t.name }));
-  const names = await ownerNames([...new Set(tubs.map((t) => t.ownerId))]);
+  const url = new URL(request.url);
+  const q = searchText(url);
+  const { tubs, page, own } = await tubListPage(user, { page: askedPage(url), q });
   return {
-    verified: new URL(request.url).searchParams.has("verified"),
-    justArchived: new URL(request.url).searchParams.has("archived"),
-    archived,
+    verified: url.searchParams.has("verified"),
+    justArchived: url.searchParams.has("archived"),
+    archived: await archivedTubs(user),
     isTechnician: hasRole(user, "technician", "admin"),
-    tubs: tubs.map((t) => ({
-      id: t.id, name: t.name, volumeLitres: t.volumeLitres, sanitiser: t.sanitiser,
-      mine: t.ownerId === user.id, ownerName: names.get(t.ownerId) ?? "",
-    })),
+    q, page, own,
+    tubs,
   };
 }
 
+const TUBS_WITHOUT_SEARCH = 6;
+
 export default function TubList({ loaderData }: Route.ComponentProps) {
-  const { tubs, isTechnician, verified, archived, justArchived } = loaderData;
+  const { tubs, isTechnician, verified, archived, justArchived, q, page, own } = loaderData;
   const mine = tubs.filter((t) => t.mine);
   const clients = tubs.filter((t) => !t.mine);
   return (
@@ -34,10 +35,21 @@ export default function TubList({ loaderData }: Route.ComponentProps) {
       {justArchived && <Notice>The tub is archived. Its readings are kept; you can restore it below.</Notice>}
       <PageTitle sub="Every tub you look after, with its water at a glance.">Tubs</PageTitle>
       <ButtonLink href="/tubs/new" className="w-full sm:w-auto">Add a tub</ButtonLink>
-      {(!isTechnician || mine.length > 0) && (
+      {(isTechnician || page.total > TUBS_WITHOUT_SEARCH) && (
+        <form method="get" role="search" className="flex flex-wrap items-end gap-2">
+          <label className="flex min-w-56 flex-1 flex-col text-sm font-bold">
+            Find a tub or owner
+            <input name="q" type="search" defaultValue={q} className="mt-1 rounded-lg border border-line px-3 py-2 font-normal" />
+          </label>
+          <button type="submit" className="rounded-lg bg-well-700 px-4 py-2 font-bold text-white">Search</button>
+          {q && <a href="/tubs" className="px-2 py-2">Show all</a>}
+        </form>
+      )}
+      {q && page.total === 0 && <EmptyState title="No tub matches">Try another name.</EmptyState>}
+      {(mine.length > 0 || (own === 0 && !isTechnician && !q)) && (
         <section aria-labelledby="own-tubs" className="space-y-3">
           <h2 id="own-tubs" className="text-lg font-bold">Your tubs</h2>
-          {mine.length === 0 ? (
+          {mine.length === 0 && own === 0 ? (
             <EmptyState title="No tubs yet" action={<ButtonLink href="/tubs/new">Add your first tub</ButtonLink>}>Add your hot tub to start reading test strips and get treatment steps.</EmptyState>
           ) : (
             <TubCards tubs={mine} />
@@ -54,16 +66,17 @@ export default function TubList({ loaderData }: Route.ComponentProps) {
           </ul>
         </details>
       )}
-      {isTechnician && (
+      {isTechnician && (clients.length > 0 || (page.total === own && !q)) && (
         <section aria-labelledby="client-tubs" className="space-y-3">
           <h2 id="client-tubs" className="text-lg font-bold">Client tubs</h2>
-          {clients.length === 0 ? (
+          {clients.length === 0 && page.total === own ? (
             <EmptyState title="No client tubs yet">When an owner invites you to look after a tub, it appears here.</EmptyState>
           ) : (
             <TubCards tubs={clients} showOwner />
           )}
         </section>
       )}
+      <Pager page={page.page} pages={page.pages} href={(p) => withParams({ q }, { page: p })} label="Pages of tubs" />
     </div>
   );
 }
