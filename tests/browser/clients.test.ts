@@ -54,19 +54,26 @@ describe("clients", () => {
     await tp.waitForURL(new RegExp(`/tubs/${tub.id}$`));
     await tp.goto("/clients");
     const card = tp.getByTestId("client-tubs").locator("li").filter({ hasText: tub.name });
-    await card.getByText(/Free chlorine low/).waitFor();
+    // The unsure reading is marked unconfirmed and not taken as the water until it is reviewed.
+    await card.getByText(/Unconfirmed: a newer reading/).waitFor();
+    await card.getByText(/No sure reading yet/).waitFor();
     await card.getByText(/test overdue/).waitFor();
     await card.getByText(/1 reading to review/).waitFor();
     await screenshot(tp, "31-clients-dashboard");
 
     await tp.goto("/clients/review");
     const item = tp.getByTestId("review-item").filter({ hasText: tub.name });
-    await item.getByLabel("Correct Free chlorine").fill("2");
+    await item.getByLabel("Correct Free chlorine").fill("1.5");
     await screenshot(tp, "32-review");
-    await item.getByRole("button", { name: "Mark reviewed" }).click();
+    await item.getByRole("button", { name: "Save corrections" }).click();
     await tp.waitForURL(/done=1/);
     const reviewed = (await db.query.reading.findFirst({ where: eq(s.reading.id, r.id) }))!;
     expect(reviewed.reviewedAt).not.toBeNull();
+    // The owner is told, by e-mail and in the app.
+    const told = await waitForMail(owner.email, /your reading was reviewed/);
+    expect(told.text).toMatch(/Free chlorine: 1 → 1.5 mg\/L/);
+    await tp.goto("/clients");
+    await card.getByText(/Free chlorine low \(1\.5 mg\/L/).waitFor();
 
     await tp.goto(`/tubs/${tub.id}/notes`);
     await tp.getByLabel("Note").fill("Cleaned the filter cartridge; water clear. Shock next visit.");
@@ -87,7 +94,9 @@ describe("clients", () => {
     const ap = await adminCtx.newPage();
     await signIn(ap, DEMO_USERS.find((u) => u.key === "admin")!.email, DEMO_PASSWORD);
     await ap.goto("/admin/users");
-    await ap.getByText(techEmail).waitFor();
+    await ap.getByLabel("Find a user by name or e-mail").fill(techEmail);
+    await ap.getByRole("button", { name: "Search" }).click();
+    await ap.getByTestId("users").getByText(techEmail).waitFor();
     await screenshot(ap, "34-admin-users");
     await adminCtx.close();
   });
