@@ -3,6 +3,8 @@ import tailwindcss from "@tailwindcss/vite";
 import { defineConfig } from "vitest/config";
 
 const underVitest = Boolean(process.env.VITEST);
+/** The fault tests restart PostgreSQL, so `npm test` runs them on their own, after the rest. */
+const faultRun = process.env.DIPWELL_FAULTS === "1";
 
 export default defineConfig({
   plugins: underVitest ? [] : [tailwindcss(), reactRouter()],
@@ -44,6 +46,22 @@ export default defineConfig({
           hookTimeout: 240_000,
         },
       },
+      ...(faultRun
+        ? [
+            {
+              extends: true as const,
+              test: {
+                name: "faults",
+                include: ["tests/faults/**/*.test.ts"],
+                environment: "node",
+                setupFiles: ["tests/faults/setup.ts"],
+                fileParallelism: false,
+                testTimeout: 180_000,
+                hookTimeout: 120_000,
+              },
+            },
+          ]
+        : []),
     ],
   },
 });

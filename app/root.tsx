@@ -1,9 +1,10 @@
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { availabilityMiddleware } from "./lib/availability.server";
 import { sessionMiddleware } from "./lib/session.server";
 import "./app.css";
 
-export const middleware: Route.MiddlewareFunction[] = [sessionMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [availabilityMiddleware, sessionMiddleware];
 
 export const meta: Route.MetaFunction = () => [
   { title: "Dipwell · hot tub water care" },
@@ -44,6 +45,9 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     if (error.status === 404) {
       title = "Not found";
       detail = message ?? "We could not find that page.";
+    } else if (error.status === 503) {
+      title = "Back in a moment";
+      detail = message ?? detail;
     } else if (error.status === 403) {
       title = "Not allowed";
       detail = message ?? "Your account cannot open this page.";

@@ -1,10 +1,21 @@
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "../db/schema";
+import { databaseUnavailable, noteDatabaseError } from "./db-health";
 import { env } from "./env.server";
 
 function connect() {
-  const pool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10 });
+  const pool = new pg.Pool({
+    connectionString: env().DATABASE_URL,
+    max: 10,
+    // During a database restart a request waits at most this long for a connection, then fails
+    // (and is answered "try again in a moment") instead of hanging.
+    connectionTimeoutMillis: 5_000,
+  });
+  // An idle connection that the server closes (a restart, a failover) emits "error" on the pool.
+  // Without a listener Node would stop the whole process; the pool drops that client by itself
+  // and opens a new one on the next query.
+  pool.on("error", (error) => noteDatabaseError(error, "database connection lost"));
   return drizzle({ client: pool, schema });
 }
 
@@ -14,3 +25,20 @@ const holder = globalThis as unknown as { __dipwellDb?: Db };
 /** One pool per process, kept across dev reloads. */
 export const db: Db = holder.__dipwellDb ?? (holder.__dipwellDb = connect());
 export { schema };
+
+/** True when PostgreSQL answers a trivial query within `timeoutMs`. */
+export async function databaseReachable(timeoutMs = 2_000): Promise<boolean> {
+  let timer: NodeJS.Timeout | undefined;
+  try {
+    await Promise.race([
+      db.$client.query("select 1"),
+      new Promise((_, reject) => (timer = setTimeout(() => reject(new Error("database probe timed out")), timeoutMs))),
+    ]);
+    return true;
+  } catch (error) {
+    if (!databaseUnavailable(error) && !(error instanceof Error && error.message === "database probe timed out")) throw error;
+    return false;
+  } finally {
+    clearTimeout(timer);
+  }
+}

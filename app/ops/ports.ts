@@ -16,3 +16,10 @@ export const TEST_PORTS: Ports = {
   mailWeb: 1091 + TEST_SLOT,
   app: 3100 + TEST_SLOT,
 };
+
+/**
+ * The fault tests (`npm run test:faults`) run an app and a worker of their own,
+ * which they kill and restart, beside the test run's; `smtpProxy` is a relay in
+ * front of the mail catcher that the tests can stall.
+ */
+export const FAULT_PORTS = { app: 3120 + TEST_SLOT, smtpProxy: 1056 + TEST_SLOT };

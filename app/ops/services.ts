@@ -3,7 +3,7 @@
 // 127.0.0.1. Used by `npm start` (start.ts) and `npm test` (test.ts).
 import { type ChildProcess, execFileSync, spawn, spawnSync } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import net from "node:net";
 import path from "node:path";
 import pg from "pg";
@@ -56,14 +56,56 @@ export function ensurePostgresInstalled(): string {
     throw new SetupError("PostgreSQL server is not installed. Install Debian's package: sudo apt-get install -y postgresql");
   }
   console.log("Installing PostgreSQL (apt-get install postgresql)…");
-  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  spawnSync("apt-get", ["update"], { stdio: "inherit", env });
-  const r = spawnSync("apt-get", ["install", "-y", "--no-install-recommends", "postgresql"], { stdio: "inherit", env });
+  aptGet(["update"]);
+  const r = aptGet(["install", "-y", "--no-install-recommends", "postgresql"]);
   bin = findPostgresBin();
   if (r.status !== 0 || !bin) {
     throw new SetupError("Could not install PostgreSQL with apt-get. Install the `postgresql` package by hand and run the command again.");
   }
   return bin;
+}
+
+/**
+ * Runs apt-get non-interactively. When another process (an unattended upgrade, a
+ * second install) holds Debian's package lock, apt waits for it, up to ten
+ * minutes, instead of failing at once.
+ */
+export function aptGet(args: string[]) {
+  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
+  // `apt-get update` does not honour DPkg::Lock::Timeout for its lists lock on every
+  // release, so wait for the lock files here as well.
+  waitForPackageLocks(600_000);
+  return spawnSync("apt-get", ["-o", "DPkg::Lock::Timeout=600", ...args], { stdio: "inherit", env });
+}
+
+const APT_LOCKS = ["/var/lib/dpkg/lock-frontend", "/var/lib/dpkg/lock", "/var/lib/apt/lists/lock", "/var/cache/apt/archives/lock"];
+
+/** True while some process holds a POSIX lock on one of Debian's package lock files (read from /proc/locks). */
+function packageLockHeld(): boolean {
+  let locks: string;
+  try {
+    locks = readFileSync("/proc/locks", "utf8");
+  } catch {
+    return false;
+  }
+  const held = new Set(locks.split("\n").map((line) => line.trim().split(/\s+/)[5]?.split(":")[2]).filter(Boolean));
+  return APT_LOCKS.some((file) => {
+    try {
+      return held.has(String(statSync(file).ino));
+    } catch {
+      return false;
+    }
+  });
+}
+
+function waitForPackageLocks(timeoutMs: number) {
+  const start = Date.now();
+  let said = false;
+  while (packageLockHeld() && Date.now() - start < timeoutMs) {
+    if (!said) console.log("Another program is installing Debian packages; waiting for it to finish…");
+    said = true;
+    spawnSync("sleep", ["2"]);
+  }
 }
 
 /** Runs a PostgreSQL program; as root, as the `postgres` user (the server refuses to run as root). */
@@ -140,6 +182,7 @@ export async function createDatabase(adminUrl: string, name: string, opts: { fre
 // ---------------------------------------------------------------- child processes
 
 const children = new Set<ChildProcess>();
+let stoppingAll = false;
 
 export function spawnService(name: string, command: string, args: string[], opts: { cwd: string; env?: NodeJS.ProcessEnv; quiet?: boolean }) {
   const child = spawn(command, args, {
@@ -157,7 +200,77 @@ export function spawnService(name: string, command: string, args: string[], opts
   return child;
 }
 
+export type Supervised = {
+  /** the running child, if any */
+  current: () => ChildProcess | undefined;
+  /** how many times the child was started again after it died */
+  restarts: () => number;
+  /** resolves with the next child started after `after` (or the current one when none is given) */
+  nextStart: (after?: ChildProcess) => Promise<ChildProcess>;
+  /** stops the child for good (SIGTERM, then SIGKILL after 10 s) */
+  stop: () => Promise<void>;
+};
+
+/**
+ * Runs a long-lived child (the app, the worker) and starts it again when it dies,
+ * saying so, with a growing pause between attempts (1 s doubling to 30 s; back to
+ * 1 s once a child has stayed up for a minute) so a child that cannot start does
+ * not spin. This is what a production supervisor (systemd, a container runtime)
+ * does; `npm start` uses it locally.
+ */
+export function superviseService(
+  name: string, command: string, args: string[],
+  opts: { cwd: string; env?: NodeJS.ProcessEnv; quiet?: boolean; log?: (line: string) => void },
+): Supervised {
+  const log = opts.log ?? ((line: string) => console.error(line));
+  let child: ChildProcess | undefined;
+  let restarts = 0;
+  let pause = 1_000;
+  let stopped = false;
+  let timer: NodeJS.Timeout | undefined;
+  const waiting: ((c: ChildProcess) => void)[] = [];
+
+  const launch = () => {
+    if (stopped || stoppingAll) return;
+    const startedAt = Date.now();
+    const c = (child = spawnService(name, command, args, opts));
+    for (const w of waiting.splice(0)) w(c);
+    c.on("exit", (code, signal) => {
+      if (child === c) child = undefined;
+      if (stopped || stoppingAll) return;
+      if (Date.now() - startedAt > 60_000) pause = 1_000;
+      const why = signal ? `was stopped by ${signal}` : `exited with code ${code}`;
+      log(`${name} ${why}; starting it again in ${pause / 1000} s.`);
+      timer = setTimeout(() => {
+        restarts++;
+        launch();
+      }, pause);
+      pause = Math.min(pause * 2, 30_000);
+    });
+  };
+  launch();
+
+  return {
+    current: () => child,
+    restarts: () => restarts,
+    nextStart: (after) =>
+      new Promise((resolve) => (child && child !== after && child.exitCode === null && !child.signalCode ? resolve(child) : waiting.push(resolve))),
+    stop: async () => {
+      stopped = true;
+      clearTimeout(timer);
+      const c = child;
+      if (!c || c.exitCode !== null || c.signalCode) return;
+      const exited = new Promise<void>((r) => c.once("exit", () => r()));
+      c.kill("SIGTERM");
+      const kill = setTimeout(() => c.kill("SIGKILL"), 10_000);
+      await exited;
+      clearTimeout(kill);
+    },
+  };
+}
+
 export function stopChildren() {
+  stoppingAll = true;
   for (const child of children) child.kill("SIGTERM");
 }
 

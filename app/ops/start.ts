@@ -6,8 +6,8 @@ import { DEMO_PASSWORD, DEMO_USERS } from "./demo";
 import { migrateDatabase } from "./migrate";
 import { DEV_PORTS as P } from "./ports";
 import {
-  SetupError, assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres,
-  startS3, stopChildren, waitForPort,
+  SetupError, assertPortFree, createDatabase, serviceEnv, startMailCatcher, startPostgres,
+  startS3, stopChildren, superviseService, waitForPort,
 } from "./services";
 
 const root = process.cwd();
@@ -63,8 +63,9 @@ async function main() {
   if (build.status !== 0) throw new SetupError("The app did not build; see the messages above.");
 
   await assertPortFree(P.app, "the Dipwell app");
-  spawnService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), ["./build/server/index.js"], { cwd: root, env, quiet: true });
-  spawnService("worker", path.join(root, "node_modules", ".bin", "tsx"), ["app/jobs/worker.ts"], { cwd: root, env });
+  // Supervised: a child that dies (a crash, an out-of-memory kill) is started again, and the log says so.
+  superviseService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), ["./build/server/index.js"], { cwd: root, env, quiet: true });
+  superviseService("worker", path.join(root, "node_modules", ".bin", "tsx"), ["app/jobs/worker.ts"], { cwd: root, env });
   await waitForPort(P.app, "the Dipwell app", 60_000);
 
   console.log(`

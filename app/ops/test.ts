@@ -1,14 +1,17 @@
 // `npm test`: the same set-up as `npm start`, isolated for tests (its own
 // cluster in .test-run/, its own ports, fresh databases), then the type check,
 // Vitest (unit, integration against real PostgreSQL, s3rver and SMTP) and the
-// browser tests in Debian's Chromium against the production build.
+// browser tests in Debian's Chromium against the production build; last, on
+// their own, the fault tests (tests/faults: PostgreSQL restarted, the worker
+// killed mid-send, the app killed mid-registration). `npm run test:faults`
+// (`--faults`) runs only those.
 import { spawn, spawnSync } from "node:child_process";
 import { existsSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import { migrateDatabase } from "./migrate";
-import { TEST_PORTS as P, TEST_SLOT } from "./ports";
+import { FAULT_PORTS, TEST_PORTS as P, TEST_SLOT } from "./ports";
 import {
-  SetupError, assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres,
+  SetupError, aptGet, assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres,
   startS3, stopChildren, waitForPort,
 } from "./services";
 
@@ -25,9 +28,8 @@ function ensureChromium() {
   if (found) return found;
   if (process.getuid?.() !== 0) throw new SetupError("Chromium is not installed. Install Debian's package: sudo apt-get install -y chromium");
   console.log("Installing Chromium (apt-get install chromium)…");
-  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  spawnSync("apt-get", ["update"], { stdio: "inherit", env });
-  const r = spawnSync("apt-get", ["install", "-y", "--no-install-recommends", "chromium", "fonts-dejavu-core"], { stdio: "inherit", env });
+  aptGet(["update"]);
+  const r = aptGet(["install", "-y", "--no-install-recommends", "chromium", "fonts-dejavu-core"]);
   if (r.status !== 0 || !existsSync("/usr/bin/chromium")) throw new SetupError("Could not install Chromium with apt-get.");
   return "/usr/bin/chromium";
 }
@@ -39,7 +41,14 @@ function step(title: string, cmd: string, args: string[], env: NodeJS.ProcessEnv
 }
 
 async function main() {
-  const vitestArgs = process.argv.slice(2);
+  const faultsOnly = process.argv.includes("--faults");
+  const vitestArgs = process.argv.slice(2).filter((a) => a !== "--faults");
+  // The fault tests run after the rest (they restart the database under everything),
+  // in a full run, with --faults, or when a file under tests/faults is named.
+  const faultArgs = vitestArgs.filter((a) => a.includes("tests/faults"));
+  const runFaults = faultsOnly || vitestArgs.length === 0 || faultArgs.length > 0;
+  const mainArgs = vitestArgs.filter((a) => !a.includes("tests/faults"));
+  const runMain = !faultsOnly && !(faultArgs.length > 0 && mainArgs.length === 0);
   const chromium = ensureChromium();
   for (const d of ["s3", "mail"]) rmSync(path.join(run, d), { recursive: true, force: true });
 
@@ -90,16 +99,30 @@ async function main() {
     }
     await waitForPort(P.app, "the Dipwell app", 60_000);
 
-    console.log("\n== Vitest: unit, integration and browser tests");
-    const results = path.join(run, "vitest-results.json");
-    rmSync(results, { force: true });
-    const code = await new Promise<number>((resolve) => {
-      const child = spawn(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...vitestArgs], { cwd: root, stdio: "inherit", env });
-      child.on("exit", (c) => resolve(c ?? 1));
-    });
-    failed += code;
+    const resultFiles: string[] = [];
+    const vitest = async (title: string, name: string, args: string[], extraEnv: NodeJS.ProcessEnv = {}) => {
+      console.log(`\n== ${title}`);
+      const results = path.join(run, `vitest-${name}.json`);
+      rmSync(results, { force: true });
+      resultFiles.push(results);
+      return new Promise<number>((resolve) => {
+        const child = spawn(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...args], { cwd: root, stdio: "inherit", env: { ...env, ...extraEnv } });
+        child.on("exit", (c) => resolve(c ?? 1));
+      });
+    };
+    if (runMain) failed += await vitest("Vitest: unit, integration and browser tests", "results", mainArgs);
+    if (runFaults) {
+      failed += await vitest("Fault tests: database restart, worker and app killed", "faults", ["--project", "faults", ...faultArgs], {
+        DIPWELL_FAULTS: "1",
+        DIPWELL_PG_FOLDER: `.test-run${slotSuffix}`,
+        DIPWELL_PG_PORT: String(P.postgres),
+        DIPWELL_FAULT_APP_PORT: String(FAULT_PORTS.app),
+        DIPWELL_FAULT_SMTP_PROXY_PORT: String(FAULT_PORTS.smtpProxy),
+        DIPWELL_REAL_SMTP_PORT: String(P.smtp),
+      });
+    }
     cleanup();
-    printSummary(results, failed);
+    printSummary(resultFiles, failed);
     process.exit(failed ? 1 : 0);
   } catch (error) {
     cleanup();
@@ -107,14 +130,16 @@ async function main() {
   }
 }
 
-/** The plain closing line: "N passed, N failed" (and skipped), from Vitest's JSON report. */
-function printSummary(file: string, failedSteps: number) {
-  if (!existsSync(file)) return;
-  const r = JSON.parse(readFileSync(file, "utf8")) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number };
-  const skipped = r.numPendingTests + r.numTodoTests;
+/** The plain closing line: "N passed, N failed" (and skipped), from Vitest's JSON reports. */
+function printSummary(files: string[], failedSteps: number) {
+  const reports = files.filter((f) => existsSync(f)).map(
+    (f) => JSON.parse(readFileSync(f, "utf8")) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number },
+  );
+  const sum = (k: "numPassedTests" | "numFailedTests" | "numPendingTests" | "numTodoTests") => reports.reduce((n, r) => n + r[k], 0);
+  const skipped = sum("numPendingTests") + sum("numTodoTests");
   // A failed type check counts as a failure too, so the line never reads as a pass when the run failed.
-  const failed = r.numFailedTests + (failedSteps && !r.numFailedTests ? 1 : 0);
-  console.log(`\n${r.numPassedTests} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
+  const failed = sum("numFailedTests") + (failedSteps && !sum("numFailedTests") ? 1 : 0);
+  console.log(`\n${sum("numPassedTests")} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
 }
 
 main().catch((error) => {
