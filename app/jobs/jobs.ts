@@ -3,7 +3,8 @@
 import type PgBoss from "pg-boss";
 import { deliverEmail, type OutgoingEmail } from "../features/notify/outbox.server";
 import { runScan } from "../features/notify/scan.server";
-import { createQueues, DELIVER_QUEUE, SCAN_CRON, SCAN_QUEUE } from "./queues";
+import { sweepUploads } from "../features/photos/intake.server";
+import { createQueues, DELIVER_QUEUE, SCAN_CRON, SCAN_QUEUE, UPLOAD_SWEEP_CRON, UPLOAD_SWEEP_QUEUE } from "./queues";
 
 export async function registerJobs(boss: PgBoss) {
   await createQueues(boss);
@@ -18,5 +19,12 @@ export async function registerJobs(boss: PgBoss) {
   // E-mail: one job per message; a failure throws so pg-boss retries with back-off.
   await boss.work<OutgoingEmail>(DELIVER_QUEUE, { includeMetadata: true, batchSize: 1 }, async ([job]) => {
     await deliverEmail(job.data, { finalAttempt: job.retryCount >= job.retryLimit });
+  });
+
+  // Photos: upload objects nobody registered (an abandoned or refused upload) are deleted.
+  await boss.schedule(UPLOAD_SWEEP_QUEUE, UPLOAD_SWEEP_CRON, {}, { singletonKey: "upload-sweep" });
+  await boss.work(UPLOAD_SWEEP_QUEUE, async () => {
+    const deleted = await sweepUploads(new Date());
+    if (deleted) console.log(`photo uploads: ${deleted} abandoned upload object(s) deleted`);
   });
 }

@@ -14,7 +14,12 @@ export const SCAN_CRON = "*/5 * * * *";
  */
 export const DELIVER_RETRY = { retryLimit: 7, retryDelay: 30, retryBackoff: true } as const;
 
+/** every hour, upload objects whose presigned URL expired without a registration are deleted */
+export const UPLOAD_SWEEP_QUEUE = "photo-upload-sweep";
+export const UPLOAD_SWEEP_CRON = "17 * * * *";
+
 export async function createQueues(boss: PgBoss) {
+  await boss.createQueue(UPLOAD_SWEEP_QUEUE, { name: UPLOAD_SWEEP_QUEUE, policy: "singleton", retryLimit: 1, expireInSeconds: 600 });
   await boss.createQueue(SCAN_QUEUE, { name: SCAN_QUEUE, policy: "singleton", retryLimit: 1, expireInSeconds: 240 });
   await boss.createQueue(DELIVER_QUEUE, { name: DELIVER_QUEUE, ...DELIVER_RETRY, expireInSeconds: 120 });
 }

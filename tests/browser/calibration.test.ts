@@ -146,7 +146,7 @@ describe("calibrating a chart from a photo", () => {
     const owner = (await db.query.user.findFirst({ where: eq(s.user.id, ownerUser.id) }))!;
     const [tub] = await db.insert(s.tub).values({ ownerId: owner.id, name: `Test tub ${lot}`, volumeLitres: 1000, sanitiser: "chlorine", batchId: created.batchId }).returning();
     const strip = await renderStripPhoto(printed, { seed: 5 });
-    const key = `tubs/${tub.id}/uploads/${randomUUID()}.jpg`;
+    const key = `uploads/tubs/${tub.id}/${randomUUID()}.jpg`;
     await putObject(key, strip.jpeg, "image/jpeg");
     const result = await registerPhoto(owner as unknown as SessionUser, tub, key);
     const r = (await db.query.reading.findFirst({ where: eq(s.reading.id, result.readingId) }))!;

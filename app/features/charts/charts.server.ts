@@ -1,16 +1,16 @@
 // Strip charts, their immutable versions and the batches that read with them; calibration
 // from a chart photo, from reference solutions and from owners' corrections. Nothing here
 // changes the chart a batch reads with except saveVersion, which adds a new version row.
-import { createHash, randomUUID } from "node:crypto";
 import { and, asc, desc, eq, inArray, isNotNull, max } from "drizzle-orm";
-import sharp from "sharp";
 import { CalibrationError, proposeFromSample, sampleChartPhoto, type ChartGrid, type Quad } from "~/reading/calibrate";
 import { ChartError, exportChart, parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
 import { deltaE2000, hexToLab, labToHex, type Lab } from "~/reading/colour";
 import { chartVersion, photo, reading, readingPad, stripBatch, stripChart } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { getObjectBytes, putObject } from "~/lib/storage.server";
+import { inspectPhoto, keepPhoto, withStorage, maxPhotoBytes, PhotoError, type ReceivedPhoto } from "~/features/photos/intake.server";
+import { photoProblem } from "~/features/photos/rules";
+import { readObject } from "~/lib/storage.server";
 
 /** A refusal shown to the technician in plain words. */
 export class ChartInputError extends Error {
@@ -175,28 +175,42 @@ function closeWarnings(doc: Parameters<typeof neighbourDistances>[0]) {
 
 // ---------------------------------------------------------------- chart photo
 
-const PHOTO_TYPES: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" };
-const MAX_BYTES = 20 * 1024 * 1024;
+/**
+ * Keeps a photo of the batch's printed chart: the same intake as every photo (the real type from
+ * the bytes, a truncated file refused, the size limit of MAX_PHOTO_BYTES), stored under the batch.
+ */
+export async function keepChartPhoto(user: Pick<SessionUser, "id">, batchId: string, received: ReceivedPhoto) {
+  if (Math.min(received.width, received.height) < 300) throw new ChartInputError(`This photo is too small (${received.width} × ${received.height} pixels) to sample the chart. Use a photo at least 300 pixels on each side.`);
+  const existing = await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, received.sha256), eq(photo.purpose, "chart")) });
+  if (existing) return existing;
+  const [row] = await db
+    .insert(photo)
+    .values({ tubId: null, batchId, purpose: "chart", uploaderId: user.id, s3Key: received.s3Key, contentType: received.contentType, sizeBytes: received.sizeBytes, sha256: received.sha256, width: received.width, height: received.height })
+    .onConflictDoNothing()
+    .returning();
+  return row ?? (await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, received.sha256), eq(photo.purpose, "chart")) }))!;
+}
 
+/** A chart photo sent with the form (no JavaScript): checked by the same rules as every photo. */
 export async function uploadChartPhoto(user: Pick<SessionUser, "id">, batchId: string, file: File | null) {
   if (!file || typeof file === "string" || file.size === 0) throw new ChartInputError("Choose a photo of the printed colour chart first.");
-  const ext = PHOTO_TYPES[file.type];
-  if (!ext) throw new ChartInputError("That file is not a photo Dipwell can read. Choose a JPEG, PNG or WebP photo.");
-  if (file.size > MAX_BYTES) throw new ChartInputError("That photo is larger than 20 MB. Take it again at a lower resolution.");
-  const bytes = Buffer.from(await file.arrayBuffer());
-  const meta = await sharp(bytes)
-    .metadata()
-    .catch(() => null);
-  if (!meta) throw new ChartInputError("That file could not be opened as a photo. It may be damaged or not a picture.");
-  const width = meta.autoOrient?.width ?? meta.width ?? 0, height = meta.autoOrient?.height ?? meta.height ?? 0;
-  if (Math.min(width, height) < 300) throw new ChartInputError(`This photo is too small (${width} × ${height} pixels) to sample the chart. Use a photo at least 300 pixels on each side.`);
-  const sha256 = createHash("sha256").update(bytes).digest("hex");
-  const existing = await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, sha256), eq(photo.purpose, "chart")) });
-  if (existing) return existing;
-  const key = `charts/${batchId}/${randomUUID()}.${ext}`;
-  await putObject(key, bytes, file.type);
-  const [row] = await db.insert(photo).values({ tubId: null, batchId, purpose: "chart", uploaderId: user.id, s3Key: key, contentType: file.type, sizeBytes: bytes.length, sha256, width, height }).returning();
-  return row;
+  const received = await chartIntake(async () => {
+    const problem = photoProblem(file.type, file.size, maxPhotoBytes());
+    if (problem) throw new PhotoError(problem.code, problem.message);
+    const bytes = Buffer.from(await file.arrayBuffer());
+    return keepPhoto({ batchId }, bytes, await inspectPhoto(bytes));
+  });
+  return keepChartPhoto(user, batchId, received);
+}
+
+/** A photo refusal becomes the chart screen's refusal, in the same words. */
+export async function chartIntake<T>(work: () => Promise<T>): Promise<T> {
+  try {
+    return await work();
+  } catch (error) {
+    if (error instanceof PhotoError) throw new ChartInputError(error.message, error.status);
+    throw error;
+  }
 }
 
 export async function chartPhoto(photoId: string | undefined, batchId?: string) {
@@ -217,7 +231,7 @@ export type Proposal = { definition: object; changes: { analyte: string; value: 
 export async function proposeFromChartPhoto(chart: StripChart, photoId: string, batchId: string, grid: ChartGrid, white: Quad): Promise<Proposal> {
   const p = await chartPhoto(photoId, batchId);
   if (!p) throw new ChartInputError("Upload a photo of this batch's colour chart first.");
-  const bytes = await getObjectBytes(p.s3Key);
+  const bytes = await chartIntake(() => withStorage(() => readObject(p.s3Key)));
   try {
     const sample = await sampleChartPhoto(bytes, grid, white);
     const { definition, changes } = proposeFromSample(chart, sample);

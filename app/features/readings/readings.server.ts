@@ -1,97 +1,45 @@
 // Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
 // the reader run, the owner's review, history, CSV and trends.
-import { createHash, randomUUID } from "node:crypto";
 import { and, asc, count, desc, eq, gte, inArray, lte } from "drizzle-orm";
 import sharp from "sharp";
 import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
 import { chartVersion, photo, reading, readingPad, treatment, user as userTable } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { env } from "~/lib/env.server";
-import { getObjectBytes, headObject, presignUpload, putObject } from "~/lib/storage.server";
+import { PhotoError, presignPhoto, receivePhoto, thumbKey } from "~/features/photos/intake.server";
+import { headObject, putObject, readObject } from "~/lib/storage.server";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tubs.server";
 import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
 
-export const PHOTO_TYPES: Record<string, { ext: string; sharpFormat: string }> = {
-  "image/jpeg": { ext: "jpg", sharpFormat: "jpeg" },
-  "image/png": { ext: "png", sharpFormat: "png" },
-  "image/webp": { ext: "webp", sharpFormat: "webp" },
-};
+export { PhotoError, maxPhotoBytes } from "~/features/photos/intake.server";
 
-/** A refusal the owner sees, in plain words, with the HTTP status it goes out with. */
-export class PhotoError extends Error {
-  constructor(
-    public code: string,
-    message: string,
-    public status = 400,
-  ) {
-    super(message);
-  }
-}
-
-export const maxPhotoBytes = () => env().MAX_PHOTO_BYTES;
-export const formatMb = (bytes: number) => `${Math.round((bytes / 1024 / 1024) * 10) / 10} MB`;
-
-function checkTypeAndSize(contentType: string, size: number) {
-  if (!PHOTO_TYPES[contentType]) {
-    throw new PhotoError("wrong_type", "That file is not a photo Dipwell can read. Choose a JPEG, PNG or WebP photo (on an iPhone, set Camera › Formats to “Most Compatible”).");
-  }
-  if (!Number.isFinite(size) || size <= 0) throw new PhotoError("empty", "That file is empty. Take the photo again.");
-  if (size > maxPhotoBytes()) {
-    throw new PhotoError("too_large", `That photo is ${formatMb(size)}; the largest Dipwell accepts is ${formatMb(maxPhotoBytes())}. Take it again at a lower resolution, or crop it around the strip.`);
-  }
-}
-
-const uploadPrefix = (tubId: string) => `tubs/${tubId}/uploads/`;
-
-/** A presigned PUT for one photo of this tub; checks the type and size the browser declares. */
+/** A presigned PUT for one strip photo of this tub; checks the type and size the browser declares. */
 export async function presignPhotoUpload(t: Tub, contentType: string, size: number) {
-  checkTypeAndSize(contentType, size);
   if (!t.batchId) throw new PhotoError("no_batch", "Choose the strip batch you use in the tub's settings first, so Dipwell knows which colour chart to read with.");
-  const key = `${uploadPrefix(t.id)}${randomUUID()}.${PHOTO_TYPES[contentType].ext}`;
-  return { key, url: await presignUpload(key, contentType), contentType };
+  return presignPhoto({ tubId: t.id }, contentType, size);
 }
 
 export type RegisterResult = { readingId: string; photoId: string; status: string; duplicate: boolean };
 
 /**
- * Registers an uploaded photo: checks the object in storage (size, type, decodes it), hashes it,
- * returns the existing reading for the same photo of this tub, or reads it and stores the reading.
- * The photo row is kept whatever the reader says.
+ * Registers an uploaded strip photo: takes it in (size, real type, one decode, hash, the kept copy
+ * under a key the browser never had), returns the existing reading for the same photo of this tub,
+ * or reads it and stores the reading. The photo row is kept whatever the reader says.
  */
 export async function registerPhoto(user: SessionUser, t: Tub, key: string): Promise<RegisterResult> {
-  if (typeof key !== "string" || !key.startsWith(uploadPrefix(t.id)) || !/^[0-9a-f-]{36}\.(jpg|png|webp)$/.test(key.slice(uploadPrefix(t.id).length))) {
-    throw new PhotoError("bad_key", "That upload does not belong to this tub. Start again from “New reading”.");
-  }
-  const head = await headObject(key);
-  if (!head) throw new PhotoError("missing_upload", "The photo did not arrive: the upload stopped before it finished. Press “Try the upload again”; you do not need a new photo.", 409);
-  checkTypeAndSize(head.contentType, head.size);
-  const bytes = await getObjectBytes(key);
-  if (bytes.length !== head.size) throw new PhotoError("missing_upload", "Only part of the photo arrived. Press “Try the upload again”.", 409);
-
-  let meta: Awaited<ReturnType<ReturnType<typeof sharp>["metadata"]>>;
-  try {
-    meta = await sharp(bytes).metadata();
-  } catch {
-    throw new PhotoError("not_image", "That file could not be opened as a photo. It may be damaged or not a picture. Take the photo again.");
-  }
-  if (meta.format !== PHOTO_TYPES[head.contentType].sharpFormat && !(meta.format === "jpeg" && head.contentType === "image/jpeg")) {
-    throw new PhotoError("wrong_type", "That file is not the kind of photo it claims to be. Choose a JPEG, PNG or WebP photo.");
-  }
-  const sha256 = createHash("sha256").update(bytes).digest("hex");
+  const received = await receivePhoto({ tubId: t.id }, key);
+  const { sha256 } = received;
 
   const existing = await findReadingForHash(t.id, sha256);
   if (existing) return { ...existing, duplicate: true };
 
-  const width = meta.autoOrient?.width ?? meta.width ?? null;
-  const height = meta.autoOrient?.height ?? meta.height ?? null;
   let photoRow;
   try {
     [photoRow] = await db
       .insert(photo)
-      .values({ tubId: t.id, batchId: t.batchId, purpose: "strip", uploaderId: user.id, s3Key: key, contentType: head.contentType, sizeBytes: head.size, sha256, width, height })
+      .values({ tubId: t.id, batchId: t.batchId, purpose: "strip", uploaderId: user.id, s3Key: received.s3Key, contentType: received.contentType, sizeBytes: received.sizeBytes, sha256, width: received.width, height: received.height })
       .returning();
   } catch (error) {
     // The same photo registered at the same moment (a double submit): answer with that one.
@@ -101,7 +49,7 @@ export async function registerPhoto(user: SessionUser, t: Tub, key: string): Pro
     }
     throw error;
   }
-  return { ...(await readAndStore(user, t, photoRow.id, bytes)), duplicate: false };
+  return { ...(await readAndStore(user, t, photoRow.id, received.bytes)), duplicate: false };
 }
 
 async function findReadingForHash(tubId: string, sha256: string) {
@@ -426,10 +374,10 @@ export async function photoForTub(t: Tub, photoId: string) {
  * Returns null when the photo cannot be decoded (the caller then serves the photo itself).
  */
 export async function thumbnailKey(p: { s3Key: string }) {
-  const key = `${p.s3Key}.thumb.webp`;
+  const key = thumbKey(p.s3Key);
   if (await headObject(key)) return key;
   try {
-    const bytes = await getObjectBytes(p.s3Key);
+    const bytes = await readObject(p.s3Key);
     const thumb = await sharp(bytes, { limitInputPixels: 50_000_000 }).rotate().resize(160, 160, { fit: "cover" }).webp({ quality: 70 }).toBuffer();
     await putObject(key, thumb, "image/webp");
     return key;

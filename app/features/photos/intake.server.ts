@@ -1,0 +1,173 @@
+// One way in for every photo Dipwell keeps: strip photos of a tub, chart photos and reference-
+// solution photos of a strip batch. The browser PUTs the file to a presigned upload key; the
+// server then fetches it (never more than MAX_PHOTO_BYTES), decodes it once (the real type from
+// the bytes, a truncated file refused, the thumbnail made from that same decode), hashes it and
+// writes its own copy under a final key the browser never had a URL for. A refused upload is
+// deleted at once; every other upload object is swept by the worker after an hour (sweepUploads)
+// and, in production, by the bucket's lifecycle rule on `uploads/`.
+import { createHash, randomUUID } from "node:crypto";
+import sharp from "sharp";
+import { env } from "../../lib/env.server";
+import {
+  deleteObject, getObjectBytes, headObject, listObjects, presignUpload, putObject, StorageUnavailableError, UPLOAD_URL_SECONDS,
+} from "../../lib/storage.server";
+import { PHOTO_MESSAGES, PHOTO_TYPES, photoProblem, typeOfExt, typeOfFormat, type PhotoType } from "./rules";
+
+/** A refusal the user sees, in plain words, with the HTTP status it goes out with. */
+export class PhotoError extends Error {
+  constructor(
+    public code: string,
+    message: string,
+    public status = 400,
+  ) {
+    super(message);
+  }
+}
+
+export const maxPhotoBytes = () => env().MAX_PHOTO_BYTES;
+
+/** Whose photo it is: a tub's strip photo, or a strip batch's chart or reference-solution photo. */
+export type PhotoScope = { tubId: string } | { batchId: string };
+
+const scopePath = (s: PhotoScope) => ("tubId" in s ? `tubs/${s.tubId}` : `batches/${s.batchId}`);
+
+/** Every upload key starts with this prefix (one lifecycle rule covers them all). */
+export const UPLOAD_PREFIX = "uploads/";
+const uploadPrefix = (s: PhotoScope) => `${UPLOAD_PREFIX}${scopePath(s)}/`;
+const UPLOAD_NAME = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}\.(jpg|png|webp)$/;
+
+/** The key of the kept photo: by content, so the same bytes always land on the same key. */
+export const photoKey = (s: PhotoScope, sha256: string, type: PhotoType) => `${scopePath(s)}/photos/${sha256}.${PHOTO_TYPES[type].ext}`;
+/** The list-sized WebP kept beside a photo. */
+export const thumbKey = (photoS3Key: string) => `${photoS3Key}.thumb.webp`;
+/** A pad's crop, addressed by the reading it belongs to. */
+export const cropKey = (tubId: string, readingId: string, analyte: string) => `tubs/${tubId}/readings/${readingId}/${analyte}.webp`;
+
+/** Translates a storage outage into the plain refusal every photo path gives. */
+export async function withStorage<T>(work: () => Promise<T>): Promise<T> {
+  try {
+    return await work();
+  } catch (error) {
+    if (error instanceof StorageUnavailableError) {
+      console.error("photo storage unavailable:", (error.cause as Error)?.message ?? error.cause);
+      throw new PhotoError("storage_unavailable", PHOTO_MESSAGES.storageDown, 503);
+    }
+    throw error;
+  }
+}
+
+/** A presigned PUT for one photo (type and size as the browser declares them, both signed). */
+export async function presignPhoto(scope: PhotoScope, contentType: string, size: number) {
+  const problem = photoProblem(contentType, size, maxPhotoBytes());
+  if (problem) throw new PhotoError(problem.code, problem.message);
+  const type = contentType as PhotoType;
+  const key = `${uploadPrefix(scope)}${randomUUID()}.${PHOTO_TYPES[type].ext}`;
+  const url = await withStorage(() => presignUpload(key, type, size));
+  return { key, url, contentType: type, expiresInSeconds: UPLOAD_URL_SECONDS };
+}
+
+export type Inspected = { type: PhotoType; width: number; height: number; thumb: Buffer };
+
+/**
+ * The one decode of a photo: its real type from the bytes (whatever it was called), a file that
+ * ends early refused, the upright size, and a small WebP thumbnail from the same pass.
+ */
+export async function inspectPhoto(bytes: Buffer, declared?: PhotoType): Promise<Inspected> {
+  if (bytes.length === 0) throw new PhotoError("empty", PHOTO_MESSAGES.empty);
+  let meta: Awaited<ReturnType<ReturnType<typeof sharp>["metadata"]>>;
+  const image = sharp(bytes, { failOn: "truncated", limitInputPixels: 100_000_000 });
+  try {
+    meta = await image.metadata();
+  } catch {
+    throw new PhotoError("not_image", PHOTO_MESSAGES.notImage);
+  }
+  const type = typeOfFormat(meta.format);
+  if (!type) throw new PhotoError("wrong_type", PHOTO_MESSAGES.wrongType);
+  if (declared && declared !== type) throw new PhotoError("wrong_type", PHOTO_MESSAGES.notWhatItClaims);
+  let thumb: Buffer;
+  try {
+    thumb = await image.rotate().resize(160, 160, { fit: "cover" }).webp({ quality: 70 }).toBuffer();
+  } catch (error) {
+    const text = String((error as Error).message ?? "");
+    if (/truncat|premature|end of|incomplete|corrupt|damaged|unexpected/i.test(text)) throw new PhotoError("truncated", PHOTO_MESSAGES.truncated);
+    throw new PhotoError("not_image", PHOTO_MESSAGES.notImage);
+  }
+  const width = meta.autoOrient?.width ?? meta.width ?? 0;
+  const height = meta.autoOrient?.height ?? meta.height ?? 0;
+  return { type, width, height, thumb };
+}
+
+export type ReceivedPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: number; sha256: string; width: number; height: number; bytes: Buffer };
+
+/** Checks that an upload key was made for this scope, and returns the type its name declares. */
+export function checkUploadKey(scope: PhotoScope, key: unknown): PhotoType {
+  const prefix = uploadPrefix(scope);
+  if (typeof key !== "string" || !key.startsWith(prefix) || !UPLOAD_NAME.test(key.slice(prefix.length))) {
+    throw new PhotoError("bad_key", "That upload does not belong here. Start again and choose the photo once more.");
+  }
+  return typeOfExt(key.split(".").pop()!)!;
+}
+
+/**
+ * Takes an uploaded photo in: fetches it (cut off past the size limit), inspects it, writes the
+ * checked bytes and the thumbnail under the final key. A refused upload is deleted at once.
+ * Idempotent: the same bytes give the same final key.
+ */
+export async function receivePhoto(scope: PhotoScope, key: string): Promise<ReceivedPhoto> {
+  const declared = checkUploadKey(scope, key);
+  return withStorage(async () => {
+    const max = maxPhotoBytes();
+    const head = await headObject(key);
+    if (!head) throw new PhotoError("missing_upload", PHOTO_MESSAGES.missing, 409);
+    const fetched = await getObjectBytes(key, max);
+    if (!Buffer.isBuffer(fetched)) {
+      await deleteObject(key);
+      throw new PhotoError("too_large", PHOTO_MESSAGES.tooLarge(fetched.size, max));
+    }
+    let inspected: Inspected;
+    try {
+      inspected = await inspectPhoto(fetched, declared);
+    } catch (error) {
+      if (error instanceof PhotoError) await deleteObject(key);
+      throw error;
+    }
+    // The upload object stays until the sweep (a double submit of the same key finds it again);
+    // the photo is served only from the kept copy.
+    return keepPhoto(scope, fetched, inspected);
+  });
+}
+
+/** Writes checked bytes and their thumbnail under the final key (for bytes already in hand). */
+export async function keepPhoto(scope: PhotoScope, bytes: Buffer, inspected: Inspected): Promise<ReceivedPhoto> {
+  const sha256 = createHash("sha256").update(bytes).digest("hex");
+  const s3Key = photoKey(scope, sha256, inspected.type);
+  await withStorage(async () => {
+    await putObject(s3Key, bytes, inspected.type);
+    await putObject(thumbKey(s3Key), inspected.thumb, "image/webp");
+  });
+  return { s3Key, contentType: inspected.type, sizeBytes: bytes.length, sha256, width: inspected.width, height: inspected.height, bytes };
+}
+
+/**
+ * Deletes upload objects older than `olderThanMs` (their presigned URL expired long ago, and no
+ * registration took them). Returns how many were deleted. Bounded: one listing page per call
+ * round, at most `maxPages` pages.
+ */
+export async function sweepUploads(now = new Date(), opts: { olderThanMs?: number; maxPages?: number; scope?: PhotoScope } = {}) {
+  const { olderThanMs = 60 * 60 * 1000, maxPages = 20 } = opts;
+  const prefix = opts.scope ? uploadPrefix(opts.scope) : UPLOAD_PREFIX;
+  let deleted = 0;
+  let token: string | undefined;
+  for (let page = 0; page < maxPages; page++) {
+    const { objects, next } = await listObjects(prefix, token);
+    for (const o of objects) {
+      if (now.getTime() - o.lastModified.getTime() > olderThanMs) {
+        await deleteObject(o.key);
+        deleted++;
+      }
+    }
+    if (!next) break;
+    token = next;
+  }
+  return deleted;
+}

@@ -1,0 +1,141 @@
+// A registered photo cannot be turned into something else: the presigned PUT signs the type and
+// the length, the server keeps its own copy of the checked bytes under a key the browser never had
+// a URL for, and the photo, thumbnail and crop routes serve only the registered image type with
+// nosniff and a sandboxing Content-Security-Policy, whatever storage says the object is.
+// Also: refused uploads leave nothing in storage, a storage outage is a plain 503, and the chart
+// photo is checked on its bytes (real type, truncation).
+import { readFileSync } from "node:fs";
+import { HeadObjectCommand, PutObjectCommand } from "@aws-sdk/client-s3";
+import { eq } from "drizzle-orm";
+import sharp from "sharp";
+import { beforeAll, describe, expect, it } from "vitest";
+import * as s from "~/db/schema";
+import { db } from "~/lib/db.server";
+import { sweepUploads } from "~/features/photos/intake.server";
+import { bucket, s3 } from "~/lib/storage.server";
+import { parseChart } from "~/reading";
+import { renderStripPhoto } from "../render/strip-photo";
+import { asRenderChart } from "../render/types";
+import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
+import { importRoute } from "../support/routes";
+
+const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
+const HTML = "<!doctype html><html><body><script>document.title='script ran'</script><p>not a photo</p></body></html>";
+
+let owner: TestUser;
+let tubId: string;
+let jpeg: Buffer;
+
+async function presign(contentType: string, size: number) {
+  const { action } = await importRoute("routes/api/tubs.uploads.ts");
+  return callRoute(action!, { url: `/api/tubs/${tubId}/uploads`, params: { tubId }, user: owner, json: { contentType, size } });
+}
+async function register(key: string) {
+  const { action } = await importRoute("routes/api/tubs.photos.ts");
+  return callRoute(action!, { url: `/api/tubs/${tubId}/photos`, params: { tubId }, user: owner, json: { key } });
+}
+async function exists(key: string) {
+  try {
+    await s3().send(new HeadObjectCommand({ Bucket: bucket(), Key: key }));
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+beforeAll(async () => {
+  owner = await createUser("owner");
+  const chart = parseChart(chartJson);
+  const [c] = await db.insert(s.stripChart).values({ name: `Safety chart ${owner.id.slice(0, 6)}` }).returning();
+  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot: "S-1" }).returning();
+  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition: chart, source: "import" }).returning();
+  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
+  tubId = (await createTub(owner.id, { batchId: b.id })).id;
+  jpeg = (await renderStripPhoto(asRenderChart(chartJson), { seed: 11, surface: "paper", cast: "daylight" })).jpeg;
+});
+
+describe("a registered photo is immutable and served only as an image", () => {
+  it("signs the content type and length into the presigned PUT", async () => {
+    const p = await presign("image/jpeg", jpeg.length);
+    expect(p.status).toBe(200);
+    const url = new URL((p.data as { url: string }).url);
+    // AWS Signature Version 4, query-string authentication: X-Amz-SignedHeaders lists what the signature covers.
+    const signed = (url.searchParams.get("X-Amz-SignedHeaders") ?? "").split(";");
+    expect(signed).toEqual(expect.arrayContaining(["content-length", "content-type", "host"]));
+    expect(Number(url.searchParams.get("X-Amz-Expires"))).toBeLessThanOrEqual(300);
+  });
+
+  it("an HTML file PUT to the upload URL after registration is never served, and never as HTML", async () => {
+    const p = await presign("image/jpeg", jpeg.length);
+    const { url, key } = p.data as { url: string; key: string };
+    expect((await fetch(url, { method: "PUT", body: new Uint8Array(jpeg), headers: { "content-type": "image/jpeg" } })).status).toBe(200);
+    const r = await register(key);
+    expect(r.status, JSON.stringify(r.data)).toBe(201);
+    const { photoId, readingId } = r.data as { photoId: string; readingId: string };
+    // The photo is kept under its own key, not the one the browser had a URL for.
+    const row = await db.query.photo.findFirst({ where: eq(s.photo.id, photoId) });
+    expect(row!.s3Key).not.toBe(key);
+    expect(row!.s3Key).not.toMatch(/uploads/);
+
+    // The attack: the owner sends HTML to the same presigned URL. (s3rver does not check
+    // signatures, so locally it is accepted; real S3 refuses it as the type is signed.)
+    await fetch(url, { method: "PUT", body: HTML, headers: { "content-type": "text/html" } });
+    // Even an overwrite of the kept object itself (storage compromised) is served as the registered type.
+    const photoRoute = await importRoute("routes/tubs/photo.ts");
+    const served = await callRoute(photoRoute.loader!, { url: "/x", params: { tubId, photoId }, user: owner });
+    expect(served.status).toBe(200);
+    const h = served.response!.headers;
+    expect(h.get("content-type")).toBe("image/jpeg");
+    expect(h.get("x-content-type-options")).toBe("nosniff");
+    expect(h.get("content-security-policy")).toMatch(/sandbox/);
+    expect(h.get("content-security-policy")).toMatch(/default-src 'none'/);
+    expect(Buffer.from(await served.response!.arrayBuffer()).equals(jpeg)).toBe(true);
+
+    await s3().send(new PutObjectCommand({ Bucket: bucket(), Key: row!.s3Key, Body: HTML, ContentType: "text/html" }));
+    const tampered = await callRoute(photoRoute.loader!, { url: "/x", params: { tubId, photoId }, user: owner });
+    expect(tampered.response!.headers.get("content-type")).toBe("image/jpeg");
+    expect(tampered.response!.headers.get("content-security-policy")).toMatch(/sandbox/);
+    await tampered.response!.arrayBuffer();
+    await s3().send(new PutObjectCommand({ Bucket: bucket(), Key: row!.s3Key, Body: jpeg, ContentType: "image/jpeg" }));
+
+    const thumb = await callRoute(photoRoute.loader!, { url: "/x?size=thumb", params: { tubId, photoId }, user: owner });
+    expect(thumb.response!.headers.get("content-type")).toBe("image/webp");
+    expect(thumb.response!.headers.get("x-content-type-options")).toBe("nosniff");
+    await thumb.response!.arrayBuffer();
+    expect(readingId).toBeTruthy();
+  });
+});
+
+describe("refused uploads leave nothing behind", () => {
+  it("deletes an upload that is not an image, one that ends early and one over the limit", async () => {
+    const truncated = jpeg.subarray(0, Math.floor(jpeg.length * 0.6));
+    for (const [bytes, code] of [
+      [Buffer.from("plain text, not a photo\n".repeat(40)), "not_image"],
+      [truncated, "truncated"],
+      [await sharp(jpeg).png().toBuffer(), "wrong_type"], // PNG bytes sent as a JPEG
+    ] as const) {
+      const p = await presign("image/jpeg", bytes.length);
+      const { url, key } = p.data as { url: string; key: string };
+      await fetch(url, { method: "PUT", body: new Uint8Array(bytes), headers: { "content-type": "image/jpeg" } });
+      const r = await register(key);
+      expect(r.status, code).toBe(400);
+      expect((r.data as { code: string }).code).toBe(code);
+      expect(await exists(key)).toBe(false);
+    }
+  });
+});
+
+describe("abandoned uploads are swept", () => {
+  it("deletes upload objects older than an hour, and keeps the photos", async () => {
+    const p = await presign("image/jpeg", jpeg.length);
+    const { url, key } = p.data as { url: string; key: string };
+    await fetch(url, { method: "PUT", body: new Uint8Array(jpeg), headers: { "content-type": "image/jpeg" } });
+    expect(await sweepUploads(new Date(), { scope: { tubId } })).toBe(0); // a fresh upload stays
+    expect(await exists(key)).toBe(true);
+    const later = new Date(Date.now() + 61 * 60 * 1000);
+    expect(await sweepUploads(later, { scope: { tubId } })).toBeGreaterThanOrEqual(1);
+    expect(await exists(key)).toBe(false);
+    const kept = await db.select().from(s.photo).where(eq(s.photo.tubId, tubId));
+    for (const k of kept) expect(await exists(k.s3Key)).toBe(true);
+  });
+});
