@@ -138,8 +138,10 @@ type DashboardSqlRow = {
  * the number of tubs, not with their history.
  */
 async function dashboardRows(user: SessionUser, q: string) {
-  const r = await db.$client.query<DashboardSqlRow>(
-    `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName",
+  // A named statement: planned once per connection, not on every visit to the dashboard.
+  const r = await db.$client.query<DashboardSqlRow>({
+    name: "dipwell-dashboard",
+    text: `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName",
             cur.taken_at as "latestAt", cur.pads, w.n as waiting, w.newest as "waitingNewest",
             tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
        from tub t
@@ -161,8 +163,8 @@ async function dashboardRows(user: SessionUser, q: string) {
        ) tr on true
       where ${clientTubFilter("t")}
         and ($2::text is null or t.name ilike $2 or o.name ilike $2)`,
-    [technicianParam(user), q ? likePattern(q) : null],
-  );
+    values: [technicianParam(user), q ? likePattern(q) : null],
+  });
   return r.rows;
 }
 
@@ -233,7 +235,7 @@ export async function dashboard(
 
 // ---------------------------------------------------------------- review
 
-export const REVIEW_PAGE_SIZE = 20;
+export const REVIEW_PAGE_SIZE = 10;
 
 type ReviewSqlRow = { id: string; tubId: string; tubName: string; ownerName: string; takenAt: Date; status: string; photoId: string | null; chartVersionId: string | null };
 

@@ -1,0 +1,307 @@
+// `npm run bench:app`: the production build against a service business's data, on ports of its
+// own (PostgreSQL 54400, S3 4600, SMTP 1050, mail web 1100, app 3200), so it runs beside
+// `npm start` and the test slots. Prints, side by side:
+//   - each page's and API's median and p95 time for a technician with 500 tubs (request to last
+//     byte over loopback, one request at a time);
+//   - 20 and 50 concurrent photo uploads through the public flow (presign → PUT → register, then
+//     until the reading is stored): throughput, p95, and an ordinary page's p95 meanwhile;
+//   - e-mail delivery per second through the outbox and the worker.
+// It measures whatever the code does and asserts nothing about time.
+//
+// Options: --tubs 500 --readings 500 --samples 40 --mails 300 --reuse (keep an earlier seed of
+// the same size) --no-build (reuse build-bench/).
+import { type ChildProcess } from "node:child_process";
+import { spawnSync } from "node:child_process";
+import { randomUUID } from "node:crypto";
+import { existsSync, readFileSync, rmSync } from "node:fs";
+import path from "node:path";
+import pg from "pg";
+import { seedScale, SCALE_ADMIN_EMAIL, SCALE_PASSWORD, SCALE_TECH_EMAIL } from "../../app/ops/seed-scale";
+import {
+  assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres, startS3, stopChildren, waitForPort,
+} from "../../app/ops/services";
+import { renderStripPhoto } from "../render/strip-photo";
+
+const P = { postgres: 54400, s3: 4600, smtp: 1050, mailWeb: 1100, app: 3200 };
+const root = process.cwd();
+const folder = ".bench";
+const dataDir = path.join(root, folder);
+const buildDir = "build-bench";
+const base = `http://127.0.0.1:${P.app}`;
+const args = process.argv.slice(2);
+const num = (name: string, fallback: number) => {
+  const i = args.indexOf(`--${name}`);
+  const v = i >= 0 ? Number(args[i + 1]) : fallback;
+  if (!Number.isInteger(v) || v < 1) throw new Error(`--${name} needs a whole number above zero`);
+  return v;
+};
+const TUBS = num("tubs", 500);
+const READINGS = num("readings", 500);
+const SAMPLES = num("samples", 40);
+const MAILS = num("mails", 300);
+const FINAL = new Set(["read", "failed", "confirmed", "manual"]);
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const quantile = (xs: number[], q: number) => {
+  if (!xs.length) return Number.NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.ceil(q * s.length) - 1)];
+};
+const ms = (n: number) => (Number.isFinite(n) ? n.toFixed(n < 10 ? 1 : 0) : "–");
+
+async function signIn(email: string) {
+  const res = await fetch(`${base}/api/auth/sign-in/email`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: base },
+    body: JSON.stringify({ email, password: SCALE_PASSWORD }),
+  });
+  if (!res.ok) throw new Error(`could not sign in as ${email}: ${res.status} ${await res.text()}`);
+  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+}
+
+/** One request, timed from sending to the last byte of the body. */
+async function timed(url: string, cookie: string, init: RequestInit = {}) {
+  const t0 = performance.now();
+  const res = await fetch(url.startsWith("http") ? url : `${base}${url}`, { ...init, headers: { cookie, origin: base, ...(init.headers ?? {}) }, redirect: "manual" });
+  const body = await res.arrayBuffer();
+  return { ms: performance.now() - t0, status: res.status, bytes: body.byteLength, body };
+}
+
+type Row = { what: string; url: string; median: number; p95: number; status: number; kb: number };
+
+async function measurePage(what: string, url: string, cookie: string): Promise<Row> {
+  let last = { status: 0, bytes: 0 };
+  for (let i = 0; i < 3; i++) last = await timed(url, cookie);
+  const times: number[] = [];
+  for (let i = 0; i < SAMPLES; i++) {
+    const r = await timed(url, cookie);
+    times.push(r.ms);
+    last = r;
+  }
+  return { what, url, median: quantile(times, 0.5), p95: quantile(times, 0.95), status: last.status, kb: last.bytes / 1024 };
+}
+
+async function main() {
+  console.log(`Dipwell app benchmark: ${TUBS} tubs × ${READINGS} readings, ${SAMPLES} samples a page\n`);
+  for (const [what, port] of Object.entries(P)) if (what !== "postgres") await assertPortFree(port, `the benchmark's ${what}`);
+  const postgres = await startPostgres({ projectRoot: root, folder, port: P.postgres });
+  let worker: ChildProcess | undefined;
+  const cleanup = () => {
+    stopChildren();
+    postgres.stop();
+  };
+  process.on("SIGINT", () => (cleanup(), process.exit(130)));
+  try {
+    const dbName = "dipwell_bench";
+    const databaseUrl = postgres.url(dbName);
+    await createDatabase(postgres.url("postgres"), dbName);
+    const sql = new pg.Pool({ connectionString: databaseUrl, max: 4 });
+    const seeded = await sql
+      .query(`select (select count(*)::int from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test') as tubs,
+                     (select count(*)::int from reading r join tub t on t.id = r.tub_id join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test') as readings`)
+      .then((r) => r.rows[0] as { tubs: number; readings: number })
+      .catch(() => ({ tubs: 0, readings: 0 }));
+    if (args.includes("--reuse") && seeded.tubs === TUBS && seeded.readings === TUBS * READINGS) {
+      console.log(`Reusing the seeded data (${seeded.tubs} tubs, ${seeded.readings} readings).`);
+    } else {
+      console.log("Seeding with SQL…");
+      const r = await seedScale({ tubs: TUBS, readings: READINGS, databaseUrl });
+      console.log(`Seeded in ${r.seconds.toFixed(1)} s: ${r.tubs} tubs, ${r.readings} readings, ${r.waiting} waiting for review.`);
+    }
+
+    rmSync(path.join(dataDir, "s3"), { recursive: true, force: true });
+    rmSync(path.join(dataDir, "mail"), { recursive: true, force: true });
+    await startS3({ projectRoot: root, dataDir: path.join(dataDir, "s3"), port: P.s3, bucket: "dipwell-photos", allowedOrigins: [base] });
+    await startMailCatcher({ projectRoot: root, dataDir: path.join(dataDir, "mail"), smtpPort: P.smtp, webPort: P.mailWeb });
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      ...serviceEnv({ databaseUrl, s3Port: P.s3, smtpPort: P.smtp, mailWebPort: P.mailWeb, publicUrl: base, dataDir }),
+      NODE_ENV: "production",
+      PORT: String(P.app),
+      HOST: "127.0.0.1",
+      DIPWELL_BUILD_DIR: buildDir,
+    };
+    if (!(args.includes("--no-build") && existsSync(path.join(root, buildDir, "server", "index.js")))) {
+      console.log("Building the app…");
+      const b = spawnSync(path.join(root, "node_modules", ".bin", "react-router"), ["build"], { cwd: root, stdio: ["ignore", "ignore", "inherit"], env });
+      if (b.status !== 0) throw new Error("The app did not build.");
+    }
+    spawnService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env, quiet: true });
+    worker = spawnService("worker", path.join(root, "node_modules", ".bin", "tsx"), ["app/jobs/worker.ts"], { cwd: root, env, quiet: true });
+    await waitForPort(P.app, "the app", 60_000);
+    // Let the worker create its queues before the outbox is used.
+    await sleep(3000);
+
+    const tech = await signIn(SCALE_TECH_EMAIL);
+    const admin = await signIn(SCALE_ADMIN_EMAIL);
+    const {
+      rows: [pick],
+    } = await sql.query(
+      `select t.id as tub, (select r.id from reading r where r.tub_id = t.id order by r.taken_at desc limit 1) as reading
+         from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test' order by t.name limit 1`,
+    );
+    const tub = `/tubs/${pick.tub}`;
+
+    // ------------------------------------------------------------ pages and APIs
+    console.log("Timing pages…");
+    const pages: [string, string, string][] = [
+      ["dashboard (/clients)", "/clients", tech],
+      ["dashboard, page 10", "/clients?page=10", tech],
+      ["dashboard, needing attention", "/clients?show=attention", tech],
+      ["review queue", "/clients/review", tech],
+      ["tub list", "/tubs", tech],
+      ["tub list, page 15", "/tubs?page=15", tech],
+      ["tub list, search", "/tubs?q=harbour", tech],
+      ["tub page", tub, tech],
+      ["history", `${tub}/history`, tech],
+      ["history, page 40 by status", `${tub}/history?page=40&sort=status&dir=asc`, tech],
+      ["history CSV (500 readings)", `${tub}/history.csv`, tech],
+      ["trends page", `${tub}/trends`, tech],
+      ["trends API, 90 days", `/api/tubs/${pick.tub}/trends`, tech],
+      ["trends API, 3 years", `/api/tubs/${pick.tub}/trends?days=1095`, tech],
+      ["reading", `${tub}/readings/${pick.reading}`, tech],
+      ["treatment plan", `${tub}/plan`, tech],
+      ["treatments", `${tub}/treatments`, tech],
+      ["visit notes", `${tub}/notes`, tech],
+      ["notifications", "/notifications", tech],
+      ["products", "/products", tech],
+      ["charts", "/charts", tech],
+      ["users (admin)", "/admin/users", admin],
+      ["users, search (admin)", "/admin/users?q=owner-02", admin],
+      ["e-mail log (admin)", "/admin/email", admin],
+    ];
+    const rows: Row[] = [];
+    for (const [what, url, cookie] of pages) rows.push(await measurePage(what, url, cookie));
+
+    // ------------------------------------------------------------ uploads
+    console.log("Rendering the test photo and timing uploads…");
+    const chart = JSON.parse(readFileSync(path.join(root, "calibration", "demo-6pad.json"), "utf8"));
+    const photo = await renderStripPhoto(chart, { seed: 11, width: 2048, height: 1536 });
+    const { rows: tubs } = await sql.query(
+      `select t.id from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test' order by t.name offset 1 limit 100`,
+    );
+    const ordinary = tub; // the tub page, measured idle above
+    const idleRow = rows.find((r) => r.url === ordinary)!;
+    const uploads: { n: number; done: number; seconds: number; p95: number; median: number; registerP95: number; pageP95: number; errors: string[] }[] = [];
+    let variant = 0;
+    for (const n of [20, 50]) {
+      const errors: string[] = [];
+      let running = true;
+      const pageTimes: number[] = [];
+      const background = (async () => {
+        while (running) pageTimes.push((await timed(ordinary, tech)).ms);
+      })();
+      const t0 = performance.now();
+      const results = await Promise.all(
+        Array.from({ length: n }, async (_, i) => {
+          // Each upload a different photo (a few bytes after the image's end make a new file).
+          const bytes = Buffer.concat([photo.jpeg, Buffer.from(`bench-${randomUUID()}-${variant++}`)]);
+          const tubId = tubs[i % tubs.length].id;
+          const start = performance.now();
+          try {
+            const pre = await fetch(`${base}/api/tubs/${tubId}/uploads`, {
+              method: "POST", headers: { cookie: tech, origin: base, "content-type": "application/json" },
+              body: JSON.stringify({ contentType: "image/jpeg", size: bytes.length }),
+            });
+            if (!pre.ok) throw new Error(`presign ${pre.status}: ${(await pre.text()).slice(0, 120)}`);
+            const { key, url } = (await pre.json()) as { key: string; url: string };
+            const put = await fetch(url, { method: "PUT", headers: { "content-type": "image/jpeg" }, body: bytes });
+            if (!put.ok) throw new Error(`PUT ${put.status}`);
+            const r0 = performance.now();
+            const reg = await fetch(`${base}/api/tubs/${tubId}/photos`, {
+              method: "POST", headers: { cookie: tech, origin: base, "content-type": "application/json" }, body: JSON.stringify({ key }),
+            });
+            const registerMs = performance.now() - r0;
+            if (!reg.ok) throw new Error(`register ${reg.status}: ${(await reg.text()).slice(0, 120)}`);
+            const out = (await reg.json()) as { readingId?: string; photoId?: string; status?: string };
+            // Ready when the reading is stored with its result (read, or could not be read).
+            if (!(out.status && FINAL.has(out.status))) {
+              const deadline = Date.now() + 240_000;
+              for (;;) {
+                const q = out.readingId
+                  ? await sql.query("select status::text from reading where id = $1", [out.readingId])
+                  : await sql.query("select r.status::text from reading r join photo p on p.id = r.photo_id where p.s3_key = $1", [key]);
+                if (q.rows[0] && FINAL.has(q.rows[0].status)) break;
+                if (Date.now() > deadline) throw new Error("the reading was not ready within 240 s");
+                await sleep(100);
+              }
+            }
+            return { ms: performance.now() - start, registerMs };
+          } catch (error) {
+            errors.push((error as Error).message);
+            return null;
+          }
+        }),
+      );
+      const seconds = (performance.now() - t0) / 1000;
+      running = false;
+      await background;
+      const ok = results.filter((r): r is { ms: number; registerMs: number } => r !== null);
+      uploads.push({
+        n, done: ok.length, seconds, median: quantile(ok.map((r) => r.ms), 0.5), p95: quantile(ok.map((r) => r.ms), 0.95),
+        registerP95: quantile(ok.map((r) => r.registerMs), 0.95), pageP95: quantile(pageTimes, 0.95), errors,
+      });
+      await sleep(2000);
+    }
+
+    // ------------------------------------------------------------ e-mail
+    console.log(`Queuing ${MAILS} e-mails through the outbox…`);
+    Object.assign(process.env, env);
+    const { enqueueEmail } = await import("../../app/features/notify/outbox.server");
+    const run = randomUUID().slice(0, 8);
+    const m0 = performance.now();
+    for (let i = 0; i < MAILS; i++) {
+      await enqueueEmail({
+        kind: "test_due", to: `owner-${String((i % TUBS) + 1).padStart(4, "0")}@scale.lanternbay.test`, dedupeKey: `bench:${run}:${i}`,
+        subject: "A water test is due (benchmark)", text: "A benchmark message.", html: "<p>A benchmark message.</p>",
+      });
+    }
+    const queuedSeconds = (performance.now() - m0) / 1000;
+    let sent = 0;
+    const deadline = performance.now() + 120_000;
+    let lastSentAt = m0;
+    while (performance.now() < deadline) {
+      const c = (await sql.query("select count(*)::int as n from email_log where dedupe_key like $1 and status = 'sent'", [`bench:${run}:%`])).rows[0].n as number;
+      if (c > sent) lastSentAt = performance.now();
+      sent = c;
+      if (sent >= MAILS) break;
+      await sleep(250);
+    }
+    const mailSeconds = (lastSentAt - m0) / 1000;
+    const mailRate = sent / Math.max(0.001, mailSeconds);
+
+    // ------------------------------------------------------------ report
+    const pad = (s: string, n: number) => s.padEnd(n);
+    const lpad = (s: string, n: number) => s.padStart(n);
+    console.log(`\nPages and APIs (technician with ${TUBS} client tubs × ${READINGS} readings; ms from request to last byte, ${SAMPLES} requests each)`);
+    console.log(`${pad("page", 32)}${lpad("median", 8)}${lpad("p95", 8)}${lpad("status", 8)}${lpad("KB", 8)}  url`);
+    for (const r of rows) console.log(`${pad(r.what, 32)}${lpad(ms(r.median), 8)}${lpad(ms(r.p95), 8)}${lpad(String(r.status), 8)}${lpad(r.kb.toFixed(0), 8)}  ${r.url}`);
+    console.log(`\nConcurrent photo uploads (3 MP JPEG; presign → PUT → register → reading stored)`);
+    console.log(`${pad("uploads", 10)}${lpad("ready", 7)}${lpad("per s", 8)}${lpad("median", 9)}${lpad("p95", 9)}${lpad("register p95", 14)}${lpad("tub page p95", 14)}${lpad("idle p95", 10)}`);
+    for (const u of uploads) {
+      console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(ms(idleRow.p95), 10)}`);
+      for (const e of [...new Set(u.errors)].slice(0, 3)) console.log(`    error: ${e}`);
+    }
+    console.log(`\nE-mail: ${MAILS} queued through the outbox in ${queuedSeconds.toFixed(1)} s; ${sent} sent in ${mailSeconds.toFixed(1)} s${sent < MAILS ? " (stopped waiting after 120 s)" : ""}`);
+
+    const dashboard = rows[0];
+    const slowest = rows.reduce((a, b) => (b.p95 > a.p95 ? b : a));
+    const under50 = uploads.find((u) => u.n === 50)!;
+    console.log("");
+    console.log(`dashboard p95: ${Math.round(dashboard.p95)} ms`);
+    console.log(`slowest page p95: ${Math.round(slowest.p95)} ms (${slowest.what})`);
+    console.log(`page p95 under 50 uploads / idle: ${(under50.pageP95 / idleRow.p95).toFixed(2)}`);
+    console.log(`mail per second: ${mailRate.toFixed(1)}`);
+    await sql.end();
+  } finally {
+    worker?.kill("SIGTERM");
+    cleanup();
+  }
+  process.exit(0);
+}
+
+main().catch((error) => {
+  console.error(error instanceof Error ? error.message : error);
+  stopChildren();
+  process.exit(1);
+});
