@@ -455,11 +455,19 @@ export const emailLog = pgTable(
     dedupeKey: text("dedupe_key").notNull().unique(),
     to: text("to_address").notNull(),
     subject: text("subject").notNull(),
-    /** queued, sent, failed (will retry), dead (gave up) */
+    /** queued, sending, sent, failed (will retry), dead (gave up, or refused for good), skipped */
     status: text("status").notNull().default("queued"),
     attempts: integer("attempts").notNull().default(0),
     lastError: text("last_error"),
     sentAt: timestamp("sent_at", { withTimezone: true }),
+    /** while "sending": the worker holds the message until then; after it, another worker may take it over */
+    leaseUntil: timestamp("lease_until", { withTimezone: true }),
+    /** the delivery job (pg-boss) that carries the message */
+    jobId: uuid("job_id"),
+    /** the Message-ID header, fixed before the first attempt so a repeat after a crash carries the same one */
+    messageId: text("message_id"),
+    /** the SMTP server's answer when it accepted the message (its queue id) */
+    smtpResponse: text("smtp_response"),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
@@ -468,5 +476,7 @@ export const emailLog = pgTable(
     // the admin's log, newest first, whole or by status
     index("email_log_updated_idx").on(t.updatedAt),
     index("email_log_status_updated_idx").on(t.status, t.updatedAt),
+    // messages whose sender may have died (the worker's recovery sweep)
+    index("email_log_sending_lease_idx").on(t.leaseUntil).where(sql`${t.status} = 'sending'`),
   ],
 );

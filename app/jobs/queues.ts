@@ -18,6 +18,10 @@ export const DELIVER_RETRY = { retryLimit: 7, retryDelay: 30, retryBackoff: true
 export const UPLOAD_SWEEP_QUEUE = "photo-upload-sweep";
 export const UPLOAD_SWEEP_CRON = "17 * * * *";
 
+/** E-mail jobs fetched at once, and how often an idle worker looks for more (pg-boss's shortest interval). */
+export const DELIVER_BATCH = 50;
+export const DELIVER_POLL_SECONDS = 0.5;
+
 export async function createQueues(boss: PgBoss) {
   await boss.createQueue(UPLOAD_SWEEP_QUEUE, { name: UPLOAD_SWEEP_QUEUE, policy: "singleton", retryLimit: 1, expireInSeconds: 600 });
   await boss.createQueue(SCAN_QUEUE, { name: SCAN_QUEUE, policy: "singleton", retryLimit: 1, expireInSeconds: 240 });

@@ -10,7 +10,7 @@ import PgBoss from "pg-boss";
 import { databaseDownSince, databaseUnavailable, noteDatabaseBack, noteDatabaseError } from "../lib/db-health";
 import { databaseReachable } from "../lib/db.server";
 import { env } from "../lib/env.server";
-import { registerJobs } from "./jobs";
+import { registerJobs, startRecovery } from "./jobs";
 
 // pg-boss completes or fails a finished job without waiting for the answer; when
 // the database went away in that instant the promise rejects with nobody
@@ -44,6 +44,7 @@ process.on("SIGTERM", stop);
 
 await boss.start();
 await registerJobs(boss);
+startRecovery(boss);
 console.log("Dipwell worker is running.");
 
 // Say so in the log when the database answers again after an outage.

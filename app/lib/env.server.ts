@@ -28,6 +28,13 @@ const schema = z.object({
   MAIL_FROM: z.string().min(3).default("Dipwell <no-reply@dipwell.test>"),
   /** the local mail catcher's web API, for the admin's dev inbox page; unset in production */
   MAIL_CATCHER_URL: z.string().url().optional(),
+  /** SMTP connections the worker keeps open at once (several messages in flight) */
+  SMTP_MAX_CONNECTIONS: z.coerce.number().int().min(1).max(50).default(5),
+  /**
+   * seconds a worker holds a message it is sending; when a worker dies mid-send, another one
+   * takes the message over after this (keep it above the SMTP timeouts: 10 + 10 + 20 s)
+   */
+  EMAIL_SEND_LEASE_SECONDS: z.coerce.number().int().min(2).max(3600).default(120),
   /** largest photo accepted, in bytes */
   MAX_PHOTO_BYTES: z.coerce.number().int().positive().default(15 * 1024 * 1024),
 });

@@ -2,9 +2,14 @@
 //
 // enqueueEmail() claims the message's dedupe key in email_log and queues a
 // pg-boss job in the same database transaction, so a message is queued once or
-// not at all. deliverEmail() (the job) claims the row again before talking to
-// the SMTP server and marks it sent afterwards: a retry, a second worker or a
-// restarted worker finds it sent (or being sent) and sends nothing.
+// not at all. deliverEmail() (the job) claims the row before talking to the
+// SMTP server, for a lease of EMAIL_SEND_LEASE_SECONDS, and marks it sent with
+// the server's answer afterwards. Delivery is at least once: a worker that dies
+// mid-send leaves the row "sending" with a lease that runs out; then the job's
+// retry, or the next worker's recovery sweep (recoverStalledEmails), sends it
+// again with the same Message-ID. A message already sent is never sent again;
+// one refused for good (a 5xx answer, a bad address) is not retried.
+import { createHash } from "node:crypto";
 import { and, eq, inArray, sql } from "drizzle-orm";
 import type { Transporter } from "nodemailer";
 import type PgBoss from "pg-boss";
@@ -13,7 +18,7 @@ import { appBoss } from "../../jobs/boss.server";
 import { DELIVER_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
 import { env } from "../../lib/env.server";
-import { defaultTransport, smtpTransport } from "../../lib/mail.server";
+import { defaultTransport, permanentSmtpFailure, smtpTransport } from "../../lib/mail.server";
 
 export type OutgoingEmail = {
   /** the kind of message, e.g. "retest", "invitation"; users can switch kinds off */
@@ -58,6 +63,7 @@ export async function enqueueEmail(mail: OutgoingEmail, opts: { boss?: PgBoss; s
       startAfter: opts.startAfter,
       db: { executeSql: (text: string, values: unknown[]) => client.query(text, values) },
     });
+    await client.query("update email_log set job_id = $1 where id = $2", [jobId, claimed.rows[0].id]);
     await client.query("commit");
     return { queued: true, jobId };
   } catch (error) {
@@ -70,18 +76,26 @@ export async function enqueueEmail(mail: OutgoingEmail, opts: { boss?: PgBoss; s
 
 export { smtpTransport };
 
+export type DeliverOutcome = "sent" | "already-sent" | "switched-off" | "refused";
 
+/** Thrown when another worker holds the message right now: the job is retried later and then finds it sent (or sends it). */
+export class EmailBeingSent extends Error {}
 
-export type DeliverOutcome = "sent" | "already-sent" | "switched-off";
+/** The Message-ID a message keeps across every attempt (so a repeat after a crash is recognisably the same message). */
+function messageIdFor(dedupeKey: string) {
+  const domain = /@([^>\s]+)>?\s*$/.exec(env().MAIL_FROM)?.[1] ?? "dipwell.invalid";
+  return `<${createHash("sha256").update(dedupeKey).digest("hex").slice(0, 32)}@${domain}>`;
+}
 
 /**
- * Sends one queued e-mail. Throws when the SMTP server fails, after recording
- * the failure (status "failed", or "dead" on the last attempt), so pg-boss
- * retries the job with back-off.
+ * Sends one queued e-mail. Throws when the SMTP server fails for now, after
+ * recording the failure (status "failed", or "dead" on the last attempt), so
+ * pg-boss retries the job with back-off. A refusal for good is recorded as
+ * "dead" at once and not thrown: there is nothing to retry.
  */
 export async function deliverEmail(
   mail: OutgoingEmail,
-  opts: { transport?: Transporter; finalAttempt?: boolean } = {},
+  opts: { transport?: Transporter; finalAttempt?: boolean; leaseSeconds?: number } = {},
 ): Promise<DeliverOutcome> {
   // The user may have switched this kind off while the message waited out quiet hours.
   if (mail.userId) {
@@ -101,36 +115,111 @@ export async function deliverEmail(
     }
   }
 
-  // Claim before sending. A row already "sending" belongs to a worker that may
-  // have handed the message to the SMTP server before it stopped: leave it.
-  const [claimed] = await db
-    .update(emailLog)
-    .set({ status: "sending", attempts: sql`${emailLog.attempts} + 1` })
-    .where(and(eq(emailLog.dedupeKey, mail.dedupeKey), inArray(emailLog.status, ["queued", "failed"])))
-    .returning({ id: emailLog.id });
-  if (!claimed) return "already-sent";
+  // Claim before sending: a queued or failed row, or one whose sender died (its lease ran out).
+  // The lease outlasts the SMTP client's own time limits (10 s to connect, 10 s for the greeting,
+  // 20 s of silence), so a live sender always finishes or fails before anyone may take over.
+  const lease = opts.leaseSeconds ?? env().EMAIL_SEND_LEASE_SECONDS;
+  const claimed = await db.execute<{ id: string; message_id: string; attempts: number }>(sql`
+    update email_log
+       set status = 'sending', attempts = attempts + 1, lease_until = now() + make_interval(secs => ${lease}),
+           message_id = coalesce(message_id, ${messageIdFor(mail.dedupeKey)}), updated_at = now()
+     where dedupe_key = ${mail.dedupeKey}
+       and (status in ('queued', 'failed') or (status = 'sending' and (lease_until is null or lease_until < now())))
+     returning id, message_id, attempts`);
+  const row = claimed.rows[0];
+  if (!row) {
+    const [current] = await db.select({ status: emailLog.status }).from(emailLog).where(eq(emailLog.dedupeKey, mail.dedupeKey));
+    if (current?.status === "sending") throw new EmailBeingSent(`"${mail.subject}" to ${mail.to} is being sent by another worker.`);
+    return "already-sent";
+  }
 
   const transport = opts.transport ?? defaultTransport();
+  let info: { messageId?: string; response?: string };
   try {
-    await transport.sendMail({
-      from: env().MAIL_FROM,
-      to: mail.to,
-      subject: mail.subject,
-      text: mail.text,
-      html: mail.html,
-      headers: mail.headers,
-      attachments: mail.attachments?.map((a) => ({
-        filename: a.filename, contentType: a.contentType, cid: a.cid, content: Buffer.from(a.contentBase64, "base64"),
-      })),
-    });
+    info = await transport.sendMail({
+        from: env().MAIL_FROM,
+        to: mail.to,
+        subject: mail.subject,
+        text: mail.text,
+        html: mail.html,
+        headers: mail.headers,
+        messageId: row.message_id,
+        attachments: mail.attachments?.map((a) => ({
+          filename: a.filename, contentType: a.contentType, cid: a.cid, content: Buffer.from(a.contentBase64, "base64"),
+        })),
+      });
   } catch (error) {
     const message = error instanceof Error ? error.message : String(error);
+    const refused = permanentSmtpFailure(error);
     await db
       .update(emailLog)
-      .set({ status: opts.finalAttempt ? "dead" : "failed", lastError: message.slice(0, 1000) })
-      .where(eq(emailLog.id, claimed.id));
+      .set({
+        status: refused || opts.finalAttempt ? "dead" : "failed",
+        lastError: (refused ? `Refused for good by the mail server, not retried: ${message}` : message).slice(0, 1000),
+        leaseUntil: null,
+      })
+      // only while this attempt still holds the message (another worker may have taken it over)
+      .where(and(eq(emailLog.id, row.id), eq(emailLog.status, "sending"), eq(emailLog.attempts, row.attempts)));
+    if (refused) return "refused";
     throw new Error(`Could not send "${mail.subject}" to ${mail.to}: ${message}`);
   }
-  await db.update(emailLog).set({ status: "sent", sentAt: new Date(), lastError: null }).where(eq(emailLog.id, claimed.id));
+  await db
+    .update(emailLog)
+    .set({ status: "sent", sentAt: new Date(), lastError: null, leaseUntil: null, messageId: info.messageId ?? row.message_id, smtpResponse: info.response?.slice(0, 500) ?? null })
+    .where(eq(emailLog.id, row.id));
   return "sent";
+}
+
+/**
+ * Recovery of messages whose worker died while sending: rows still "sending"
+ * after their lease ran out, whose delivery job is still marked active (nobody
+ * will finish it until pg-boss expires it, minutes later). Each gets a fresh job
+ * at once, queued in the same transaction that hands the row back. Returns how
+ * many were handed back. The worker runs this when it starts and then every
+ * half lease.
+ */
+export async function recoverStalledEmails(boss: PgBoss, limit = 100): Promise<number> {
+  const stale = await db.execute<{ id: string; job_id: string | null; dedupe_key: string }>(sql`
+    select id, job_id, dedupe_key from email_log
+     where status = 'sending' and lease_until < now()
+     order by lease_until limit ${limit}`);
+  let recovered = 0;
+  for (const r of stale.rows) {
+    const job = r.job_id ? await boss.getJobById<OutgoingEmail>(DELIVER_QUEUE, r.job_id) : null;
+    // A job waiting for its retry (pg-boss expired it already) will take the row over by itself.
+    if (job && (job.state === "created" || job.state === "retry")) continue;
+    if (!job || job.state !== "active") {
+      await db
+        .update(emailLog)
+        .set({ status: "dead", leaseUntil: null, lastError: "The worker stopped while sending and the message's job is gone; it was not sent again." })
+        .where(and(eq(emailLog.id, r.id), eq(emailLog.status, "sending")));
+      continue;
+    }
+    const client = await db.$client.connect();
+    try {
+      await client.query("begin");
+      const handedBack = await client.query(
+        `update email_log set status = 'failed', lease_until = null, updated_at = now(),
+                last_error = 'The worker stopped while sending; sending it again.'
+          where id = $1 and status = 'sending' and lease_until < now() returning id`,
+        [r.id],
+      );
+      if (handedBack.rowCount === 0) {
+        await client.query("rollback");
+        continue;
+      }
+      const jobId = await boss.send(DELIVER_QUEUE, job.data, { db: { executeSql: (text: string, values: unknown[]) => client.query(text, values) } });
+      await client.query("update email_log set job_id = $1 where id = $2", [jobId, r.id]);
+      await client.query("commit");
+      recovered++;
+    } catch (error) {
+      await client.query("rollback").catch(() => {});
+      throw error;
+    } finally {
+      client.release();
+    }
+    // The old job belonged to the dead worker; stop it so nobody runs it later (it would find the message sent anyway).
+    await boss.cancel(DELIVER_QUEUE, r.job_id!).catch(() => {});
+  }
+  return recovered;
 }

@@ -30,7 +30,7 @@ export default function AdminEmail({ loaderData }: Route.ComponentProps) {
   const { rows, status, page } = loaderData;
   return (
     <div className="space-y-4">
-      <PageTitle sub="Failed messages are retried with growing gaps; “dead” ones gave up.">E-mail log</PageTitle>
+      <PageTitle sub="Failed messages are retried with growing gaps; “dead” ones gave up, or the mail server refused them for good.">E-mail log</PageTitle>
       <nav className="flex flex-wrap gap-2" aria-label="Filter by status">
         {[null, ...EMAIL_STATUSES].map((s) => (
           <a key={s ?? "all"} href={s ? `?status=${s}` : "?"} className={cx("rounded-lg px-3 py-2 font-bold no-underline", s === status ? "bg-well-50 text-well-900" : "text-ink-soft")}>
