@@ -65,7 +65,7 @@ async function main() {
   await assertPortFree(P.app, "the Dipwell app");
   // Supervised: a child that dies (a crash, an out-of-memory kill) is started again, and the log says so.
   superviseService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), ["./build/server/index.js"], { cwd: root, env, quiet: true });
-  superviseService("worker", path.join(root, "node_modules", ".bin", "tsx"), ["app/jobs/worker.ts"], { cwd: root, env });
+  superviseService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env });
   await waitForPort(P.app, "the Dipwell app", 60_000);
 
   console.log(`

@@ -95,7 +95,7 @@ async function main() {
     const appEnv = { ...env, NODE_ENV: "production", PORT: String(P.app), HOST: "127.0.0.1" };
     spawnService("app", bin("react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env: appEnv, quiet: true });
     if (existsSync(path.join(root, "app", "jobs", "worker.ts"))) {
-      spawnService("worker", bin("tsx"), ["app/jobs/worker.ts"], { cwd: root, env: appEnv, quiet: true });
+      spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env: appEnv, quiet: true });
     }
     await waitForPort(P.app, "the Dipwell app", 60_000);
 
