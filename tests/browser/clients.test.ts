@@ -2,7 +2,7 @@
 // e-mailed link, sees the tub on the clients dashboard with a reading waiting for review,
 // reviews it and writes a visit note; an admin sees the users; the owner ends the access.
 import { randomUUID } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { eq, like } from "drizzle-orm";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as s from "~/db/schema";
@@ -40,7 +40,13 @@ describe("clients", () => {
     expect(link.pathname).toMatch(/^\/invitations\//);
 
     // A reading the reader was unsure about, two days old, with low chlorine.
-    const [r] = await db.insert(s.reading).values({ tubId: tub.id, status: "read", takenAt: new Date(Date.now() - 3 * 86_400_000) }).returning();
+    // Read with the demo 3-pad chart, so the review shows its swatches beside the values.
+    const chart = await db.query.stripChart.findFirst({ where: like(s.stripChart.name, "%3-pad%") });
+    const batch = chart ? await db.query.stripBatch.findFirst({ where: eq(s.stripBatch.chartId, chart.id) }) : undefined;
+    const [r] = await db
+      .insert(s.reading)
+      .values({ tubId: tub.id, status: "read", takenAt: new Date(Date.now() - 3 * 86_400_000), chartVersionId: batch?.currentVersionId ?? null })
+      .returning();
     await db.insert(s.readingPad).values([
       { readingId: r.id, analyte: "free_chlorine", unit: "mg/L", readValue: 1, confidence: 0.4, needsReview: true, reviewReason: "Please check Free chlorine: its colour is uneven." },
       { readingId: r.id, analyte: "ph", unit: "pH", readValue: 7.4, confidence: 0.9 },
@@ -63,6 +69,7 @@ describe("clients", () => {
 
     await tp.goto("/clients/review");
     const item = tp.getByTestId("review-item").filter({ hasText: tub.name });
+    await item.getByRole("radiogroup", { name: /Free chlorine/ }).or(item.getByRole("group", { name: /Chart colours for Free chlorine/ })).first().waitFor();
     await item.getByLabel("Correct Free chlorine").fill("1.5");
     await screenshot(tp, "32-review");
     await item.getByRole("button", { name: "Save corrections" }).click();

@@ -56,7 +56,7 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                 <a href={`/tubs/${t.id}`} className="text-lg font-bold text-well-900">{t.name}</a>
                 <p className="text-sm text-ink-soft">{t.ownerName}</p>
                 <ul className="mt-2 space-y-1 text-sm">
-                  <li className={t.outOfRange.length ? "font-bold text-alert" : "text-ok"}>
+                  <li className={t.outOfRange.length ? "font-bold text-alert" : t.latestAt ? "text-ok" : "text-ink-soft"}>
                     {t.outOfRange.length ? `Out of range: ${t.outOfRange.join("; ")}` : t.latestAt ? "Water in range at the last sure reading" : "No sure reading yet"}
                   </li>
                   {t.unsureNewerAt && (
@@ -65,7 +65,7 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                     </li>
                   )}
                   <li className={t.overdue ? "font-bold text-caution" : ""}>
-                    {t.latestAt ? `Last test ${when(t.latestAt)}` : "Never tested"}
+                    {t.latestAt ? `Last test ${when(t.latestAt)}` : t.unsureNewerAt ? "No sure test yet" : "Never tested"}
                     {t.overdue ? " · test overdue" : t.dueAt ? ` · next due ${when(t.dueAt)}` : ""}
                   </li>
                   <li className={t.waiting ? "font-bold text-caution" : ""}>
