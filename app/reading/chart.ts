@@ -88,11 +88,17 @@ export function parseChart(json: unknown): StripChart {
     throw new ChartError(`The chart is not valid: ${msgs.join("; ")}.`);
   }
   const c = parsed.data;
-  const seen = new Set<string>();
+  // One analyte may sit on several pads (read jointly); those pads must list the same values.
+  const firstOf = new Map<string, { index: number; values: number[] }>();
   const pads: ChartPad[] = c.pads.map((p, i) => {
     const name = `pad ${i + 1} (${p.analyte})`;
-    if (seen.has(p.analyte)) throw new ChartError(`The chart lists the analyte "${p.analyte}" twice.`);
-    seen.add(p.analyte);
+    const values = p.swatches.map((s) => s.value);
+    const first = firstOf.get(p.analyte);
+    if (!first) firstOf.set(p.analyte, { index: i, values });
+    else if (first.values.length !== values.length || first.values.some((v, k) => Math.abs(v - values[k]) > 1e-9))
+      throw new ChartError(
+        `The chart is not valid: pads ${first.index + 1} and ${i + 1} both read "${p.analyte}", so they must list the same swatch values (${first.values.join(", ")} against ${values.join(", ")}).`,
+      );
     for (let k = 1; k < p.swatches.length; k++) {
       if (!(p.swatches[k].value > p.swatches[k - 1].value))
         throw new ChartError(

@@ -621,7 +621,22 @@ function better(g: StripGeometry, best: StripGeometry | null): boolean {
   return g.rank > best.rank;
 }
 
-export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
+/** Where diagnostics go during one locateStrip call (the caller's trace option). */
+let activeTrace: ((line: string) => void) | undefined;
+function debug(...parts: unknown[]) {
+  activeTrace?.(parts.map((p) => (typeof p === "string" ? p : JSON.stringify(p))).join(" "));
+}
+
+export function locateStrip(img: RgbImage, chart: StripChart, trace?: (line: string) => void): StripGeometry {
+  activeTrace = trace;
+  try {
+    return locate(img, chart);
+  } finally {
+    activeTrace = undefined;
+  }
+}
+
+function locate(img: RgbImage, chart: StripChart): StripGeometry {
   const search = makeSearch(img);
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
@@ -655,7 +670,7 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
   // pairs of long parallel edges.
   if (!best || !best.lengthOk || !best.convincing) {
     for (const c of edgePairCandidates(search, chart)) {
-      if (process.env.DIPWELL_DEBUG) console.error("edge pair", JSON.stringify({ cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score }));
+      if (activeTrace) debug("edge pair", JSON.stringify({ cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score }));
       const f = search.f;
       const axis0: Axis = { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
       const g = fitBoth(img, chart, layout, padEndMm, axis0);
@@ -663,7 +678,7 @@ export function locateStrip(img: RgbImage, chart: StripChart): StripGeometry {
       if (best && best.lengthOk && best.convincing && best.rank > 15) return wholeStrip(img, chart, layout, padEndMm, best);
     }
   }
-  if (process.env.DIPWELL_DEBUG && best) console.error("chosen", JSON.stringify({ c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing }));
+  if (activeTrace && best) debug("chosen", JSON.stringify({ c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing }));
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
   return wholeStrip(img, chart, layout, padEndMm, best);
@@ -678,7 +693,7 @@ function wholeStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: 
   if (g.axisSpan >= 0.75 * len) return g;
   const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
   const again = fitBoth(img, chart, layout, padEndMm, axis0);
-  if (process.env.DIPWELL_DEBUG && again) console.error("whole strip", JSON.stringify({ fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing }));
+  if (activeTrace && again) debug("whole strip", JSON.stringify({ fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing }));
   return again && again.convincing && again.fitScore >= 0.9 * g.fitScore ? again : g;
 }
 
@@ -760,7 +775,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
       if (!found) free = true;
     } else return null;
   }
-  if (process.env.DIPWELL_DEBUG) console.error("walk", JSON.stringify({ c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), c0: [Math.round(axis0.cx), Math.round(axis0.cy)], w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }), wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
+  if (activeTrace) debug("walk", JSON.stringify({ c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), c0: [Math.round(axis0.cx), Math.round(axis0.cy)], w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }), wP, wM, "scaleW", scaleW, "thr", thr, "pH", pHandle, "len", (wP.end - wM.end) / chart.strip.lengthMm);
   const eP = wP.end, eM = wM.end;
   const lm = eP - eM;
   let scale = lm / chart.strip.lengthMm;
@@ -864,7 +879,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     }
   }
   if (!bestFit) return null;
-  if (process.env.DIPWELL_DEBUG) console.error("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1), d: f.dir, t: Math.round(f.tip + f.dir * f.off), k: +(f.sc * f.k).toFixed(2) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
+  if (activeTrace) debug("fit", JSON.stringify(fits.map((f) => ({ s: +f.score.toFixed(1), ps: +f.ps.toFixed(1), gs: +f.gs.toFixed(1), d: f.dir, t: Math.round(f.tip + f.dir * f.off), k: +(f.sc * f.k).toFixed(2) }))), "lengthOk", lengthOk, "w", wpx.toFixed(1));
   const rivals = fits.filter((f) => bestFit!.score - f.score < Math.max(2, 0.15 * bestFit!.score));
   let chosenCost = 0;
   {
@@ -909,7 +924,7 @@ function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: nu
     };
     if (rivals.length >= 2) {
       const costs = rivals.map(colourCost);
-      if (process.env.DIPWELL_DEBUG) console.error("placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
+      if (activeTrace) debug("placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
       const order = costs.map((c, i) => i).sort((a, b) => costs[a] - costs[b]);
       const [i0, i1] = order;
       if (costs[i1] - costs[i0] > 3) bestFit = rivals[i0];

@@ -216,3 +216,13 @@ export async function cropPad(img: RgbImage, cx: number, cy: number, half: numbe
     .webp({ quality: 80 })
     .toBuffer();
 }
+
+/** Pad crops (square WebP images of one size) side by side in one WebP, in the order given. */
+export async function cropStrip(crops: Buffer[], size = 96, gap = 4): Promise<Buffer> {
+  const width = crops.length * size + (crops.length - 1) * gap;
+  const tiles = await Promise.all(crops.map((c) => sharp(c).resize(size, size, { fit: "fill" }).png().toBuffer()));
+  return sharp({ create: { width, height: size, channels: 3, background: "#ffffff" } })
+    .composite(tiles.map((input, i) => ({ input, left: i * (size + gap), top: 0 })))
+    .webp({ quality: 80 })
+    .toBuffer();
+}

@@ -2,6 +2,7 @@
 // from a chart photo, from reference solutions and from owners' corrections. Nothing here
 // changes the chart a batch reads with except saveVersion, which adds a new version row.
 import { and, asc, desc, eq, inArray, isNotNull, max } from "drizzle-orm";
+import { RefitError, refitFromSolutions } from "~/reading/refit";
 import { CalibrationError, proposeFromSample, sampleChartPhoto, type ChartGrid, type Quad } from "~/reading/calibrate";
 import { ChartError, exportChart, parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
 import { deltaE2000, hexToLab, labToHex, type Lab } from "~/reading/colour";
@@ -225,7 +226,8 @@ export async function latestChartPhoto(batchId: string) {
   return p ?? null;
 }
 
-export type Proposal = { definition: object; changes: { analyte: string; value: number; from: string; to: string; deltaE: number }[]; warnings: string[] };
+/** A proposed chart version; `pad` (chart pad index) is set for an analyte read from several pads. */
+export type Proposal = { definition: object; changes: { analyte: string; value: number; from: string; to: string; deltaE: number; pad?: number }[]; warnings: string[] };
 
 /** Samples the grid on the stored chart photo and proposes swatch colours (nothing is saved). */
 export async function proposeFromChartPhoto(chart: StripChart, photoId: string, batchId: string, grid: ChartGrid, white: Quad): Promise<Proposal> {
@@ -260,43 +262,27 @@ function setSwatch(doc: Doc, analyte: string, value: number, color: string) {
 }
 
 /**
- * Photos of strips dipped in solutions of known value: each is read with the batch's chart,
- * and each pad's measured colour becomes (or is added as) the swatch at the known value.
+ * Photos of strips dipped in solutions of known value: the reader's refit (app/reading/refit.ts,
+ * the same function as the calibrate-chart command) proposes the new swatches.
  */
 export async function proposeFromSolutions(chart: StripChart, samples: { photo: Buffer; known: Record<string, number> }[]): Promise<Proposal> {
-  if (!samples.length) throw new ChartInputError("Add at least one strip photo with the value of its reference solution.");
-  const doc = exportChart(chart) as Doc;
-  const changes: Proposal["changes"] = [];
-  const warnings: string[] = [];
-  const collected = new Map<string, Lab[]>();
-  for (const [i, s] of samples.entries()) {
-    const analytes = Object.keys(s.known);
-    if (!analytes.length) throw new ChartInputError(`Photo ${i + 1}: enter the known value of at least one pad.`);
-    let read;
-    try {
-      read = await readStrip(s.photo, chart, { checkPads: false });
-    } catch (e) {
-      if (e instanceof ReadingError) throw new ChartInputError(`Photo ${i + 1}: ${e.message}`);
-      throw e;
-    }
-    for (const a of analytes) {
-      const pad = read.pads.find((p) => p.analyte === a);
-      if (!pad) continue;
-      const key = `${a}\u0000${s.known[a]}`;
-      collected.set(key, [...(collected.get(key) ?? []), pad.lab]);
-    }
-    warnings.push(...read.warnings.map((w) => `Photo ${i + 1}: ${w}`));
+  try {
+    const r = await refitFromSolutions(chart, samples);
+    const multi = new Set(chart.pads.filter((p, i) => chart.pads.findIndex((q) => q.analyte === p.analyte) !== i).map((p) => p.analyte));
+    const changes: Proposal["changes"] = r.changes.map((c) => ({
+      analyte: c.analyte,
+      value: c.value,
+      from: c.from ?? "(new swatch)",
+      to: c.to,
+      deltaE: c.deltaE ?? NaN,
+      ...(multi.has(c.analyte) ? { pad: c.pad } : {}),
+    }));
+    const skipped = r.skipped.map((k) => `${k.sample} was not used: ${k.reason}`);
+    return { definition: r.definition, changes, warnings: [...skipped, ...r.warnings, ...closeWarnings(r.definition)] };
+  } catch (e) {
+    if (e instanceof RefitError || e instanceof ChartError) throw new ChartInputError(e.message);
+    throw e;
   }
-  for (const [key, labs] of collected) {
-    const [analyte, v] = key.split("\u0000");
-    const value = Number(v);
-    const mean = { l: avg(labs.map((l) => l.l)), a: avg(labs.map((l) => l.a)), b: avg(labs.map((l) => l.b)) };
-    const hex = labToHex(mean);
-    const from = setSwatch(doc, analyte, value, hex);
-    changes.push({ analyte, value, from: from ?? "(new swatch)", to: hex, deltaE: from ? deltaE2000(hexToLab(from), mean) : NaN });
-  }
-  readChartDocument(doc);
-  return { definition: doc, changes, warnings: [...warnings, ...closeWarnings(doc)] };
 }
 
 const avg = (a: number[]) => a.reduce((s, x) => s + x, 0) / a.length;
@@ -325,8 +311,11 @@ export async function correctionsReport(chart: StripChart, batchId: string) {
       const mean = { l: avg(labs.map((l) => l.l)), a: avg(labs.map((l) => l.a)), b: avg(labs.map((l) => l.b)) };
       return { value: s.value, n: labs.length, seen: labToHex(mean), deltaE: deltaE2000(s.lab, mean) };
     });
+    // An analyte read from several pads keeps one colour per pad; owners' confirmations of the
+    // joint value cannot say which pad was off, so only single-pad analytes get proposals here.
+    const onePad = chart.pads.filter((q) => q.analyte === p.analyte).length === 1;
     for (const b of bySwatch) {
-      if (b.seen && b.deltaE !== null && b.deltaE >= 1) {
+      if (onePad && b.seen && b.deltaE !== null && b.deltaE >= 1) {
         const from = setSwatch(doc, p.analyte, b.value, b.seen);
         changes.push({ analyte: p.analyte, value: b.value, from: from ?? "", to: b.seen, deltaE: b.deltaE });
       }

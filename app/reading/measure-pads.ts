@@ -1,0 +1,123 @@
+// Measuring the placed pads: each pad's inner 60 % sampled robustly in linear light, corrected
+// with the white reference from the bare plastic on both sides of it (von Kries per linear
+// channel, mapping the plastic to the chart's strip colour), then CIELAB D65.
+import type { StripChart } from "./chart";
+import { correctLinear, deltaE2000, hexToRgb, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, type Lab, type Mat3, type Rgb } from "./colour";
+import type { StripGeometry } from "./detect";
+import { ReadingError, sampleQuad, type RegionSample, type RgbImage } from "./image";
+
+export type PadMeasurement = {
+  /** White-corrected colour of the pad. */
+  lab: Lab;
+  /** Half the ΔE00 between the pad's quartile colours (after correction): how even it is. */
+  spread: number;
+  sample: RegionSample;
+  /** The white reference used (linear RGB as photographed). */
+  white: Rgb;
+  /** The pad looks like the bare plastic. */
+  plasticLike: boolean;
+  /** Bare plastic where the chart says a pad never looks like plastic: no pad there. */
+  missing: boolean;
+  /** Pad centre in working-image pixels. */
+  centre: [number, number];
+  /** Half the pad's side in working-image pixels (for crops). */
+  half: number;
+};
+
+type BareSample = { t: number; s: RegionSample };
+
+/** The four corners of a rectangle centred on the strip axis at t. */
+export function quadAt(g: StripGeometry, t: number, halfAlong: number, halfAcross: number): [number, number][] {
+  const [cx, cy] = g.centre, [ux, uy] = g.u, [vx, vy] = g.v;
+  const px = cx + t * ux, py = cy + t * uy;
+  return [
+    [px - halfAlong * ux - halfAcross * vx, py - halfAlong * uy - halfAcross * vy],
+    [px + halfAlong * ux - halfAcross * vx, py + halfAlong * uy - halfAcross * vy],
+    [px + halfAlong * ux + halfAcross * vx, py + halfAlong * uy + halfAcross * vy],
+    [px - halfAlong * ux + halfAcross * vx, py - halfAlong * uy + halfAcross * vy],
+  ];
+}
+
+function bareSamples(img: RgbImage, g: StripGeometry): BareSample[] {
+  const out: BareSample[] = [];
+  const margin = Math.max(2, 0.5 * g.pxPerMm);
+  const halfAcross = g.widthPx * 0.3;
+  for (const [a, b] of g.bare) {
+    const narrow = b - a - 2 * margin < 1.5;
+    if (narrow && b - a < 3) continue;
+    const lo = narrow ? a + (b - a) * 0.3 : a + margin, hi = narrow ? b - (b - a) * 0.3 : b - margin;
+    const s = sampleQuad(img, quadAt(g, (lo + hi) / 2, (hi - lo) / 2, halfAcross), { whiteReference: true });
+    if (s && s.kept >= 4) out.push({ t: (lo + hi) / 2, s });
+  }
+  return out;
+}
+
+export function median(a: readonly number[]): number {
+  const s = [...a].sort((x, y) => x - y);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+export const luminance = (c: readonly number[]) => 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2];
+
+const chromaticity = (c: readonly number[]) => {
+  const sum = c[0] + c[1] + c[2] + 1e-9;
+  return [c[0] / sum, c[1] / sum];
+};
+
+/** Bare-plastic samples with those far from the others' chromaticity dropped (pad bleed, the strip's end). */
+function consistentBare(bare: BareSample[]): BareSample[] {
+  const medR = median(bare.map((b) => chromaticity(b.s.linear)[0])), medG = median(bare.map((b) => chromaticity(b.s.linear)[1]));
+  const kept = bare.filter((b) => {
+    const [r, g] = chromaticity(b.s.linear);
+    return Math.hypot(r - medR, g - medG) < 0.02;
+  });
+  return kept.length ? kept : bare;
+}
+
+/** White reference for a pad at t: the nearest bare plastic on each side, weighted by distance. */
+function whiteAt(bare: BareSample[], t: number, maxBareY: number): Rgb {
+  const before = bare.filter((b) => b.t < t).sort((a, b) => b.t - a.t)[0];
+  const after = bare.filter((b) => b.t > t).sort((a, b) => a.t - b.t)[0];
+  const refs = [before, after].filter((r): r is BareSample => !!r);
+  // A reference far darker than the others lies in a shadow the pad is probably not in.
+  const usable = refs.filter((r) => luminance(r.s.linear) > 0.35 * maxBareY);
+  const use = usable.length ? usable : refs.length ? refs : [bare[0]];
+  if (use.length === 1) return use[0].s.linear;
+  const d0 = Math.abs(use[0].t - t), d1 = Math.abs(use[1].t - t);
+  const w0 = d1 / (d0 + d1 || 1), w1 = 1 - w0;
+  return [0, 1, 2].map((c) => use[0].s.linear[c] * w0 + use[1].s.linear[c] * w1) as Rgb;
+}
+
+export type StripMeasurement = { pads: PadMeasurement[]; warnings: string[] };
+
+/** Samples and white-corrects every chart pad at its placement. */
+export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, trace?: (msg: string) => void): StripMeasurement {
+  const warnings: string[] = [];
+  const found = bareSamples(img, g);
+  if (!found.length)
+    throw new ReadingError("no_strip", "The strip was found, but no bare plastic could be seen next to its pads to judge the light. Take the photo again with the whole strip in view.");
+  const bare = consistentBare(found);
+  const maxBareY = Math.max(...bare.map((b) => luminance(b.s.linear)));
+  if (bare.some((b) => b.s.clippedFraction > 0.5)) warnings.push("The photo is overexposed on the strip; colours may read too pale.");
+  const stripLinear = hexToRgb(chart.strip.color).map(srgbToLinear);
+  const pads = chart.pads.map((cp, i): PadMeasurement => {
+    const pl = g.pads[i];
+    const sample = sampleQuad(img, quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6));
+    if (!sample) throw new ReadingError("no_strip", "Part of the strip lies outside the photo. Take the photo again with the whole strip in view.");
+    const white = whiteAt(bare, pl.t, maxBareY);
+    const m: Mat3 = whiteCorrectionMatrix(white, stripLinear);
+    const corrected = correctLinear(m, sample.linear);
+    const lab = linearRgbToLab(corrected[0], corrected[1], corrected[2]);
+    const spread = deltaE2000(linearRgbToLab(...correctLinear(m, sample.q25)), linearRgbToLab(...correctLinear(m, sample.q75))) / 2;
+    // Plastic-like: the sample looks like the bare strip. It counts as a missing pad only where
+    // every colour on the pad's scale differs clearly from the plastic.
+    const toStrip = deltaE2000(lab, chart.strip.lab);
+    const minPadToStrip = Math.min(...cp.swatches.map((s) => deltaE2000(s.lab, chart.strip.lab)));
+    const plasticLike = toStrip < 2.5 && spread < 2;
+    const missing = plasticLike && minPadToStrip >= 4 && toStrip < 0.4 * minPadToStrip;
+    trace?.(`pad ${i + 1} ${cp.analyte}: lab ${[lab.l, lab.a, lab.b].map((v) => v.toFixed(1)).join(" ")} spread ${spread.toFixed(1)}${missing ? " missing" : ""}`);
+    return { lab, spread, sample, white, plasticLike, missing, centre: pl.centre, half: Math.max(pl.halfAlong, pl.halfAcross) };
+  });
+  return { pads, warnings };
+}
