@@ -21,6 +21,13 @@ describe("strip-chart/1 parsing", () => {
       expect(exportChart(parseChart(JSON.parse(JSON.stringify(once))))).toEqual(once);
     }
   });
+  it("accepts one analyte on several pads with the same swatch values, and refuses different values", () => {
+    const c = clone(demo3);
+    c.pads[2] = { ...clone(c.pads[1]), centerMm: c.pads[2].centerMm };
+    expect(parseChart(c).pads.filter((p) => p.analyte === "ph")).toHaveLength(2);
+    c.pads[2].swatches[0].value += 0.1;
+    expect(() => parseChart(c)).toThrow(/pads 2 and 3 both read "ph", so they must list the same swatch values/);
+  });
   it("refuses a pad with a single swatch", () => {
     const c = clone(demo3);
     c.pads[1].swatches = c.pads[1].swatches.slice(0, 1);

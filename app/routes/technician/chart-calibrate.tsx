@@ -73,7 +73,8 @@ export async function action({ context, request, params }: Route.ActionArgs) {
       for (let i = 0; i < SOLUTION_SLOTS; i++) {
         const file = fd.get(`photo_${i}`);
         const known: Record<string, number> = {};
-        for (const pad of currentChart.pads) {
+        // One value per analyte, even for an analyte read from several pads.
+        for (const pad of currentChart.pads.filter((q, k, all) => all.findIndex((o) => o.analyte === q.analyte) === k)) {
           const raw = String(fd.get(`value_${i}_${pad.analyte}`) ?? "").trim();
           if (!raw) continue;
           const v = Number(raw.replace(",", "."));
@@ -114,8 +115,11 @@ function ProposalView({ proposal, source, pads }: { proposal: Proposal; source: 
         </thead>
         <tbody>
           {proposal.changes.map((c) => (
-            <tr key={`${c.analyte}-${c.value}`} className="border-t border-line">
-              <td>{pads.find((p) => p.analyte === c.analyte)?.label ?? c.analyte}</td>
+            <tr key={`${c.analyte}-${c.pad ?? ""}-${c.value}`} className="border-t border-line">
+              <td>
+                {pads.find((p) => p.analyte === c.analyte)?.label ?? c.analyte}
+                {c.pad !== undefined && <span className="text-ink-soft"> · pad {c.pad + 1}</span>}
+              </td>
               <td>{c.value}</td>
               <td><Swatch color={c.from} /></td>
               <td><Swatch color={c.to} /></td>
@@ -195,7 +199,7 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
               <legend className="px-1 font-bold">Strip photo {i + 1}</legend>
               <input type="file" name={`photo_${i}`} accept="image/jpeg,image/png,image/webp" aria-label={`Strip photo ${i + 1}`} />
               <div className="mt-2 grid gap-2 sm:grid-cols-3">
-                {pads.map((p) => (
+                {pads.filter((p, k) => pads.findIndex((q) => q.analyte === p.analyte) === k).map((p) => (
                   <label key={p.analyte} className="text-sm">
                     {p.label} ({p.unit})
                     <Input name={`value_${i}_${p.analyte}`} inputMode="decimal" aria-label={`Photo ${i + 1} ${p.label}`} />
