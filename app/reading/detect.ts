@@ -636,7 +636,23 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: (line: str
   }
 }
 
+/**
+ * The photo must show the strip at a readable size: a placement whose whole strip would span
+ * less than this share of the photo's long side is a pattern in the surface, not the strip
+ * (the capture screen asks for the strip to fill most of the frame).
+ */
+export const MIN_STRIP_SHARE = 0.2;
+
 function locate(img: RgbImage, chart: StripChart): StripGeometry {
+  const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
+  const fitBoth = (img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis) => {
+    const g = fitBothAnySize(img, chart, layout, padEndMm, axis0);
+    if (g && g.pxPerMm < minPxPerMm) {
+      if (activeTrace) debug("too small", JSON.stringify({ c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) }));
+      return null;
+    }
+    return g;
+  };
   const search = makeSearch(img);
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
@@ -692,7 +708,7 @@ function wholeStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: 
   const tm = (g.tipT + g.handleT) / 2, len = Math.abs(g.handleT - g.tipT);
   if (g.axisSpan >= 0.75 * len) return g;
   const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
-  const again = fitBoth(img, chart, layout, padEndMm, axis0);
+  const again = fitBothAnySize(img, chart, layout, padEndMm, axis0);
   if (activeTrace && again) debug("whole strip", JSON.stringify({ fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing }));
   return again && again.convincing && again.fitScore >= 0.9 * g.fitScore ? again : g;
 }
@@ -702,7 +718,7 @@ function wholeStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: 
  * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
-function fitBoth(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis): StripGeometry | null {
+function fitBothAnySize(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis): StripGeometry | null {
   const g = fitStrip(img, chart, layout, padEndMm, axis0);
   if (g && g.lengthOk && g.convincing) return g;
   const e = fitStrip(img, chart, layout, padEndMm, axis0, true);
