@@ -1,25 +1,28 @@
-// Benchmark: time to read a 12-megapixel strip photo versus the time sharp alone takes to
-// decode and downscale the same photo to the reader's working size, plus peak memory.
+// Benchmark: for each of a set of varied photos, the time to read it against the time sharp
+// alone takes to decode it and downscale it to the reader's working size, their ratio, the mean
+// ratio, the worst photo, and peak memory. One process, after a warm-up.
 //
-//   npm run bench:reading [-- --runs N] [-- --photo file.jpg]
+//   npm run bench:reading [-- --runs N] [-- --real DIR]
 //
+// Photos: synthetic strips rendered by tests/render at several sizes (up to 12 MP), and the real
+// photos in ../shared/eval/real (read where they lie at run time, never copied) when present.
 // Figures are printed side by side; nothing here asserts a time.
 import fs from "node:fs";
-import os from "node:os";
 import path from "node:path";
 import sharp from "sharp";
-import { parseChart } from "../../app/reading/chart";
-import { WORK_LONG_SIDE, workingPipeline } from "../../app/reading/image";
+import { parseChart, type StripChart } from "../../app/reading/chart";
+import { workingPipeline } from "../../app/reading/image";
 import { readStrip } from "../../app/reading/index";
+import { renderStripPhoto } from "../render/strip-photo";
+import { asRenderChart } from "../render/types";
 
 const argv = process.argv.slice(2);
 const opt = (name: string, dflt: string) => {
   const i = argv.indexOf(`--${name}`);
   return i >= 0 ? argv[i + 1]! : dflt;
 };
-const runs = Number(opt("runs", "9"));
-const practice = "/work/shared/eval/practice/practice-12mp-hard-000.jpg";
-const chartPath = opt("chart", fs.existsSync("/work/shared/eval/charts/practice-3pad.json") ? "/work/shared/eval/charts/practice-3pad.json" : "calibration/demo-3pad.json");
+const runs = Number(opt("runs", "3"));
+const realDir = opt("real", path.resolve("../shared/eval/real"));
 
 let rssPeak = 0;
 const sampleRss = () => {
@@ -28,26 +31,22 @@ const sampleRss = () => {
 };
 const timer = setInterval(sampleRss, 2);
 
-async function photo12mp(): Promise<{ file: string; buf: Buffer }> {
-  const given = opt("photo", "");
-  const candidates = [given, practice].filter(Boolean);
-  for (const f of candidates) {
-    if (!fs.existsSync(f)) continue;
-    const m = await sharp(f).metadata();
-    if ((m.width ?? 0) * (m.height ?? 0) >= 11.5e6) return { file: f, buf: fs.readFileSync(f) };
-  }
-  // Fall back: enlarge whatever photo we have (or the first practice photo) to 4032×3024.
-  const src = candidates.find((f) => fs.existsSync(f));
-  if (!src) throw new Error("no photo to benchmark: pass --photo <12 MP JPEG>");
-  const tmp = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "dipwell-bench-")), "bench-12mp.jpg");
-  await sharp(src).resize(4032, 3024, { fit: "fill" }).jpeg({ quality: 90 }).toFile(tmp);
-  return { file: tmp, buf: fs.readFileSync(tmp) };
+type Case = { name: string; buf: Buffer; chart: StripChart };
+const cases: Case[] = [];
+const load = (f: string) => JSON.parse(fs.readFileSync(f, "utf8"));
+const demo3 = load("calibration/demo-3pad.json"), demo6 = load("calibration/demo-6pad.json");
+const sizes: [number, number][] = [[4032, 3024], [3024, 4032], [4000, 3000], [2016, 1512], [1600, 1200], [1200, 1600], [1024, 768], [3264, 2448]];
+const surfaces = ["paper", "counter", "wood", "cloth", "tiles"] as const;
+const casts = ["daylight", "warm", "cool", "fluorescent"] as const;
+for (const [i, [width, height]] of sizes.entries()) {
+  const doc = i % 2 ? demo6 : demo3;
+  const r = await renderStripPhoto(asRenderChart(doc), { seed: 7100 + i, width, height, surface: surfaces[i % 5], cast: casts[i % 4], rotationDeg: (i * 67) % 360 });
+  cases.push({ name: `synthetic ${i % 2 ? "6" : "3"}-pad ${width}×${height} ${surfaces[i % 5]} ${casts[i % 4]}`, buf: r.jpeg, chart: parseChart(doc) });
 }
-
-function median(a: number[]) {
-  const s = [...a].sort((x, y) => x - y);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+if (fs.existsSync(path.join(realDir, "chart-base.json"))) {
+  const chart = parseChart(load(path.join(realDir, "chart-base.json")));
+  const real = fs.readdirSync(realDir).filter((f) => /\.jpe?g$/i.test(f)).sort();
+  for (const f of real.filter((_, k) => k % 5 === 2)) cases.push({ name: `real ${f}`, buf: fs.readFileSync(path.join(realDir, f)), chart });
 }
 
 async function time(fn: () => Promise<unknown>) {
@@ -56,32 +55,45 @@ async function time(fn: () => Promise<unknown>) {
   sampleRss();
   return Number(process.hrtime.bigint() - t0) / 1e6;
 }
+const median = (a: number[]) => {
+  const s = [...a].sort((x, y) => x - y);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+};
 
-const { file, buf } = await photo12mp();
-const meta = await sharp(buf).metadata();
-const chart = parseChart(JSON.parse(fs.readFileSync(chartPath, "utf8")));
-const decode = () => workingPipeline(buf).toBuffer();
-const read = () => readStrip(buf, chart);
-
-// Warm-up (libvips caches, JIT).
+// Warm-up (libvips, JIT) on the first photo.
 for (let i = 0; i < 2; i++) {
-  await decode();
-  await read();
+  await workingPipeline(cases[0].buf).toBuffer();
+  await readStrip(cases[0].buf, cases[0].chart).catch(() => null);
 }
 sharp.cache(false);
-const tDecode: number[] = [], tRead: number[] = [];
-for (let i = 0; i < runs; i++) {
-  // Interleave so both see the same machine state.
-  tDecode.push(await time(decode));
-  tRead.push(await time(read));
+const rows: { name: string; px: string; read: number; decode: number; ratio: number; result: string }[] = [];
+for (const c of cases) {
+  const meta = await sharp(c.buf).metadata();
+  const tDecode: number[] = [], tRead: number[] = [];
+  let result = "";
+  for (let r = 0; r < runs; r++) {
+    tDecode.push(await time(() => workingPipeline(c.buf).toBuffer()));
+    tRead.push(
+      await time(async () => {
+        try {
+          const out = await readStrip(c.buf, c.chart);
+          result = out.pads.map((p) => `${p.analyte}=${p.value.toFixed(2)}`).join(" ");
+        } catch (e) {
+          result = `refused: ${(e as Error).message.slice(0, 40)}`;
+        }
+      }),
+    );
+  }
+  const read = median(tRead), decode = median(tDecode);
+  rows.push({ name: c.name, px: `${((meta.width! * meta.height!) / 1e6).toFixed(1)} MP`, read, decode, ratio: read / decode, result });
 }
 clearInterval(timer);
-const md = median(tDecode), mr = median(tRead);
-const out = await read();
-console.log(`photo                     ${file} (${meta.width}×${meta.height}, ${(buf.length / 1e6).toFixed(1)} MB)`);
-console.log(`working size              long side ${WORK_LONG_SIDE} px; ${runs} runs each after 2 warm-up runs`);
-console.log(`sharp decode + downscale  median ${md.toFixed(1)} ms   (min ${Math.min(...tDecode).toFixed(1)}, max ${Math.max(...tDecode).toFixed(1)})`);
-console.log(`readStrip (whole read)    median ${mr.toFixed(1)} ms   (min ${Math.min(...tRead).toFixed(1)}, max ${Math.max(...tRead).toFixed(1)})`);
-console.log(`ratio read / decode       ${(mr / md).toFixed(2)}   (target ≤ 1.5)`);
-console.log(`peak memory (rss)         ${(rssPeak / 2 ** 20).toFixed(0)} MiB`);
-console.log(`pads read                 ${out.pads.map((p) => `${p.analyte}=${p.value.toFixed(2)}`).join(", ")}`);
+const pad = (s: string, n: number) => (s.length >= n ? s.slice(0, n) : s + " ".repeat(n - s.length));
+console.log(`${pad("photo", 52)} ${pad("size", 8)} ${pad("read ms", 9)} ${pad("decode ms", 10)} ratio`);
+for (const r of rows) console.log(`${pad(r.name, 52)} ${pad(r.px, 8)} ${pad(r.read.toFixed(1), 9)} ${pad(r.decode.toFixed(1), 10)} ${r.ratio.toFixed(2)}   ${r.result.slice(0, 50)}`);
+const mean = rows.reduce((s, r) => s + r.ratio, 0) / rows.length;
+const worst = rows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
+console.log(`photos ${rows.length}; median of ${runs} runs each after a warm-up; decode = sharp decode + downscale to the working size`);
+console.log(`mean ratio ${mean.toFixed(2)} (target ≤ 1.5); worst ${worst.ratio.toFixed(2)} (${worst.name}; target ≤ 3)`);
+console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB`);
