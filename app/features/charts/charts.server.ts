@@ -4,7 +4,7 @@
 import { and, asc, desc, eq, inArray, isNotNull, max } from "drizzle-orm";
 import { RefitError, refitFromSolutions } from "~/reading/refit";
 import { CalibrationError, proposeFromSample, sampleChartPhoto, type ChartGrid, type Quad } from "~/reading/calibrate";
-import { ChartError, exportChart, parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
+import { ChartError, exportChart, parseChart, ReadingError, type StripChart } from "~/reading";
 import { deltaE2000, hexToLab, labToHex, type Lab } from "~/reading/colour";
 import { chartVersion, photo, reading, readingPad, stripBatch, stripChart } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
