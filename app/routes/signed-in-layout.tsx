@@ -23,6 +23,7 @@ export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
   const items = NAV_ITEMS.filter((i) => hasRole(user, ...i.roles));
   return (
     <div className="min-h-screen">
+      <a href="#main" className="dw-skip">Skip to the page content</a>
       <header className="sticky top-0 z-10 border-b border-line bg-shell/95 backdrop-blur">
         <div className="mx-auto flex max-w-5xl flex-wrap items-center gap-x-4 gap-y-1 px-4 py-2">
           <a href="/tubs" className="flex items-center gap-2 text-well-700 no-underline">
@@ -57,7 +58,7 @@ export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-5xl px-4 py-6">
+      <main id="main" tabIndex={-1} className="mx-auto max-w-5xl px-4 py-6 focus:outline-none">
         <Outlet />
       </main>
     </div>

@@ -31,7 +31,7 @@ export async function action({ context, request }: Route.ActionArgs) {
   if (!isValidTimeZone(timeZone) || timeZone === "") fields.timeZone = "Choose a time zone from the list.";
   if (!Number.isInteger(start) || start < 0 || start > 23) fields.quietStartHour = "Choose an hour from the list.";
   if (!Number.isInteger(end) || end < 0 || end > 23) fields.quietEndHour = "Choose an hour from the list.";
-  if (Object.keys(fields).length) return data({ fields, form: "Please check the marked fields." }, { status: 400 });
+  if (Object.keys(fields).length) return data({ fields, form: "A few answers need another look: each one says what to change. Nothing is saved yet." }, { status: 400 });
   const enabledKinds = form.getAll("kind").map(String).filter(isMessageKind);
   await savePreferences(user.id, { timeZone, quietStartHour: start, quietEndHour: end, enabledKinds });
   return redirect("/settings/notifications?saved");

@@ -91,9 +91,9 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
               {steps.map((s, i) => {
                 const state = i < current ? "done" : i === current ? "current" : "later";
                 return (
-                  <li key={s.order} data-testid="setup-step" className={cx("rounded-xl border p-3", state === "current" ? "border-well-500 ring-2 ring-well-100" : "border-line", state === "done" && "opacity-70")}>
+                  <li key={s.order} data-testid="setup-step" className={cx("rounded-xl border p-3", state === "current" ? "border-well-500 ring-2 ring-well-100" : "border-line", state === "done" && "bg-sand")}>
                     <p>
-                      <strong>{state === "done" ? "✓" : `${s.order}.`}</strong> {s.words}
+                      <strong>{state === "done" ? <><span aria-hidden="true">✓</span><span className="sr-only">Done:</span></> : `${s.order}.`}</strong> {s.words}
                     </p>
                     {amount(s) && <p className="mt-1 font-bold text-well-900">Amount: {amount(s)}</p>}
                     {s.timerMinutes ? <p className="text-sm text-ink-soft">Timer: {s.timerMinutes >= 60 ? `${s.timerMinutes / 60} h` : `${s.timerMinutes} min`} after this step.</p> : null}

@@ -1,4 +1,5 @@
-import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { UnconfirmedMark, ValueTile } from "~/components/status";
+import { ButtonLink, Card, EmptyState, Notice, PageTitle, BackLink } from "~/components/ui";
 import { latestReading } from "~/features/readings/readings.server";
 import { currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
 import { db } from "~/lib/db.server";
@@ -34,7 +35,7 @@ export default function TubDetail({ loaderData }: Route.ComponentProps) {
   const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
   return (
     <div className="space-y-5">
-      <a href="/tubs" className="text-sm">← All tubs</a>
+      <BackLink href="/tubs">All tubs</BackLink>
       {notice && <Notice tone="ok">{notice}</Notice>}
       {tub.archived && <Notice tone="caution">This tub is archived. Its history is kept; restore it from the settings to use it again.</Notice>}
       <PageTitle sub={`${tub.volume} · ${tub.sanitiser === "chlorine" ? "Chlorine" : "Bromine"}${tub.strips ? ` · ${tub.strips}` : ""}`}>{tub.name}</PageTitle>
@@ -57,13 +58,13 @@ export default function TubDetail({ loaderData }: Route.ComponentProps) {
             <p className="text-ink-soft">
               {fmt(latest.takenAt)} · {latest.status === "confirmed" ? "confirmed" : latest.status === "failed" ? "could not be read" : "waiting for you to check it"}
             </p>
+            {!latest.confirmed && latest.pads.length > 0 && (
+              <p className="mt-2"><UnconfirmedMark>Not confirmed yet: these are the reader's values</UnconfirmedMark></p>
+            )}
             {latest.pads.length > 0 ? (
               <dl className="mt-2 grid grid-cols-2 gap-2 sm:grid-cols-3" data-testid="latest-values">
                 {latest.pads.map((p) => (
-                  <div key={p.analyte} className="rounded-xl bg-sand p-3">
-                    <dt className="text-sm text-ink-soft">{p.label}</dt>
-                    <dd className="text-lg font-bold">{p.value ?? "–"} <span className="text-sm font-normal">{p.unit}</span>{p.needsReview && <span className="ml-1 text-sm text-caution">check</span>}</dd>
-                  </div>
+                  <ValueTile key={p.analyte} label={p.label} value={p.value} unit={p.unit} status={p.status} target={p.target} unconfirmed={!latest.confirmed} unsure={!latest.confirmed && p.needsReview} />
                 ))}
               </dl>
             ) : (

@@ -1,5 +1,5 @@
 import { data, Form, redirect } from "react-router";
-import { Button, Card, PageTitle } from "~/components/ui";
+import { BackLink, Button, Card, PageTitle } from "~/components/ui";
 import { TubForm } from "~/features/tubs/TubForm";
 import { listBatches, parseTubForm, setArchived, updateTub } from "~/features/tubs/tubs.server";
 import { requireUser } from "~/lib/session.server";
@@ -31,7 +31,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
     return redirect(intent === "archive" ? "/tubs?archived=1" : `/tubs/${tub.id}`);
   }
   const parsed = await parseTubForm(form);
-  if (!parsed.ok) return data({ fields: parsed.fields, form: "Please check the marked fields." }, { status: 400 });
+  if (!parsed.ok) return data({ fields: parsed.fields, form: "A few answers need another look: each one says what to change. Nothing is saved yet." }, { status: 400 });
   const { shape, ...rest } = parsed.values;
   await updateTub(tub.id, shape ? { ...rest, shape } : rest);
   return redirect(`/tubs/${tub.id}?saved=1`);
@@ -41,7 +41,7 @@ export default function EditTub({ loaderData, actionData }: Route.ComponentProps
   const { tub, batches } = loaderData;
   return (
     <div className="mx-auto max-w-xl space-y-6">
-      <a href={`/tubs/${tub.id}`} className="text-sm">← Back to the tub</a>
+      <BackLink href={`/tubs/${tub.id}`}>{tub.initial.name}</BackLink>
       <PageTitle>Tub settings</PageTitle>
       <TubForm initial={tub.initial} batches={batches} errors={actionData?.fields} formError={actionData?.form} submitLabel="Save changes" />
       <Card>

@@ -1,5 +1,5 @@
 // History: every reading of the tub, sortable and paginated, with the photo and who confirmed it.
-import { ButtonLink, Card, EmptyState, PageTitle, cx } from "~/components/ui";
+import { ButtonLink, Card, EmptyState, PageTitle, cx, BackLink } from "~/components/ui";
 import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server";
 import { askedPage } from "~/lib/paging";
 import { requireUser } from "~/lib/session.server";
@@ -32,15 +32,18 @@ export default function History({ loaderData }: Route.ComponentProps) {
     const active = sort === key;
     const nextDir = active && dir === "desc" ? "asc" : "desc";
     return (
-      <a href={link({ sort: key, dir: nextDir, page: 1 })} className="no-underline" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : undefined}>
-        {label} {active ? (dir === "asc" ? "▲" : "▼") : "↕"}
+      <a href={link({ sort: key, dir: nextDir, page: 1 })} className="no-underline">
+        {label} <span aria-hidden="true">{active ? (dir === "asc" ? "▲" : "▼") : "↕"}</span>
+        <span className="sr-only">{active ? (dir === "asc" ? ", oldest first; sort newest first" : ", newest first; sort oldest first") : ", sort by this"}</span>
       </a>
     );
   };
+  // The sort order belongs on the column header, not on the link inside it.
+  const ariaSort = (key: string) => (sort === key ? (dir === "asc" ? "ascending" : "descending") : undefined);
   const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
   return (
     <div className="space-y-5">
-      <a href={base} className="text-sm">← {tub.name}</a>
+      <BackLink href={base}>{tub.name}</BackLink>
       <PageTitle sub={`${total} reading${total === 1 ? "" : "s"}`}>History</PageTitle>
       <div className="flex flex-wrap gap-3">
         <ButtonLink href={`${base}/read`}>New reading</ButtonLink>
@@ -57,9 +60,9 @@ export default function History({ loaderData }: Route.ComponentProps) {
             <thead className="bg-sand text-ink-soft">
               <tr>
                 <th className="p-3">Photo</th>
-                <th className="p-3">{sortLink("taken", "Taken")}</th>
+                <th className="p-3" aria-sort={ariaSort("taken")}>{sortLink("taken", "Taken")}</th>
                 <th className="p-3">Values</th>
-                <th className="hidden p-3 sm:table-cell">{sortLink("status", "Status")}</th>
+                <th className="hidden p-3 sm:table-cell" aria-sort={ariaSort("status")}>{sortLink("status", "Status")}</th>
                 <th className="hidden p-3 sm:table-cell">Confirmed by</th>
               </tr>
             </thead>

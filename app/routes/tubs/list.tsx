@@ -1,5 +1,7 @@
 import { Pager, withParams } from "~/components/Pager";
+import { StatusBadge, UnconfirmedMark } from "~/components/status";
 import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { glanceByTub } from "~/features/readings/readings.server";
 import { archivedTubs, tubListPage } from "~/features/tubs/tubs.server";
 import { askedPage, searchText } from "~/lib/paging";
 import { hasRole } from "~/lib/permissions";
@@ -13,13 +15,14 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const q = searchText(url);
   const { tubs, page, own } = await tubListPage(user, { page: askedPage(url), q });
+  const glance = await glanceByTub(tubs.map((t) => t.id));
   return {
     verified: url.searchParams.has("verified"),
     justArchived: url.searchParams.has("archived"),
     archived: await archivedTubs(user),
     isTechnician: hasRole(user, "technician", "admin"),
     q, page, own,
-    tubs,
+    tubs: tubs.map((t) => ({ ...t, glance: glance.get(t.id) ?? null })),
   };
 }
 
@@ -93,10 +96,35 @@ function TubCards({ tubs, showOwner }: { tubs: Route.ComponentProps["loaderData"
                 {Math.round(t.volumeLitres)} L · {t.sanitiser === "chlorine" ? "Chlorine" : "Bromine"}
                 {showOwner && t.ownerName ? ` · ${t.ownerName}` : ""}
               </p>
+              <TubGlance glance={t.glance} />
             </Card>
           </a>
         </li>
       ))}
     </ul>
+  );
+}
+
+/** The latest water on a card: the overall state first, then each value that is off. */
+function TubGlance({ glance }: { glance: Route.ComponentProps["loaderData"]["tubs"][number]["glance"] }) {
+  if (!glance || glance.values.length === 0) return <p className="mt-2 text-sm text-ink-soft" data-testid="tub-glance">No reading yet</p>;
+  const off = glance.values.filter((v) => v.status === "low" || v.status === "high");
+  return (
+    <div className="mt-2 space-y-1.5 text-sm" data-testid="tub-glance">
+      <p className="flex flex-wrap items-center gap-1.5">
+        {off.length === 0 ? <StatusBadge status="in">All in range</StatusBadge> : <StatusBadge status={off[0].status}>{off.length === 1 ? "1 value out of range" : `${off.length} values out of range`}</StatusBadge>}
+        {!glance.confirmed && <UnconfirmedMark />}
+        <span className="text-ink-soft">· tested {glance.ago}</span>
+      </p>
+      {off.length > 0 && (
+        <ul className="flex flex-wrap gap-1.5">
+          {off.map((v) => (
+            <li key={v.analyte}>
+              <StatusBadge status={v.status}>{v.label} {v.status === "low" ? "low" : "high"} · {v.value} {v.unit}</StatusBadge>
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
   );
 }

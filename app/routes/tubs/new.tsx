@@ -1,5 +1,5 @@
 import { data, redirect } from "react-router";
-import { PageTitle } from "~/components/ui";
+import { PageTitle, BackLink } from "~/components/ui";
 import { TubForm } from "~/features/tubs/TubForm";
 import { createTub, listBatches, parseTubForm } from "~/features/tubs/tubs.server";
 import { requireUser } from "~/lib/session.server";
@@ -15,7 +15,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 export async function action({ context, request }: Route.ActionArgs) {
   const user = requireUser(context, request);
   const parsed = await parseTubForm(await request.formData());
-  if (!parsed.ok) return data({ fields: parsed.fields, form: "Please check the marked fields." }, { status: 400 });
+  if (!parsed.ok) return data({ fields: parsed.fields, form: "A few answers need another look: each one says what to change. Nothing is saved yet." }, { status: 400 });
   const t = await createTub(user, parsed.values);
   return redirect(`/tubs/${t.id}?added=1`);
 }
@@ -24,7 +24,7 @@ export default function NewTub({ loaderData, actionData }: Route.ComponentProps)
   const tz = typeof Intl !== "undefined" ? Intl.DateTimeFormat().resolvedOptions().timeZone : "UTC";
   return (
     <div className="mx-auto max-w-xl">
-      <a href="/tubs" className="text-sm">← All tubs</a>
+      <BackLink href="/tubs">All tubs</BackLink>
       <PageTitle sub="A few facts about the water, so readings and treatment steps fit your tub.">Add a tub</PageTitle>
       <TubForm
         initial={{ name: "", volume: "", volumeUnit: "L", sanitiser: "chlorine", batchId: loaderData.batches[0]?.id ?? "", timeZone: tz || "UTC" }}

@@ -4,7 +4,7 @@ import { useCallback, useState } from "react";
 import { useNavigate } from "react-router";
 import { Countdown } from "~/components/reading/Countdown";
 import { PhotoUpload } from "~/components/reading/PhotoUpload";
-import { Button, ButtonLink, Card, Notice, PageTitle } from "~/components/ui";
+import { BackLink, Button, ButtonLink, Card, Notice, PageTitle } from "~/components/ui";
 import { maxPhotoBytes } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
@@ -34,7 +34,7 @@ export default function NewReading({ loaderData }: Route.ComponentProps) {
 
   return (
     <div className="mx-auto max-w-xl space-y-5">
-      <a href={`/tubs/${tub.id}`} className="text-sm">← {tub.name}</a>
+      <BackLink href={`/tubs/${tub.id}`}>{tub.name}</BackLink>
       <PageTitle sub={tub.name}>New reading</PageTitle>
       {!tub.hasBatch ? (
         <Notice tone="caution">

@@ -2,7 +2,7 @@
 // The owner confirms, taps the right swatch or types a value; a failed read is entered by hand here.
 import { useState } from "react";
 import { data, Form, redirect, useNavigation } from "react-router";
-import { Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
+import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
@@ -52,7 +52,7 @@ export default function ReviewReading({ loaderData, actionData }: Route.Componen
 
   return (
     <div className="mx-auto max-w-2xl space-y-5">
-      <a href={`/tubs/${tub.id}`} className="text-sm">← {tub.name}</a>
+      <BackLink href={`/tubs/${tub.id}`}>{tub.name}</BackLink>
       <PageTitle sub={when}>{confirmed ? "Reading" : failed ? "Enter the values" : "Check the reading"}</PageTitle>
       {duplicate && <Notice>You sent this photo before, so here is the reading Dipwell already made from it. Nothing was added twice.</Notice>}
       {justConfirmed && (

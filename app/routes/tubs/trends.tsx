@@ -2,7 +2,7 @@
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState } from "react";
 import { TrendCharts } from "~/components/reading/TrendCharts";
-import { ButtonLink, PageTitle } from "~/components/ui";
+import { BackLink, ButtonLink, PageTitle } from "~/components/ui";
 import { TREND_PERIODS } from "~/features/readings/periods";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
@@ -26,7 +26,7 @@ export default function Trends({ loaderData }: Route.ComponentProps) {
   return (
     <QueryClientProvider client={client}>
       <div className="space-y-5">
-        <a href={`/tubs/${tub.id}`} className="text-sm">← {tub.name}</a>
+        <BackLink href={`/tubs/${tub.id}`}>{tub.name}</BackLink>
         <PageTitle sub="Every reading over time, with your target range shaded.">Trends</PageTitle>
         <div className="flex flex-wrap gap-3">
           <ButtonLink href={`/tubs/${tub.id}/read`}>New reading</ButtonLink>
