@@ -1,9 +1,9 @@
 // Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
 // the reader run, the owner's review, history, CSV and trends.
-import { and, asc, count, desc, eq, gte, inArray, lte } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, inArray, lte, ne } from "drizzle-orm";
 import sharp from "sharp";
 import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
-import { chartVersion, photo, reading, readingPad, treatment, user as userTable } from "~/db/schema";
+import { chartVersion, photo, reading, readingPad, treatment, tub as tubTable, user as userTable } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { PhotoError, presignPhoto, receivePhoto, thumbKey } from "~/features/photos/intake.server";
@@ -11,6 +11,7 @@ import { headObject, putObject, readObject } from "~/lib/storage.server";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tubs.server";
+import { daysAgo, rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
 
 export { PhotoError, maxPhotoBytes } from "~/features/photos/intake.server";
@@ -400,8 +401,54 @@ export async function latestReading(t: Tub) {
   const r = await db.query.reading.findFirst({ where: eq(reading.tubId, t.id), orderBy: desc(reading.takenAt) });
   if (!r) return null;
   const pads = await db.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+  const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
   return {
     id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, error: r.error,
-    pads: pads.map((p) => ({ analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, needsReview: p.needsReview && p.confirmedValue === null })),
+    confirmed: r.status === "confirmed" || r.reviewedAt !== null,
+    pads: pads.map((p) => {
+      const value = p.confirmedValue ?? p.readValue;
+      const target = targets.get(p.analyte);
+      return {
+        analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value, needsReview: p.needsReview && p.confirmedValue === null,
+        target: target ? { min: target.min, max: target.max } : null, status: rangeStatus(value, target),
+      };
+    }),
   };
+}
+
+export type TubGlance = {
+  ago: string;
+  /** false while the reader's values wait for the owner or a technician to confirm them */
+  confirmed: boolean;
+  values: { analyte: string; label: string; value: number; unit: string; status: RangeStatus }[];
+};
+
+/**
+ * The water at a glance for tub cards: the latest reading that has values (one per tub, chosen in
+ * SQL), each value's status against the tub's targets, and whether anyone confirmed it.
+ */
+export async function glanceByTub(tubIds: string[], now = new Date()) {
+  const out = new Map<string, TubGlance>();
+  if (!tubIds.length) return out;
+  const tubs = await db.select().from(tubTable).where(inArray(tubTable.id, tubIds));
+  const latest = await db
+    .selectDistinctOn([reading.tubId], { id: reading.id, tubId: reading.tubId, takenAt: reading.takenAt, status: reading.status, reviewedAt: reading.reviewedAt })
+    .from(reading)
+    .where(and(inArray(reading.tubId, tubs.map((t) => t.id)), ne(reading.status, "failed")))
+    .orderBy(reading.tubId, desc(reading.takenAt));
+  if (!latest.length) return out;
+  const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, latest.map((r) => r.id)));
+  for (const r of latest) {
+    const t = tubs.find((x) => x.id === r.tubId)!;
+    const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
+    const values = pads
+      .filter((p) => p.readingId === r.id && (p.confirmedValue ?? p.readValue) !== null)
+      .map((p) => {
+        const value = (p.confirmedValue ?? p.readValue)!;
+        return { analyte: p.analyte, label: parameterLabel(p.analyte), value, unit: p.unit ?? "", status: rangeStatus(value, targets.get(p.analyte)) };
+      })
+      .sort((a, b) => a.label.localeCompare(b.label));
+    out.set(r.tubId, { ago: daysAgo(r.takenAt, now, t.timeZone), confirmed: r.status === "confirmed" || r.reviewedAt !== null, values });
+  }
+  return out;
 }

@@ -1,0 +1,66 @@
+// Water status at a glance: in range, low or high, in words and an icon (never colour alone),
+// and a visible mark on values nobody has confirmed yet.
+import type { ReactNode } from "react";
+import { rangeStatus, type RangeStatus } from "~/lib/range-status";
+import { cx } from "./ui";
+
+export { rangeStatus, type RangeStatus };
+
+export const STATUS_WORDS: Record<RangeStatus, string> = { in: "In range", low: "Low", high: "High", unknown: "No target" };
+
+const TONES: Record<RangeStatus, string> = {
+  in: "bg-ok-soft text-ok",
+  low: "bg-caution-soft text-caution",
+  high: "bg-alert-soft text-alert",
+  unknown: "bg-well-50 text-ink-soft",
+};
+
+/** The status icon alone (decorative: always shown beside the word). */
+export function StatusIcon({ status, className }: { status: RangeStatus; className?: string }) {
+  const common = { width: 16, height: 16, viewBox: "0 0 16 16", "aria-hidden": true as const, className: cx("shrink-0", className), fill: "none", stroke: "currentColor", strokeWidth: 2, strokeLinecap: "round" as const, strokeLinejoin: "round" as const };
+  if (status === "in") return <svg {...common}><circle cx="8" cy="8" r="6.5" /><path d="M5 8.2l2 2 4-4.4" /></svg>;
+  if (status === "low") return <svg {...common}><path d="M8 2.5v10M3.8 8.6 8 12.8l4.2-4.2" /></svg>;
+  if (status === "high") return <svg {...common}><path d="M8 13.5v-10M3.8 7.4 8 3.2l4.2 4.2" /></svg>;
+  return <svg {...common}><path d="M4 8h8" /></svg>;
+}
+
+/** "In range" / "Low" / "High" with its icon. */
+export function StatusBadge({ status, className, children }: { status: RangeStatus; className?: string; children?: ReactNode }) {
+  return (
+    <span data-status={status} className={cx("inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-sm font-bold", TONES[status], className)}>
+      <StatusIcon status={status} />
+      {children ?? STATUS_WORDS[status]}
+    </span>
+  );
+}
+
+/** The mark on values the reader was unsure of and nobody has confirmed. */
+export function UnconfirmedMark({ className, children = "Not confirmed" }: { className?: string; children?: ReactNode }) {
+  return (
+    <span data-testid="unconfirmed" className={cx("inline-flex items-center gap-1 rounded-full border border-dashed border-ink-soft px-2 py-0.5 text-sm font-bold text-ink-soft", className)}>
+      <svg width="14" height="14" viewBox="0 0 16 16" aria-hidden="true" fill="none" stroke="currentColor" strokeWidth="2" strokeLinecap="round">
+        <circle cx="8" cy="8" r="6.5" strokeDasharray="3 2.2" />
+        <path d="M8 4.8v3.6M8 11.2v.01" />
+      </svg>
+      {children}
+    </span>
+  );
+}
+
+/** A tile for one measured value: the number, its unit and its status in words. */
+export function ValueTile({ label, value, unit, status, target, unconfirmed, unsure }: { label: string; value: number | null; unit: string; status: RangeStatus; target?: { min: number; max: number } | null; unconfirmed?: boolean; unsure?: boolean }) {
+  const frame = { in: "border-ok/40 bg-ok-soft/60", low: "border-caution/50 bg-caution-soft/70", high: "border-alert/40 bg-alert-soft/70", unknown: "border-line bg-sand" }[status];
+  return (
+    <div data-testid="value-tile" data-status={status} className={cx("rounded-xl border-2 p-3", frame, unconfirmed && "border-dashed")}>
+      <dt className="text-sm text-ink-soft">{label}</dt>
+      <dd>
+        <span className="text-lg font-bold">{value ?? "–"}</span> <span className="text-sm">{unit}</span>
+        <span className="mt-1 flex flex-wrap gap-1">
+          {value !== null && <StatusBadge status={status} />}
+          {unsure ? <UnconfirmedMark>Reader unsure</UnconfirmedMark> : unconfirmed && <UnconfirmedMark />}
+        </span>
+        {target && <span className="mt-1 block text-xs text-ink-soft">aim {target.min}–{target.max}</span>}
+      </dd>
+    </div>
+  );
+}
