@@ -14,6 +14,7 @@ import { hasRole } from "~/lib/permissions";
 import { likePattern, pageOf, stopIfAborted } from "~/lib/paging";
 import type { Tub } from "~/lib/tubs.server";
 import { parseChart } from "~/reading/chart";
+import { rangeStatus } from "~/lib/range-status";
 import { analyteLabel } from "./labels";
 
 export class ClientInputError extends Error {
@@ -198,6 +199,7 @@ export async function dashboard(
       if (p.v > r.max) return [`${label(p.a)} high (${p.v}${unit}; aim ${r.min}–${r.max})`];
       return [];
     });
+    const statuses = (t.pads ?? []).flatMap((p) => (p.v === null ? [] : [{ analyte: p.a, label: label(p.a), value: p.v, unit: p.u ?? "", status: rangeStatus(p.v, targets[p.a]) }]));
     const dueAt = t.latestAt ? new Date(t.latestAt.getTime() + t.everyDays * 86_400_000) : null;
     return {
       id: t.id,
@@ -205,6 +207,8 @@ export async function dashboard(
       ownerName: t.ownerName,
       latestAt: t.latestAt?.toISOString() ?? null,
       outOfRange,
+      /** each value of the current water with its status, for words and icons on the card */
+      statuses,
       overdue: !dueAt || dueAt < now,
       dueAt: dueAt?.toISOString() ?? null,
       waiting: t.waiting,

@@ -1,4 +1,5 @@
 import { Pager, withParams } from "~/components/Pager";
+import { StatusBadge, UnconfirmedMark } from "~/components/status";
 import { Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clients/clients.server";
 import { askedPage, searchText } from "~/lib/paging";
@@ -56,12 +57,28 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                 <a href={`/tubs/${t.id}`} className="text-lg font-bold text-well-900">{t.name}</a>
                 <p className="text-sm text-ink-soft">{t.ownerName}</p>
                 <ul className="mt-2 space-y-1 text-sm">
-                  <li className={t.outOfRange.length ? "font-bold text-alert" : t.latestAt ? "text-ok" : "text-ink-soft"}>
-                    {t.outOfRange.length ? `Out of range: ${t.outOfRange.join("; ")}` : t.latestAt ? "Water in range at the last sure reading" : "No sure reading yet"}
+                  <li data-testid="client-water" className="space-y-1">
+                    {!t.latestAt ? (
+                      <span className="text-ink-soft">No sure reading yet</span>
+                    ) : (
+                      <>
+                        {t.outOfRange.length ? (
+                          <StatusBadge status={t.statuses.find((v) => v.status === "low" || v.status === "high")?.status ?? "high"}>Out of range: {t.outOfRange.join("; ")}</StatusBadge>
+                        ) : (
+                          <StatusBadge status="in">Water in range at the last sure reading</StatusBadge>
+                        )}
+                        <span className="flex flex-wrap gap-1">
+                          {t.statuses.map((v) => (
+                            <StatusBadge key={v.analyte} status={v.status} className="font-normal">{v.label} {v.value}{v.status === "low" ? " · low" : v.status === "high" ? " · high" : ""}</StatusBadge>
+                          ))}
+                        </span>
+                      </>
+                    )}
                   </li>
                   {t.unsureNewerAt && (
                     <li className="font-bold text-caution" data-testid="unsure-newer">
-                      Unconfirmed: a newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.
+                      <UnconfirmedMark className="mr-1">Unconfirmed</UnconfirmedMark>
+                      A newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.
                     </li>
                   )}
                   <li className={t.overdue ? "font-bold text-caution" : ""}>
