@@ -47,7 +47,11 @@ export function UnconfirmedMark({ className, children = "Not confirmed" }: { cla
   );
 }
 
-/** A tile for one measured value: the number, its unit and its status in words. */
+/**
+ * A tile for one measured value: the number, its unit and its status in words. An unconfirmed
+ * value has a dashed frame (the reading as a whole says so in words above the tiles); a value the
+ * reader was unsure of says so on its own tile.
+ */
 export function ValueTile({ label, value, unit, status, target, unconfirmed, unsure }: { label: string; value: number | null; unit: string; status: RangeStatus; target?: { min: number; max: number } | null; unconfirmed?: boolean; unsure?: boolean }) {
   const frame = { in: "border-ok/40 bg-ok-soft/60", low: "border-caution/50 bg-caution-soft/70", high: "border-alert/40 bg-alert-soft/70", unknown: "border-line bg-sand" }[status];
   return (
@@ -57,7 +61,7 @@ export function ValueTile({ label, value, unit, status, target, unconfirmed, uns
         <span className="text-lg font-bold">{value ?? "–"}</span> <span className="text-sm">{unit}</span>
         <span className="mt-1 flex flex-wrap gap-1">
           {value !== null && <StatusBadge status={status} />}
-          {unsure ? <UnconfirmedMark>Reader unsure</UnconfirmedMark> : unconfirmed && <UnconfirmedMark />}
+          {unsure && <UnconfirmedMark>Reader unsure</UnconfirmedMark>}
         </span>
         {target && <span className="mt-1 block text-xs text-ink-soft">aim {target.min}–{target.max}</span>}
       </dd>

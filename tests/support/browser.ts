@@ -22,6 +22,17 @@ export async function phoneContext(browser: Browser): Promise<BrowserContext> {
   return browser.newContext({ baseURL: BASE_URL, viewport: PHONE, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-GB", timezoneId: "Europe/London" });
 }
 
+export const DESKTOP = { width: 1280, height: 900 };
+
+export async function desktopContext(browser: Browser, opts: { timezoneId?: string } = {}): Promise<BrowserContext> {
+  return browser.newContext({ baseURL: BASE_URL, viewport: DESKTOP, deviceScaleFactor: 1, locale: "en-GB", timezoneId: opts.timezoneId ?? "Europe/London" });
+}
+
+/** A phone or a desktop browser, for tests that run at both sizes. */
+export async function sizedContext(browser: Browser, size: "phone" | "desktop") {
+  return size === "phone" ? phoneContext(browser) : desktopContext(browser);
+}
+
 export async function screenshot(page: Page, name: string) {
   mkdirSync(SHOTS, { recursive: true });
   const file = path.join(SHOTS, `${name}.png`);
