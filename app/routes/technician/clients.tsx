@@ -77,8 +77,7 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                   </li>
                   {t.unsureNewerAt && (
                     <li className="font-bold text-caution" data-testid="unsure-newer">
-                      <UnconfirmedMark className="mr-1">Unconfirmed</UnconfirmedMark>
-                      A newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.
+                      <UnconfirmedMark className="rounded-xl">Unconfirmed: a newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.</UnconfirmedMark>
                     </li>
                   )}
                   <li className={t.overdue ? "font-bold text-caution" : ""}>
