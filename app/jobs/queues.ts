@@ -19,7 +19,7 @@ export const UPLOAD_SWEEP_QUEUE = "photo-upload-sweep";
 export const UPLOAD_SWEEP_CRON = "17 * * * *";
 
 /** E-mail jobs fetched at once, and how often an idle worker looks for more (pg-boss's shortest interval). */
-export const DELIVER_BATCH = 50;
+export const DELIVER_BATCH = 30;
 export const DELIVER_POLL_SECONDS = 0.5;
 
 export async function createQueues(boss: PgBoss) {

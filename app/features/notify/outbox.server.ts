@@ -171,24 +171,34 @@ export async function deliverEmail(
 }
 
 /**
- * Recovery of messages whose worker died while sending: rows still "sending"
- * after their lease ran out, whose delivery job is still marked active (nobody
- * will finish it until pg-boss expires it, minutes later). Each gets a fresh job
- * at once, queued in the same transaction that hands the row back. Returns how
- * many were handed back. The worker runs this when it starts and then every
- * half lease.
+ * Recovery of messages whose worker died: rows still "sending" after their
+ * lease ran out, and rows waiting ("queued", "failed") whose delivery job a
+ * worker fetched more than a lease ago and never finished. Their jobs stay
+ * marked active until pg-boss expires them, minutes later; instead each gets a
+ * fresh job at once, queued in the same transaction that hands the row back,
+ * and the old job is cancelled. A worker that was only slow finds the message
+ * sent (or being sent) and sends nothing. Returns how many were handed back.
+ * The worker runs this when it starts and then every half lease.
  */
 export async function recoverStalledEmails(boss: PgBoss, limit = 100): Promise<number> {
-  const stale = await db.execute<{ id: string; job_id: string | null; dedupe_key: string }>(sql`
-    select id, job_id, dedupe_key from email_log
-     where status = 'sending' and lease_until < now()
-     order by lease_until limit ${limit}`);
+  const lease = env().EMAIL_SEND_LEASE_SECONDS;
+  const stale = await db.execute<{ id: string; job_id: string | null; status: string }>(sql`
+    (select id, job_id, status from email_log
+      where status = 'sending' and lease_until < now()
+      order by lease_until limit ${limit})
+    union all
+    (select l.id, l.job_id, l.status from email_log l
+       join pgboss.job j on j.id = l.job_id and j.name = ${DELIVER_QUEUE}
+      where l.status in ('queued', 'failed') and j.state = 'active'
+        and j.started_on < now() - make_interval(secs => ${lease})
+      limit ${limit})`);
   let recovered = 0;
   for (const r of stale.rows) {
     const job = r.job_id ? await boss.getJobById<OutgoingEmail>(DELIVER_QUEUE, r.job_id) : null;
     // A job waiting for its retry (pg-boss expired it already) will take the row over by itself.
     if (job && (job.state === "created" || job.state === "retry")) continue;
     if (!job || job.state !== "active") {
+      if (r.status !== "sending") continue;
       await db
         .update(emailLog)
         .set({ status: "dead", leaseUntil: null, lastError: "The worker stopped while sending and the message's job is gone; it was not sent again." })
@@ -199,9 +209,11 @@ export async function recoverStalledEmails(boss: PgBoss, limit = 100): Promise<n
     try {
       await client.query("begin");
       const handedBack = await client.query(
-        `update email_log set status = 'failed', lease_until = null, updated_at = now(),
-                last_error = 'The worker stopped while sending; sending it again.'
-          where id = $1 and status = 'sending' and lease_until < now() returning id`,
+        r.status === "sending"
+          ? `update email_log set status = 'failed', lease_until = null, updated_at = now(),
+                    last_error = 'The worker stopped while sending; sending it again.'
+              where id = $1 and status = 'sending' and lease_until < now() returning id`
+          : `update email_log set updated_at = now() where id = $1 and status in ('queued', 'failed') returning id`,
         [r.id],
       );
       if (handedBack.rowCount === 0) {
