@@ -1,6 +1,7 @@
 /**
  * Robustness sweep of the strip reader over rendered photos: every chart, surface, cast, random
- * rotations, glare and shadow. Prints the share of pads within 0.5 and 1 chart step and the failures.
+ * rotations, glare and shadow. Prints the share of pads within 0.5 and 1 chart step, the failures and
+ * the silent misreads (a pad more than one step off that was not flagged for review).
  *
  *   npx tsx tests/bench/robustness.ts [--n 60] [--seed0 7000] [--cache /tmp/dipwell-robustness]
  */
@@ -29,7 +30,7 @@ function toIndex(sw: { value: number }[], v: number): number {
   return sw.length - 1;
 }
 
-let pads = 0, in05 = 0, in1 = 0;
+let pads = 0, in05 = 0, in1 = 0, silent = 0;
 const fails: string[] = [], worst: string[] = [];
 for (let i = 0; i < N; i++) {
   const seed = seed0 + i;
@@ -62,13 +63,15 @@ for (let i = 0; i < N; i++) {
       pads++;
       if (e <= 0.5) in05++;
       if (e <= 1) in1++;
-      if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps`);
+      // A silent misread: more than one step off, yet not flagged for review.
+      if (e > 1 && !p.needsReview) silent++;
+      if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
     }
   } catch (e) {
     pads += truth.length;
     fails.push(`${tag} rot ${rot}: ${(e as Error).message.slice(0, 60)}`);
   }
 }
-console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}`);
+console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  silent misreads ${silent}`);
 for (const f of fails) console.log("  FAIL", f);
 for (const w of worst) console.log("  off ", w);
