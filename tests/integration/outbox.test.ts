@@ -87,7 +87,7 @@ describe("a worker that dies while sending", () => {
 
     // The lease runs out; the next worker's recovery sweep hands the message back with a fresh job.
     await new Promise((r) => setTimeout(r, 2_200));
-    expect(await recoverStalledEmails(boss)).toBe(1);
+    expect(await recoverStalledEmails(boss)).toBeGreaterThanOrEqual(1); // ours (and any left by an earlier run on this database)
     expect((await boss.getJobById(DELIVER_QUEUE, job.id))?.state).toBe("cancelled");
     const handedBack = await logRow(mail.dedupeKey);
     expect(handedBack).toMatchObject({ status: "failed", lastError: "The worker stopped while sending; sending it again." });
@@ -156,33 +156,44 @@ describe("a permanent SMTP refusal", () => {
 });
 
 describe("many messages at once", () => {
-  it("two workers deliver 300 messages, each exactly once", async () => {
-    const domain = unique("many.outbox.test");
-    const mails = Array.from({ length: 300 }, (_, i) => message(domain, i));
+  /** Queues `n` messages, starts `workers` workers, waits until all are sent; returns the messages and the rate. */
+  async function deliverMany(n: number, workerCount: number, domain: string) {
+    const mails = Array.from({ length: n }, (_, i) => message(domain, i));
     for (const m of mails) await enqueueEmail(m, { boss });
-    const workers = [await newBoss(), await newBoss()];
+    const workers = await Promise.all(Array.from({ length: workerCount }, () => newBoss()));
+    const keys = mails.map((m) => m.dedupeKey);
     const started = performance.now();
     try {
       for (const w of workers) await registerJobs(w);
-      const keys = mails.map((m) => m.dedupeKey);
       await waitFor(async () => {
-        const [{ n }] = (await db.execute<{ n: number }>(sql`select count(*)::int as n from email_log where status = 'sent' and dedupe_key = any(${sql.param(keys)}::text[])`)).rows;
-        return n === mails.length ? true : undefined;
+        const [{ n: sent }] = (await db.execute<{ n: number }>(sql`select count(*)::int as n from email_log where status = 'sent' and dedupe_key = any(${sql.param(keys)}::text[])`)).rows;
+        return sent === n ? true : undefined;
       }, 120_000);
-      const seconds = (performance.now() - started) / 1000;
-      console.log(`mail per second: ${(mails.length / seconds).toFixed(1)} (${mails.length} messages, 2 workers, ${seconds.toFixed(1)} s)`);
-      const rows = await db.select().from(s.emailLog).where(inArray(s.emailLog.dedupeKey, keys.slice(0, 300)));
-      expect(rows.every((r) => r.attempts === 1 && r.smtpResponse?.startsWith("250"))).toBe(true);
-      const got = await waitFor(async () => {
-        const c = await caught(domain);
-        return c.length >= mails.length ? c : undefined;
-      }, 20_000);
-      await new Promise((r) => setTimeout(r, 300)); // a duplicate would land now
-      expect((await caught(domain)).length).toBe(mails.length);
-      expect(new Set(got.map((m) => m.to[0].address)).size).toBe(mails.length);
     } finally {
       for (const w of workers) await w.stop({ graceful: false, close: true });
     }
+    const seconds = (performance.now() - started) / 1000;
+    return { mails, keys, seconds, rate: n / seconds };
+  }
+
+  it("one worker delivers 200 messages; two competing workers 200 more; each exactly once", async () => {
+    const domain = unique("many.outbox.test");
+    const one = await deliverMany(200, 1, domain);
+    console.log(`mail per second: ${one.rate.toFixed(1)} (one worker, ${one.mails.length} messages in ${one.seconds.toFixed(1)} s)`);
+    const two = await deliverMany(200, 2, domain);
+    console.log(`mail per second: ${two.rate.toFixed(1)} (two workers, ${two.mails.length} messages in ${two.seconds.toFixed(1)} s)`);
+
+    const keys = [...one.keys, ...two.keys];
+    const rows = await db.select().from(s.emailLog).where(inArray(s.emailLog.dedupeKey, keys));
+    expect(rows).toHaveLength(400);
+    expect(rows.every((r) => r.status === "sent" && r.attempts === 1 && r.smtpResponse?.startsWith("250"))).toBe(true);
+    const got = await waitFor(async () => {
+      const c = await caught(domain);
+      return c.length >= 400 ? c : undefined;
+    }, 20_000);
+    await new Promise((r) => setTimeout(r, 300)); // a duplicate would land now
+    expect((await caught(domain)).length).toBe(400);
+    expect(new Set(got.map((m) => m.to[0].address)).size).toBe(400);
   });
 });
 
