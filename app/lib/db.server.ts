@@ -16,6 +16,11 @@ function connect() {
   // Without a listener Node would stop the whole process; the pool drops that client by itself
   // and opens a new one on the next query.
   pool.on("error", (error) => noteDatabaseError(error, "database connection lost"));
+  // A connection lost while checked out (inside a transaction, between two statements) emits
+  // "error" on the client itself, where the pool no longer listens: keep a listener on every
+  // client for its whole life. The statement in flight fails on its own, and the pool discards
+  // the broken client when it is released.
+  pool.on("connect", (client) => client.on("error", (error) => noteDatabaseError(error, "database connection lost")));
   return drizzle({ client: pool, schema });
 }
 
