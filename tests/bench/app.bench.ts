@@ -127,7 +127,7 @@ async function main() {
       if (b.status !== 0) throw new Error("The app did not build.");
     }
     spawnService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env, quiet: true });
-    worker = spawnService("worker", path.join(root, "node_modules", ".bin", "tsx"), ["app/jobs/worker.ts"], { cwd: root, env, quiet: true });
+    worker = spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env, quiet: true });
     await waitForPort(P.app, "the app", 60_000);
     // Let the worker create its queues before the outbox is used.
     await sleep(3000);
