@@ -46,7 +46,10 @@ export async function seedScale(opts: ScaleOptions) {
     await client.query("set synchronous_commit = off");
     await client.query("begin");
     // (with the cascades on: every row of an earlier scale seed goes with its user or chart)
-    await step("earlier scale data removed", `delete from "user" where email like '%@scale.lanternbay.test'`);
+    // Tubs first (their readings, pads and treatments go with them), then the people: deleting
+    // both in one cascade would null a reading's author while its tub is already gone.
+    await step("earlier scale tubs removed", `delete from tub where owner_id in (select id from "user" where email like '%@scale.lanternbay.test')`);
+    await step("earlier scale users removed", `delete from "user" where email like '%@scale.lanternbay.test'`);
     await step("earlier scale chart removed", `delete from strip_chart where name = 'Scale test chart (invented colours)'`);
     await client.query("set local session_replication_role = replica").catch(() => log("  (not a superuser: triggers stay on, the load is slower)"));
 

@@ -16,6 +16,7 @@ import { randomUUID } from "node:crypto";
 import { existsSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import pg from "pg";
+import { migrateDatabase } from "../../app/ops/migrate";
 import { seedScale, SCALE_ADMIN_EMAIL, SCALE_PASSWORD, SCALE_TECH_EMAIL } from "../../app/ops/seed-scale";
 import {
   assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres, startS3, stopChildren, waitForPort,
@@ -102,6 +103,7 @@ async function main() {
       .then((r) => r.rows[0] as { tubs: number; readings: number })
       .catch(() => ({ tubs: 0, readings: 0 }));
     if (args.includes("--reuse") && seeded.tubs === TUBS && seeded.readings === TUBS * READINGS) {
+      await migrateDatabase(databaseUrl, root);
       console.log(`Reusing the seeded data (${seeded.tubs} tubs, ${seeded.readings} readings).`);
     } else {
       console.log("Seeding with SQL…");
