@@ -251,26 +251,36 @@ async function main() {
     Object.assign(process.env, env);
     const { enqueueEmail } = await import("../../app/features/notify/outbox.server");
     const run = randomUUID().slice(0, 8);
+    const countSent = async () =>
+      (await sql.query("select count(*)::int as n from email_log where dedupe_key like $1 and status = 'sent'", [`bench:${run}:%`])).rows[0].n as number;
     const m0 = performance.now();
-    for (let i = 0; i < MAILS; i++) {
-      await enqueueEmail({
-        kind: "test_due", to: `owner-${String((i % TUBS) + 1).padStart(4, "0")}@scale.lanternbay.test`, dedupeKey: `bench:${run}:${i}`,
-        subject: "A water test is due (benchmark)", text: "A benchmark message.", html: "<p>A benchmark message.</p>",
-      });
-    }
-    const queuedSeconds = (performance.now() - m0) / 1000;
-    let sent = 0;
+    let next = 0;
+    await Promise.all(
+      Array.from({ length: 8 }, async () => {
+        for (let i = next++; i < MAILS; i = next++) {
+          await enqueueEmail({
+            kind: "test_due", to: `owner-${String((i % TUBS) + 1).padStart(4, "0")}@scale.lanternbay.test`, dedupeKey: `bench:${run}:${i}`,
+            subject: "A water test is due (benchmark)", text: "A benchmark message.", html: "<p>A benchmark message.</p>",
+          });
+        }
+      }),
+    );
+    const queuedAt = performance.now();
+    const queuedSeconds = (queuedAt - m0) / 1000;
+    const sentWhenQueued = await countSent();
+    let sent = sentWhenQueued;
     const deadline = performance.now() + 120_000;
-    let lastSentAt = m0;
-    while (performance.now() < deadline) {
-      const c = (await sql.query("select count(*)::int as n from email_log where dedupe_key like $1 and status = 'sent'", [`bench:${run}:%`])).rows[0].n as number;
+    let lastSentAt = queuedAt;
+    while (sent < MAILS && performance.now() < deadline) {
+      await sleep(200);
+      const c = await countSent();
       if (c > sent) lastSentAt = performance.now();
       sent = c;
-      if (sent >= MAILS) break;
-      await sleep(250);
     }
-    const mailSeconds = (lastSentAt - m0) / 1000;
-    const mailRate = sent / Math.max(0.001, mailSeconds);
+    // Delivery rate once everything is queued; when the worker kept up with the queuing
+    // itself, the whole run from the first message.
+    const mailSeconds = (lastSentAt - (sentWhenQueued < MAILS / 2 ? queuedAt : m0)) / 1000;
+    const mailRate = (sentWhenQueued < MAILS / 2 ? sent - sentWhenQueued : sent) / Math.max(0.001, mailSeconds);
 
     // ------------------------------------------------------------ report
     const pad = (s: string, n: number) => s.padEnd(n);
@@ -284,7 +294,7 @@ async function main() {
       console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(ms(idleRow.p95), 10)}`);
       for (const e of [...new Set(u.errors)].slice(0, 3)) console.log(`    error: ${e}`);
     }
-    console.log(`\nE-mail: ${MAILS} queued through the outbox in ${queuedSeconds.toFixed(1)} s; ${sent} sent in ${mailSeconds.toFixed(1)} s${sent < MAILS ? " (stopped waiting after 120 s)" : ""}`);
+    console.log(`\nE-mail: ${MAILS} queued through the outbox in ${queuedSeconds.toFixed(1)} s (${sentWhenQueued} already sent by then); ${sent} sent, ${mailRate.toFixed(1)} per s${sent < MAILS ? " (stopped waiting after 120 s)" : ""}`);
 
     const dashboard = rows[0];
     const slowest = rows.reduce((a, b) => (b.p95 > a.p95 ? b : a));

@@ -52,7 +52,7 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
   const a = actionData as { readingId?: string; form?: string } | undefined;
   return (
     <div className="space-y-5">
-      <PageTitle sub="Readings the reader was unsure about, oldest first. Compare each pad with the chart, confirm it as read in one tap, or correct a value.">
+      <PageTitle sub="Readings the reader was unsure about, oldest first. Compare each unsure pad with the chart's colours, confirm the reading as read in one tap, or correct a value.">
         Readings to review
       </PageTitle>
       {done && <Notice tone="ok">Reviewed. The owner has been told.</Notice>}
@@ -107,7 +107,7 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                       </p>
                       {p.needsReview && <p className="text-sm text-caution">{p.reason ?? "unsure"}</p>}
                     </div>
-                    {p.swatches.length > 0 && (
+                    {p.needsReview && p.swatches.length > 0 && (
                       <fieldset className="flex flex-wrap gap-1">
                         <legend className="sr-only">Chart colours for {p.label}: tap the one the pad matches</legend>
                         {p.swatches.map((s) => (
