@@ -64,6 +64,8 @@ async function main() {
   try {
     const admin = postgres.url("postgres");
     await createDatabase(admin, "dipwell_template", { fresh: true });
+    // Each Vitest worker clones the template once; clones from an earlier run lack newer migrations.
+    await dropWorkerDatabases(admin);
     await migrateDatabase(postgres.url("dipwell_template"), root);
     await createDatabase(admin, "dipwell_e2e", { fresh: true, template: "dipwell_template" });
     await startS3({ projectRoot: root, dataDir: path.join(run, "s3"), port: P.s3, bucket: "dipwell-photos", allowedOrigins: [publicUrl] });
@@ -140,6 +142,18 @@ function printSummary(files: string[], failedSteps: number) {
   // A failed type check counts as a failure too, so the line never reads as a pass when the run failed.
   const failed = sum("numFailedTests") + (failedSteps && !sum("numFailedTests") ? 1 : 0);
   console.log(`\n${sum("numPassedTests")} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
+}
+
+async function dropWorkerDatabases(adminUrl: string) {
+  const { default: pg } = await import("pg");
+  const client = new pg.Client({ connectionString: adminUrl });
+  await client.connect();
+  try {
+    const { rows } = await client.query<{ datname: string }>("select datname from pg_database where datname ~ '^dipwell_w[0-9]+$'");
+    for (const r of rows) await client.query(`drop database if exists "${r.datname}" with (force)`);
+  } finally {
+    await client.end();
+  }
 }
 
 main().catch((error) => {
