@@ -15,6 +15,7 @@ export const ATOMIC_WEIGHT = {
   Cl: 35.45,
   Ca: 40.078,
   Br: 79.904,
+  K: 39.098,
 } as const;
 
 type Element = keyof typeof ATOMIC_WEIGHT;
@@ -48,6 +49,10 @@ export const MOLAR_MASS = {
   sodiumHypochlorite: molarMass({ Na: 1, O: 1, Cl: 1 }),
   /** 1-bromo-3-chloro-5,5-dimethylhydantoin C5H6BrClN2O2. */
   bcdmh: molarMass({ C: 5, H: 6, Br: 1, Cl: 1, N: 2, O: 2 }),
+  /** Sodium bromide NaBr. */
+  NaBr: molarMass({ Na: 1, Br: 1 }),
+  /** Potassium peroxymonosulfate KHSO5. */
+  KHSO5: molarMass({ K: 1, H: 1, S: 1, O: 5 }),
   /** Cyanuric acid C3H3N3O3. */
   cyanuricAcid: molarMass({ C: 3, H: 3, N: 3, O: 3 }),
 } as const;
@@ -88,3 +93,9 @@ export const CH_PER_FC_FROM_CAL_HYPO = MOLAR_MASS.CaCO3 / (2 * MOLAR_MASS.Cl2);
 
 /** 1 US gallon = 3.785411784 L exactly (NIST Handbook 44, Appendix C). */
 export const LITRES_PER_US_GALLON = 3.785411784;
+
+/** 1 avoirdupois ounce = 28.349523125 g; 1 US fluid ounce = 29.5735295625 mL (NIST Handbook 44, Appendix C). */
+export const GRAMS_PER_OUNCE = 28.349523125;
+export const ML_PER_US_FL_OZ = 29.5735295625;
+/** 1 imperial gallon = 4.54609 L exactly (UK Weights and Measures Act 1985). */
+export const LITRES_PER_IMPERIAL_GALLON = 4.54609;

@@ -1,6 +1,7 @@
 // Doses from stoichiometry (chemistry.md §2), never from a lookup table.
 
 import {
+  ATOMIC_WEIGHT,
   AVAILABLE_CHLORINE,
   BROMINE_AS_BR2_PER_G_BCDMH,
   EQUIVALENT_WEIGHT,
@@ -46,15 +47,65 @@ export function availableChlorineOfChemical(chemical: string): number {
   }
 }
 
+/** Turn grams of the whole product into the amount (grams for solids, mL for liquids). */
+function wholeProductAmount(product: Product, gramsProduct: number): Amount {
+  if (product.form === "liquid") {
+    const density = product.densityGPerMl ?? 1;
+    if (!(density > 0)) throw new ProductError(`The liquid "${product.name}" needs a density above 0 g/mL.`);
+    return { grams: null, millilitres: gramsProduct / density, tablets: null };
+  }
+  const tablets = product.form === "tablets" && product.tabletMassG && product.tabletMassG > 0 ? gramsProduct / product.tabletMassG : null;
+  return { grams: gramsProduct, millilitres: null, tablets };
+}
+
+/**
+ * The label's available chlorine (0–1) the product's strength implies: strength × the pure
+ * compound's available chlorine (chemistry.md §2.1 [D]).
+ */
+export function impliedAvailableChlorine(product: Pick<Product, "chemical" | "strength">): number {
+  return product.strength * availableChlorineOfChemical(product.chemical);
+}
+
+/**
+ * Dichlor is sold nearly pure (the label's 55–62 % is its available chlorine, chemistry.md §2.1).
+ * A strength below 0.8 on a dichlor product is almost surely that label figure typed as purity,
+ * which would overdose 1.8×; refuse it unless the available chlorine is given as well.
+ */
+export function checkChlorineStrength(product: Product): void {
+  if (!product.chemical.startsWith("sodium_dichloroisocyanurate")) return;
+  if (product.availableChlorine !== undefined) return;
+  if (product.strength < 0.8) {
+    const pure = availableChlorineOfChemical(product.chemical);
+    throw new ProductError(
+      `The product "${product.name}" has strength ${product.strength}, which looks like the label's available chlorine: dichlor is sold nearly pure (pure ${product.chemical.endsWith("anhydrous") ? "anhydrous dichlor" : "dichlor dihydrate"} has ${Math.round(pure * 1000) / 10} % available chlorine). Give that label figure as availableChlorine, or the purity (e.g. 0.99) as strength.`,
+    );
+  }
+}
+
 /** Amount of a chlorine product that raises free chlorine by deltaMgL in volumeLitres. */
 export function chlorineDose(product: Product, deltaMgL: number, volumeLitres: number): Amount {
   const gCl2 = (deltaMgL * volumeLitres) / 1000;
+  if (product.availableChlorine !== undefined) {
+    if (!(product.availableChlorine > 0 && product.availableChlorine <= 1))
+      throw new ProductError(`The product "${product.name}" needs an available chlorine between 0 and 1 (e.g. 0.56 for 56 %).`);
+    return wholeProductAmount(product, gCl2 / product.availableChlorine);
+  }
+  checkChlorineStrength(product);
   if (product.chemical === "sodium_hypochlorite" && product.form === "liquid" && product.availableChlorineGPerL !== undefined) {
     if (!(product.availableChlorineGPerL > 0))
       throw new ProductError(`The product "${product.name}" needs available chlorine above 0 g/L.`);
     return { grams: null, millilitres: (gCl2 / product.availableChlorineGPerL) * 1000, tablets: null };
   }
   return productAmount(product, gCl2 / availableChlorineOfChemical(product.chemical));
+}
+
+/**
+ * Sodium bromide for a bromide reserve of bromideMgL (as Br⁻): M(NaBr)/M(Br) = 1.288 g per g of
+ * bromide (stoichiometry, IUPAC atomic weights).
+ */
+export function bromideDose(product: Product, bromideMgL: number, volumeLitres: number): Amount {
+  if (product.chemical !== "sodium_bromide") throw new ProductError(`"${product.chemical}" is not sodium bromide.`);
+  return productAmount(product, ((bromideMgL * volumeLitres) / 1000) * (MOLAR_MASS.NaBr / ATOMIC_WEIGHT.Br));
 }
 
 /** Amount of a BCDMH product that raises total bromine (as Br2) by deltaMgL (chemistry.md §2.6). */

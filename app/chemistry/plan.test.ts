@@ -45,9 +45,10 @@ describe("planTreatment", () => {
     const p = planTreatment({ ...inRange, readings: { free_chlorine: 0.5, ph: 6.6, total_alkalinity: 50, calcium_hardness: 100, cyanuric_acid: 20 } });
     expect(p.steps.map((s) => s.parameter)).toEqual(["free_chlorine", "total_alkalinity", "ph", "calcium_hardness"]);
     expect(p.steps.map((s) => s.order)).toEqual([1, 2, 3, 4]);
-    expect(p.steps[0]!.retestAfterHours).toBe(24);
+    // a maintenance top-up (0.5 → 3 mg/L) waits one hour, not a shock's 12 h (common practice; products.ts WAIT_HOURS)
+    expect(p.steps[0]!.retestAfterHours).toBe(1);
     for (const s of p.steps.slice(1)) expect(s.retestAfterHours).toBeGreaterThanOrEqual(2);
-    for (const s of p.steps) {
+    for (const s of p.steps.filter((x) => x.kind === "dose")) {
       expect(s.cautions.join(" ")).toMatch(/never water to chemical/);
       expect(s.cautions.join(" ")).toMatch(/Never mix products/);
       expect(s.cautions.join(" ")).toMatch(/anyone in the tub/);
@@ -55,11 +56,9 @@ describe("planTreatment", () => {
       expect(s.cautions.join(" ")).toMatch(/gloves and eye protection/);
       expect(s.cautions.join(" ")).toMatch(/children and pets/);
     }
-    // soda ash raises TA (2 eq per mol) — the side effect is stated
-    const ph = p.steps[2]!;
-    expect(ph.chemical).toBe("sodium_carbonate");
-    expect(ph.sideEffects[0]!.parameter).toBe("total_alkalinity");
-    expect(ph.sideEffects[0]!.change).toBeGreaterThan(0);
+    // pH 6.6 with alkalinity raised to 100: soda ash would overshoot alkalinity, so pH rises by aeration
+    expect(p.steps[2]!.kind).toBe("aerate");
+    expect(p.steps.some((s) => s.chemical === "sodium_carbonate")).toBe(false);
     expect(p.notes.join(" ")).toMatch(/bicarbonate first/);
   });
 
@@ -73,11 +72,11 @@ describe("planTreatment", () => {
   });
 
   it("acid for high pH lowers TA and says so; soft water gets the back-and-forth note", () => {
-    const p = planTreatment({ ...inRange, readings: { ...inRange.readings, ph: 8.2, total_alkalinity: 85 } });
+    const p = planTreatment({ ...inRange, readings: { ...inRange.readings, ph: 8.2, total_alkalinity: 95 } });
     const s = p.steps[0]!;
     expect(s).toMatchObject({ parameter: "ph", direction: "lower", chemical: "sodium_bisulfate" });
     expect(s.sideEffects[0]!.change).toBeLessThan(0);
-    expect(s.sideEffects[0]!.to).toBeLessThan(85);
+    expect(s.sideEffects[0]!.to).toBeLessThan(95);
   });
 
   it("high TA and high pH: acid in rounds with aeration between", () => {
@@ -113,14 +112,16 @@ describe("planTreatment", () => {
     const now = new Date("2025-06-01T18:00:00Z");
     const p = planTreatment(
       { ...inRange, readings: { ...inRange.readings, free_chlorine: 0.5 } },
-      { now, treatmentLog: [{ productId: "dichlor-granules", chemical: "sodium_dichloroisocyanurate_dihydrate", amount: 5, unit: "g", addedAt: "2025-06-01T16:00:00Z" }] },
+      // 30 g of dichlor in 1500 L is +11 mg/L: a shock, so 12 h (products.ts WAIT_HOURS, common practice)
+      { now, treatmentLog: [{ productId: "dichlor-granules", chemical: "sodium_dichloroisocyanurate_dihydrate", amount: 30, unit: "g", addedAt: "2025-06-01T16:00:00Z" }] },
     );
     expect(p.steps).toHaveLength(1);
     const w = p.steps[0]!;
     expect(w.kind).toBe("wait");
-    expect(w.retestAt).toBe("2025-06-02T16:00:00.000Z");
-    expect(w.retestAfterHours).toBe(22);
-    expect(w.words).toMatch(/^Wait — retest after 16:00/);
+    expect(w.shock).toBe(true);
+    expect(w.retestAt).toBe("2025-06-02T04:00:00.000Z");
+    expect(w.retestAfterHours).toBe(10);
+    expect(w.words).toMatch(/^Wait — retest after 04:00/);
     expect(w.grams).toBeNull();
   });
 
@@ -199,7 +200,9 @@ describe("properties (fast-check)", () => {
         fc.double({ min: 80, max: 120, noNaN: true }),
         fc.double({ min: 150, max: 250, noNaN: true }),
         fc.double({ min: 0, max: 50, noNaN: true }),
-        (f, ph, ta, ch, cya) => {
+        (f, ph, ta0, ch, cya) => {
+          // the range check uses carbonate alkalinity: TA minus at most 0.37 × CYA (chemistry.md §3.3)
+          const ta = Math.min(120, ta0 + 0.37 * cya);
           const p = planTreatment({ ...inRange, readings: { free_chlorine: f, ph, total_alkalinity: ta, calcium_hardness: ch, cyanuric_acid: cya } });
           expect(p.steps).toEqual([]);
         },
@@ -212,6 +215,7 @@ describe("routines", () => {
   it("first fill: sanitiser, alkalinity, pH with ≥ 2 h timers, ready when in range", () => {
     const r = firstFillRoutine({ volumeLitres: 1500, sanitiser: "chlorine", fillReadings: { ph: 7.0, total_alkalinity: 40, calcium_hardness: 200 } });
     expect(r[1]!.chemical).toBe("sodium_dichloroisocyanurate_dihydrate");
+    expect(r[1]!.shock).toBe(true);
     expect(r.filter((s) => s.timerMinutes !== null && s.timerMinutes >= 120).length).toBeGreaterThanOrEqual(2);
     expect(r.some((s) => s.chemical === "sodium_bicarbonate")).toBe(true);
     expect(r[r.length - 1]!.words).toMatch(/ready/);

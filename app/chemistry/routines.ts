@@ -2,9 +2,10 @@
 
 import { bromineDose, chlorineDose, labelDose, type Amount } from "./doses";
 import { planTreatment } from "./plan";
-import { DEFAULT_PRODUCTS, cautionsFor, generalCautions, pickProduct } from "./products";
+import { DEFAULT_PRODUCTS, WAIT_HOURS, cautionsFor, pickProduct } from "./products";
 import { resolveTargets } from "./targets";
-import type { Product, Readings, Sanitiser } from "./types";
+import type { Guidance, Product, Readings, Sanitiser, Units } from "./types";
+import { displayAmount } from "./units";
 import { drainIntervalDays } from "./volume";
 
 export interface RoutineStep {
@@ -17,6 +18,10 @@ export interface RoutineStep {
   chemical: string | null;
   grams: number | null;
   millilitres: number | null;
+  /** The amount in the owner's units, with a kitchen measure for small doses. */
+  amountText?: string;
+  /** A shock dose: the tub stays closed longer. */
+  shock?: boolean;
   cautions: string[];
 }
 
@@ -25,6 +30,7 @@ export interface RoutineOptions {
   sanitiser: Sanitiser;
   products?: Product[];
   temperatureC?: number;
+  units?: Units;
 }
 
 const round = (x: number | null) => (x === null ? null : x < 10 ? Math.round(x * 10) / 10 : Math.round(x));
@@ -43,8 +49,8 @@ const plain = (words: string, timerMinutes: number | null = null): Omit<RoutineS
   cautions: [],
 });
 
-function dosed(words: string, timerMinutes: number | null, product: Product, a: Amount): Omit<RoutineStep, "order"> {
-  return { words, timerMinutes, productId: product.id, chemical: product.chemical, grams: round(a.grams), millilitres: round(a.millilitres), cautions: cautionsFor(product) };
+function dosed(words: string, timerMinutes: number | null, product: Product, a: Amount, units: Units = "metric", shock = false): Omit<RoutineStep, "order"> {
+  return { words, timerMinutes, productId: product.id, chemical: product.chemical, grams: round(a.grams), millilitres: round(a.millilitres), amountText: displayAmount(product, a, units).text, shock, cautions: cautionsFor(product) };
 }
 
 function sanitiserDose(o: RoutineOptions, delta: number): { product: Product; amount: Amount } | null {
@@ -55,53 +61,45 @@ function sanitiserDose(o: RoutineOptions, delta: number): { product: Product; am
   return { product, amount };
 }
 
-const amountText = (a: Amount, p: Product) => (a.millilitres !== null ? `${round(a.millilitres)} mL of ${p.name}` : `${round(a.grams)} g of ${p.name}`);
+const amountText = (a: Amount, p: Product, units: Units = "metric") => `${displayAmount(p, a, units).text} of ${p.name}`;
 
 /**
- * First fill: sanitiser, wait; alkalinity, wait ≥ 2 h; pH, wait ≥ 2 h; ready when every pad is in range.
- * With fill-water readings the alkalinity and pH amounts come from the plan; otherwise the owner tests first.
+ * First fill: the plan's start-up steps (a shock well above the routine aim; bromine: a bromide
+ * reserve, then an oxidiser to activate it), then alkalinity, pH and hardness from the fill-water
+ * reading, each with the wait the plan gives it. Without a fill-water reading, the owner tests
+ * after the shock has mixed and the routine gives the amounts from that reading.
  */
-export function firstFillRoutine(o: RoutineOptions & { fillReadings?: Readings }): RoutineStep[] {
-  const t = resolveTargets(o.sanitiser);
+export function firstFillRoutine(o: RoutineOptions & { fillReadings?: Readings; units?: Units; guidance?: Guidance }): RoutineStep[] {
+  const t = resolveTargets(o.sanitiser, undefined, o.guidance);
   const sanParam = o.sanitiser === "chlorine" ? "free_chlorine" : "bromine";
-  const aim = t[sanParam].aim;
   const items: Omit<RoutineStep, "order">[] = [
     plain("Fill the tub through the filter housing with a garden hose, switch on, and run the jets and heater so the water circulates.", 30),
   ];
-  const s = sanitiserDose(o, aim);
-  if (s)
-    items.push(
-      dosed(`Add the sanitiser: ${amountText(s.amount, s.product)} brings fresh water to about ${aim} mg/L ${sanParam === "free_chlorine" ? "free chlorine" : "bromine"}. Jets on, cover off.`, 30, s.product, s.amount),
-    );
-  items.push(plain("Test the water with a strip (after about 30 minutes of circulation, common practice).", null));
-  let taWords = "Adjust total alkalinity to 80–120 mg/L with the amount the plan gives for your reading.";
-  let phWords = "Adjust pH to 7.2–7.8 with the amount the plan gives for your new reading.";
-  let taStep: ReturnType<typeof planTreatment>["steps"][number] | undefined;
-  let phStep: typeof taStep;
-  if (o.fillReadings) {
-    const plan = planTreatment(
-      { volumeLitres: o.volumeLitres, sanitiser: o.sanitiser, temperatureC: o.temperatureC, readings: { ...o.fillReadings, [sanParam]: aim } },
-      { products: o.products },
-    );
-    taStep = plan.steps.find((x) => x.parameter === "total_alkalinity");
-    phStep = plan.steps.find((x) => x.parameter === "ph");
-    if (taStep) taWords = taStep.words;
-    else taWords = "Total alkalinity of the fill water is in range; nothing to add.";
-    if (phStep) phWords = phStep.words;
-    else phWords = "pH should be in range after the alkalinity step; retest to confirm.";
+  const readings: Readings = { ...(o.fillReadings ?? {}) };
+  const plan = planTreatment(
+    { volumeLitres: o.volumeLitres, sanitiser: o.sanitiser, setTemperatureC: o.temperatureC, readings, mode: "first_fill", units: o.units, guidance: o.guidance },
+    { products: o.products },
+  );
+  const hasBalance = readings.ph !== undefined && readings.ph !== null && readings.total_alkalinity !== undefined && readings.total_alkalinity !== null;
+  for (const st of plan.steps) {
+    const minutes = Math.round(st.retestAfterHours * 60);
+    if (st.kind === "dose")
+      items.push({ words: st.words, timerMinutes: minutes > 0 ? minutes : null, productId: st.productId, chemical: st.chemical, grams: st.grams, millilitres: st.millilitres, amountText: st.amountText, shock: st.shock ?? false, cautions: st.cautions });
+    else items.push(plain(st.words, minutes > 0 ? minutes : null));
   }
-  const fromPlan = (words: string, minutes: number, st: typeof taStep): Omit<RoutineStep, "order"> => ({
-    words,
-    timerMinutes: minutes,
-    productId: st?.productId ?? null,
-    chemical: st?.chemical ?? null,
-    grams: st?.grams ?? null,
-    millilitres: st?.millilitres ?? null,
-    cautions: st?.cautions ?? generalCautions(),
-  });
-  items.push(fromPlan(taWords, 120, taStep), plain("Wait at least 2 hours with the jets running, then retest.", null));
-  items.push(fromPlan(phWords, 120, phStep), plain("Wait at least 2 hours with the jets running, then retest every pad.", null));
-  items.push(plain("The tub is ready when every pad is in range (sanitiser, pH, alkalinity). If not, make a new plan from the new reading.", null));
+  if (!hasBalance)
+    items.push(
+      plain(
+        `Test the water with a strip after about 30 minutes of circulation (common practice): the routine then gives the amounts for total alkalinity (${t.total_alkalinity.min}–${t.total_alkalinity.max} mg/L), pH (${t.ph.min}–${t.ph.max}) and hardness.`,
+        null,
+      ),
+    );
+  items.push(
+    plain(
+      `The tub is ready when every pad is in range (${sanParam === "free_chlorine" ? "free chlorine" : "bromine"} ${t[sanParam].min}–${t[sanParam].max} mg/L after the start-up shock has fallen back, pH, alkalinity). If not, make a new plan from the new reading.`,
+      null,
+    ),
+  );
   return build(items);
 }
 
@@ -113,13 +111,13 @@ export function routineTopUp(o: RoutineOptions & { bathersPerDay?: number }): Ro
   const per1 = sanitiserDose(o, 1);
   if (per1)
     items.push(
-      dosed(`Top up: ${amountText(per1.amount, per1.product)} raises ${o.sanitiser === "chlorine" ? "free chlorine" : "bromine"} by 1 mg/L in this tub; add it for each 1 mg/L below the aim, after use or at least an hour before the next.`, 60, per1.product, per1.amount),
+      dosed(`Top up: ${amountText(per1.amount, per1.product, o.units)} raises ${o.sanitiser === "chlorine" ? "free chlorine" : "bromine"} by 1 mg/L in this tub; add it for each 1 mg/L below the aim, after use or at least an hour before the next.`, WAIT_HOURS.sanitiser * 60, per1.product, per1.amount, o.units),
     );
   if (o.sanitiser === "chlorine") {
     const shock = sanitiserDose(o, 10);
     if (shock)
       items.push(
-        dosed(`After heavy use, shock with the cover off: ${amountText(shock.amount, shock.product)} adds about 10 mg/L (New York §6-1.25 superchlorinates spas to 10 mg/L while closed). Nobody in until free chlorine is back to 4 mg/L or less.`, 24 * 60, shock.product, shock.amount),
+        dosed(`After heavy use, shock with the cover off: ${amountText(shock.amount, shock.product, o.units)} adds about 10 mg/L (New York §6-1.25 superchlorinates spas to 10 mg/L while closed). Nobody in until free chlorine is back to 4 mg/L or less; retest after ${WAIT_HOURS.shock} h.`, WAIT_HOURS.shock * 60, shock.product, shock.amount, o.units, true),
       );
   }
   items.push(plain("Weekly: test total alkalinity, hardness and (chlorine tubs) cyanuric acid; rinse the filter.", null));
@@ -138,12 +136,15 @@ export function foamTreatment(o: RoutineOptions): RoutineStep[] {
   if (antifoam && antifoam.labelRatePer1000L) {
     const a = labelDose(antifoam, o.volumeLitres);
     items.push(
-      dosed(`Add ${amountText(a, antifoam)} onto the foam with the jets running (label-style rate of ${antifoam.labelRatePer1000L} per 1000 L, common practice; your product's label decides).`, 15, antifoam, a),
+      dosed(`Add ${amountText(a, antifoam, o.units)} onto the foam with the jets running (label-style rate of ${antifoam.labelRatePer1000L} per 1000 L, common practice; your product's label decides).`, 15, antifoam, a, o.units),
     );
   }
-  const shock = sanitiserDose(o, o.sanitiser === "chlorine" ? 5 : 5);
+  const rise = o.sanitiser === "chlorine" ? 10 : 10;
+  const shock = sanitiserDose(o, rise);
   if (shock)
-    items.push(dosed(`If foam comes back, shock after use with the cover off: ${amountText(shock.amount, shock.product)} (+5 mg/L). Wait 24 h, then retest before anyone uses the tub.`, 24 * 60, shock.product, shock.amount));
+    items.push(
+      dosed(`If foam comes back, shock after use with the cover off: ${amountText(shock.amount, shock.product, o.units)} (+${rise} mg/L). Wait ${WAIT_HOURS.shock} h, then retest before anyone uses the tub.`, WAIT_HOURS.shock * 60, shock.product, shock.amount, o.units, true),
+    );
   items.push(plain("Rinse or soak the filter. If foam keeps returning, drain and refill: old water with dissolved solids foams.", null));
   return build(items);
 }

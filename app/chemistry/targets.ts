@@ -1,7 +1,7 @@
 // Default target ranges. Each entry says which published source it follows and its tag in
 // chemistry.md ([P] primary text seen, [S] secondary, [M] memory, [D] derived).
 
-import type { Parameter, Range, Sanitiser, TargetRanges } from "./types";
+import type { Guidance, Parameter, Range, Sanitiser, TargetRanges } from "./types";
 
 const CDC_USER_INFO = "CDC 'Hot Tub/Spa User Information' (archived copy) [P]";
 
@@ -47,12 +47,81 @@ export const DEFAULT_TARGETS: Record<Sanitiser, TargetRanges> = {
   },
 };
 
-/** Merge per-tub overrides into the defaults; a broken override (min > max) is rejected. */
+// ------------------------------------------------------------------ guidance the owner can choose
+//
+// The defaults above follow the CDC's advice for home hot tubs. Where published guidance differs,
+// a tub's settings choose which one the plan follows; the plan names it.
+
+export interface GuidanceProfile {
+  id: Guidance;
+  name: string;
+  /** Highest combined chlorine (total − free) before the water needs breaking (mg/L). */
+  combinedChlorineMax: number;
+  combinedChlorineSource: string;
+  /** Ranges that differ from the home-tub defaults. */
+  ranges: Partial<Record<Sanitiser, Partial<Record<Parameter, Range>>>>;
+}
+
+const NSPI2 = "ANSI/NSPI-2 public spas as adopted in Maine 10-144 CMR ch. 202 App. A [P]";
+const HSG282 = "UK HSE HSG282 (2017) spa-pool guidance [S]";
+
+export const GUIDANCE: Record<Guidance, GuidanceProfile> = {
+  us_home: {
+    id: "us_home",
+    name: "Home hot tub (CDC hot tub user information)",
+    combinedChlorineMax: 0.5,
+    combinedChlorineSource: `combined chlorine at most 0.5 mg/L, ${NSPI2}`,
+    ranges: {},
+  },
+  us_public: {
+    id: "us_public",
+    name: "US public spa codes (Model Aquatic Health Code, ANSI/NSPI-2)",
+    combinedChlorineMax: 0.5,
+    combinedChlorineSource: `combined chlorine at most 0.5 mg/L, ${NSPI2}`,
+    ranges: {
+      chlorine: {
+        // MAHC spa minimum 3 mg/L [S]; NSPI-2 ideal 4–5, max 8 [P].
+        free_chlorine: { min: 3, max: 8, aim: 4.5, source: `MAHC spa minimum 3 mg/L [S]; ${NSPI2}: ideal 4–5, max 8` },
+        // MAHC 2018 CYA maximum 90 [S].
+        cyanuric_acid: { min: 0, max: 90, aim: 30, source: "MAHC 2018 maximum 90 mg/L [S]" },
+      },
+      bromine: {
+        // MAHC §5.7.3.1.2.2 spa minimum 4.0 [P]; NSPI-2 spa cell 6–8 ideal, 10 max (layout ambiguous) [P].
+        bromine: { min: 4, max: 8, aim: 6, source: `MAHC §5.7.3.1.2.2 spa minimum 4.0 [P]; ${NSPI2}: up to 8 ideal` },
+      },
+    },
+  },
+  uk: {
+    id: "uk",
+    name: "UK spa-pool guidance (HSE HSG282)",
+    combinedChlorineMax: 1,
+    combinedChlorineSource: `combined chlorine ideally 0, under 1 mg/L acceptable, ${HSG282}`,
+    ranges: {
+      chlorine: {
+        free_chlorine: { min: 3, max: 5, aim: 4, source: `${HSG282}: free chlorine 3–5` },
+        ph: { min: 7.0, max: 7.6, aim: 7.3, source: `${HSG282}: pH 7.0–7.6` },
+      },
+      bromine: {
+        bromine: { min: 4, max: 6, aim: 5, source: `${HSG282}: bromine 4–6` },
+        ph: { min: 7.0, max: 7.6, aim: 7.3, source: `${HSG282}: pH 7.0–7.6` },
+      },
+    },
+  },
+};
+
+export const GUIDANCE_IDS = Object.keys(GUIDANCE) as Guidance[];
+
+export function guidanceProfile(id: Guidance | undefined | null): GuidanceProfile {
+  return GUIDANCE[id ?? "us_home"] ?? GUIDANCE.us_home;
+}
+
+/** Merge per-tub overrides into the defaults of the chosen guidance; a broken override (min > max) is rejected. */
 export function resolveTargets(
   sanitiser: Sanitiser,
   overrides?: Partial<Record<Parameter, Partial<Range>>>,
+  guidance?: Guidance | null,
 ): TargetRanges {
-  const base = DEFAULT_TARGETS[sanitiser];
+  const base = { ...DEFAULT_TARGETS[sanitiser], ...(guidanceProfile(guidance).ranges[sanitiser] ?? {}) } as TargetRanges;
   const out = { ...base } as TargetRanges;
   if (!overrides) return out;
   for (const key of Object.keys(overrides) as Parameter[]) {

@@ -1,7 +1,9 @@
 // Input validation: structure with zod 4, then plausibility (wrong units, absurd values) in plain words.
 
 import { z } from "zod";
+import { AVAILABLE_CHLORINE, LITRES_PER_US_GALLON } from "./constants";
 import { PARAMETER_NAMES } from "./names";
+import { GUIDANCE_IDS } from "./targets";
 import type { WaterInput } from "./types";
 
 /** Bad input; the message is one line a tub owner understands. */
@@ -14,7 +16,14 @@ export class WaterInputError extends Error {
 
 const LABELS: Record<string, string> = {
   volumeLitres: "The volume (volumeLitres)",
+  volumeGallons: "The volume (volumeGallons)",
   temperatureC: "The water temperature (temperatureC)",
+  temperatureF: "The water temperature (temperatureF)",
+  setTemperatureC: "The set temperature (setTemperatureC)",
+  mode: "The mode",
+  units: "The units",
+  guidance: "The guidance",
+  fillTds: "The fill water's dissolved solids (fillTds)",
   sanitiser: "The sanitiser",
   readings: "The readings",
   tds: "Total dissolved solids (tds)",
@@ -40,28 +49,37 @@ const num = z.number().refine(Number.isFinite);
 const reading = num.nullable().optional();
 const isoTime = z.string().refine((s) => !Number.isNaN(Date.parse(s)), "must be a date and time such as 2025-06-01T18:30:00Z");
 
-const productSchema = z.looseObject({
+const productSchema = z.strictObject({
   id: z.string().min(1),
   name: z.string().min(1),
   chemical: z.string().min(1),
   form: z.enum(["granules", "powder", "liquid", "tablets"]),
-  strength: num,
+  strength: num.optional(),
+  availableChlorine: num.optional(),
+  bulkDensityGPerMl: num.optional(),
   densityGPerMl: num.optional(),
   availableChlorineGPerL: num.optional(),
   tabletMassG: num.optional(),
   labelRatePer1000L: num.optional(),
-  packageSize: z.object({ amount: num, unit: z.enum(["g", "kg", "mL", "L"]) }).optional(),
+  packageSize: z.strictObject({ amount: num, unit: z.enum(["g", "kg", "mL", "L"]) }).optional(),
   cautions: z.array(z.string()).optional(),
   retestAfterHours: num.optional(),
 });
 
-const rangeSchema = z.object({ min: num.optional(), max: num.optional(), aim: num.optional(), source: z.string().optional() });
+const rangeSchema = z.strictObject({ min: num.optional(), max: num.optional(), aim: num.optional(), source: z.string().optional() });
 
-const inputSchema = z.looseObject({
-  volumeLitres: num,
+const inputSchema = z.strictObject({
+  volumeLitres: num.optional(),
+  volumeGallons: num.optional(),
   temperatureC: num.nullable().optional(),
+  temperatureF: num.nullable().optional(),
+  setTemperatureC: num.nullable().optional(),
+  mode: z.enum(["routine", "first_fill"]).optional(),
+  units: z.enum(["metric", "us"]).optional(),
+  guidance: z.enum(GUIDANCE_IDS as [string, ...string[]]).optional(),
+  fillTds: num.nullable().optional(),
   sanitiser: z.string(),
-  readings: z.looseObject({
+  readings: z.strictObject({
     free_chlorine: reading,
     total_chlorine: reading,
     bromine: reading,
@@ -75,24 +93,37 @@ const inputSchema = z.looseObject({
   tds: num.nullable().optional(),
   bathersPerDay: num.nullable().optional(),
   products: z.array(productSchema).optional(),
-  targets: z.record(z.string(), rangeSchema).optional(),
+  targets: z.partialRecord(z.enum(["free_chlorine", "bromine", "ph", "total_alkalinity", "calcium_hardness", "cyanuric_acid"]), rangeSchema).optional(),
   treatmentLog: z
     .array(
-      z.looseObject({
+      z.strictObject({
         productId: z.string().min(1),
         chemical: z.string().optional(),
         amount: num,
         unit: z.enum(["g", "mL", "tablets"]),
         addedAt: isoTime,
+        shock: z.boolean().optional(),
       }),
     )
     .optional(),
   now: isoTime.optional(),
 });
 
+function where(path: PropertyKey[]): string {
+  if (path.length === 0) return "in the input";
+  const parts = path.map(String);
+  if (parts[0] === "products" && parts[1] !== undefined) return `in product ${Number(parts[1]) + 1}`;
+  if (parts[0] === "treatmentLog" && parts[1] !== undefined) return `in treatment log entry ${Number(parts[1]) + 1}`;
+  return `in ${parts.join(".")}`;
+}
+
 function describeIssue(issue: z.core.$ZodIssue): string {
   const who = label(issue.path);
   switch (issue.code) {
+    case "unrecognized_keys":
+      return `Unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => `"${k}"`).join(", ")} ${where(issue.path)}; check the spelling (volume in litres is volumeLitres, in US gallons volumeGallons).`;
+    case "invalid_key":
+      return `Unknown target ${where(issue.path)}; targets may set free_chlorine, bromine, ph, total_alkalinity, calcium_hardness or cyanuric_acid.`;
     case "invalid_type":
       if (/received undefined/.test(issue.message)) return `${who} is missing.`;
       return `${who} must be ${issue.expected === "number" ? "a number" : issue.expected === "string" ? "text" : issue.expected === "array" ? "a list" : issue.expected === "object" ? "an object" : issue.expected}.`;
@@ -146,6 +177,14 @@ const READING_LIMITS: Limit[] = [
   { key: "borate", max: 200, unit: "mg/L boron", tooHighHint: "check the unit" },
 ];
 
+/** Available chlorine of the pure compound (chemistry.md §2.1 [D]); a sodium hypochlorite product's strength is its NaOCl mass fraction. */
+const CHLORINE_FRACTION: Record<string, number> = {
+  sodium_dichloroisocyanurate_dihydrate: AVAILABLE_CHLORINE.dichlorDihydrate,
+  sodium_dichloroisocyanurate_anhydrous: AVAILABLE_CHLORINE.dichlorAnhydrous,
+  calcium_hypochlorite: AVAILABLE_CHLORINE.calciumHypochlorite,
+  sodium_hypochlorite: AVAILABLE_CHLORINE.sodiumHypochlorite,
+};
+
 const fail = (msg: string): never => {
   throw new WaterInputError(msg);
 };
@@ -155,15 +194,35 @@ export function validateWaterInput(json: unknown): WaterInput {
   if (json === null || typeof json !== "object" || Array.isArray(json))
     fail("The input must be one JSON object with volumeLitres, sanitiser and readings.");
   const parsed = inputSchema.safeParse(json);
-  if (!parsed.success) fail(describeIssue(parsed.error.issues[0]!));
+  if (!parsed.success) {
+    // Unknown fields first: a misspelt or unexpected field (a volume in gallons typed as litres) is the likeliest mistake.
+    const unknown = parsed.error.issues.filter((i) => i.code === "unrecognized_keys");
+    fail(describeIssue(unknown[0] ?? parsed.error.issues[0]!));
+  }
   const d = parsed.data!;
 
-  const v = d.volumeLitres;
+  if (d.volumeLitres !== undefined && d.volumeGallons !== undefined)
+    fail("Give the volume once: volumeLitres or volumeGallons (US gallons), not both.");
+  if (d.volumeLitres === undefined && d.volumeGallons === undefined) fail("The volume is missing: give volumeLitres (or volumeGallons for US gallons).");
+  if (d.volumeGallons !== undefined) {
+    const g = d.volumeGallons;
+    if (g <= 0) fail(`The volume must be above 0 US gallons (got ${g}).`);
+    if (g < 26) fail(`A volume of ${g} US gallons is too small for a hot tub (a small tub holds about 160 US gallons).`);
+    if (g > 13000) fail(`A volume of ${g} US gallons is a swimming pool, not a hot tub.`);
+  }
+  const v = d.volumeLitres ?? d.volumeGallons! * LITRES_PER_US_GALLON;
   if (v <= 0) fail(`The volume must be above 0 litres (got ${v}).`);
   if (v < 100) fail(`A volume of ${v} L is too small for a hot tub; give the volume in litres (a small tub holds about 600 L).`);
   if (v > 50000) fail(`A volume of ${v} L is a swimming pool, not a hot tub; give the tub's volume in litres.`);
 
-  const t = d.temperatureC;
+  if (d.temperatureC != null && d.temperatureF != null) fail("Give the water temperature once: temperatureC or temperatureF, not both.");
+  if (d.temperatureF != null && (d.temperatureF < 32 || d.temperatureF > 113))
+    fail(`A water temperature of ${d.temperatureF} °F is ${d.temperatureF < 32 ? "below freezing" : "too hot for a hot tub"}; give it in °F (a hot tub runs at about 100 °F).`);
+  const t = d.temperatureF != null ? Math.round((((d.temperatureF - 32) * 5) / 9) * 10) / 10 : d.temperatureC;
+  const st = d.setTemperatureC;
+  if (st !== null && st !== undefined && (st < 10 || st > 45))
+    fail(`A set temperature of ${st} °C is not a hot tub's; give it in °C (hot tubs run at about 37–40 °C).`);
+  if (d.fillTds != null && (d.fillTds < 0 || d.fillTds > 20000)) fail(`The fill water's dissolved solids of ${d.fillTds} mg/L is ${d.fillTds < 0 ? "negative" : "implausible"}.`);
   if (t !== null && t !== undefined) {
     if (t < 0) fail(`A water temperature of ${t} °C is below freezing; give the temperature in °C.`);
     if (t > 45) fail(`A water temperature of ${t} °C is too hot for a hot tub; if that is °F, give it in °C (${(((t - 32) * 5) / 9).toFixed(1)} °C).`);
@@ -195,11 +254,31 @@ export function validateWaterInput(json: unknown): WaterInput {
   if (d.bathersPerDay !== null && d.bathersPerDay !== undefined && (d.bathersPerDay < 0 || d.bathersPerDay > 1000))
     fail(`Bathers per day must be between 0 and 1000 (got ${d.bathersPerDay}).`);
 
+  const isChlorine = (c: string) => c in CHLORINE_FRACTION;
   (d.products ?? []).forEach((p, i) => {
     const who = `Product ${i + 1} ("${p.name}")`;
-    if (p.strength <= 0) fail(`${who} has zero or negative strength; give the active-ingredient fraction, e.g. 0.56 for 56 %.`);
-    if (p.strength > 1 && p.strength <= 100) fail(`${who} strength ${p.strength} looks like a percentage; give it as a fraction (${p.strength / 100}).`);
-    if (p.strength > 1) fail(`${who} strength must be a fraction between 0 and 1.`);
+    if (p.availableChlorine !== undefined) {
+      if (!isChlorine(p.chemical)) fail(`${who} gives availableChlorine, but ${p.chemical.replace(/_/g, " ")} is not a chlorine product; give its strength.`);
+      if (p.availableChlorine > 1 && p.availableChlorine <= 100) fail(`${who} availableChlorine ${p.availableChlorine} looks like a percentage; give it as a fraction (${p.availableChlorine / 100}).`);
+      if (!(p.availableChlorine > 0 && p.availableChlorine <= 1)) fail(`${who} availableChlorine must be a fraction between 0 and 1, the figure the label prints (e.g. 0.56).`);
+      const pure = CHLORINE_FRACTION[p.chemical]!;
+      if (p.availableChlorine > pure + 0.01)
+        fail(`${who} availableChlorine ${p.availableChlorine} is more than pure ${p.chemical.replace(/_/g, " ")} has (${Math.round(pure * 1000) / 1000}); check the chemical and the label.`);
+      if (p.strength !== undefined) {
+        const implied = p.strength * pure;
+        if (Math.abs(implied - p.availableChlorine) > Math.max(0.02, 0.05 * p.availableChlorine))
+          fail(`${who}: strength ${p.strength} and availableChlorine ${p.availableChlorine} disagree (strength ${p.strength} of ${p.chemical.replace(/_/g, " ")} gives ${Math.round(implied * 1000) / 1000} available chlorine); give one of them, or make them agree.`);
+      }
+      p.strength ??= Math.min(1, p.availableChlorine / pure);
+    }
+    if (p.strength === undefined) fail(`${who} needs a strength (the active-ingredient fraction, e.g. 0.93)${isChlorine(p.chemical) ? " or availableChlorine (the label's figure)" : ""}.`);
+    const strength = p.strength!;
+    if (strength <= 0) fail(`${who} has zero or negative strength; give the active-ingredient fraction, e.g. 0.56 for 56 %.`);
+    if (strength > 1 && strength <= 100) fail(`${who} strength ${strength} looks like a percentage; give it as a fraction (${strength / 100}).`);
+    if (strength > 1) fail(`${who} strength must be a fraction between 0 and 1.`);
+    if (p.chemical.startsWith("sodium_dichloroisocyanurate") && p.availableChlorine === undefined && strength < 0.8)
+      fail(`${who} strength ${strength} looks like the label's available chlorine, not purity: dichlor is sold nearly pure (pure dihydrate has 55.4 % available chlorine). Give it as availableChlorine: ${strength}, or give the purity as strength.`);
+    if (p.bulkDensityGPerMl !== undefined && !(p.bulkDensityGPerMl > 0.2 && p.bulkDensityGPerMl < 3)) fail(`${who} bulk density must be between 0.2 and 3 g/mL.`);
     if (p.form === "liquid" && p.densityGPerMl !== undefined && !(p.densityGPerMl > 0.5 && p.densityGPerMl < 2.5))
       fail(`${who} density must be between 0.5 and 2.5 g/mL.`);
     if (p.availableChlorineGPerL !== undefined && !(p.availableChlorineGPerL > 0 && p.availableChlorineGPerL <= 250))
@@ -224,10 +303,16 @@ export function validateWaterInput(json: unknown): WaterInput {
     if ((rg.min ?? 0) < 0 || (rg.max ?? 0) < 0) fail(`The target range for ${key.replace(/_/g, " ")} cannot be negative.`);
   }
 
+  const { volumeGallons: _g, temperatureF: _f, ...rest } = d;
+  void _g;
+  void _f;
   return {
-    ...(d as unknown as WaterInput),
+    ...(rest as unknown as WaterInput),
+    volumeLitres: v,
     sanitiser: sanitiser as WaterInput["sanitiser"],
     temperatureC: t ?? undefined,
+    setTemperatureC: st ?? undefined,
+    fillTds: d.fillTds ?? undefined,
     tds: d.tds ?? undefined,
     bathersPerDay: d.bathersPerDay ?? undefined,
     products: d.products?.map((p) => ({ cautions: [], packageSize: { amount: 1, unit: "kg" as const }, ...p })) as WaterInput["products"],

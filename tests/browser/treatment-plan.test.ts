@@ -35,7 +35,8 @@ describe("the treatment plan on a phone", () => {
     expect(phAt).toBeGreaterThan(taAt);
     // 1200 L from 0.5 to 3 mg/L free chlorine: 3.0 g Cl2 / 0.554 g per g dichlor dihydrate = 5.4 g (molar masses, chemistry.md §2.1).
     expect(await steps.first().getByTestId("step-amount").textContent()).toBe("5.4 g");
-    expect(await steps.first().textContent()).toContain("after 24 h");
+    // a maintenance top-up waits 1 h; a shock 12 h (products.ts WAIT_HOURS, common practice)
+    expect(await steps.first().textContent()).toContain("after 1 h");
     // Cautions beside every dose, visible without a click.
     const cautionBoxes = page.getByTestId("cautions");
     expect(await cautionBoxes.count()).toBe(await steps.count());
@@ -49,7 +50,7 @@ describe("the treatment plan on a phone", () => {
 
     await steps.first().getByRole("button", { name: "I added this" }).click();
     await page.getByTestId("retest-timer").waitFor();
-    const retestAt = new Date(Date.now() + 24 * 3600_000);
+    const retestAt = new Date(Date.now() + 1 * 3600_000);
     const timerText = (await page.getByTestId("retest-timer").textContent()) ?? "";
     const hhmm = timerText.match(/Retest after (\d\d):(\d\d)/);
     expect(hhmm, timerText).not.toBeNull();
@@ -57,7 +58,7 @@ describe("the treatment plan on a phone", () => {
     const minutes = (h: string, m: string) => Number(h) * 60 + Number(m);
     const diff = Math.abs(minutes(hhmm![1]!, hhmm![2]!) - minutes(expected.slice(0, 2), expected.slice(3)));
     expect(Math.min(diff, 1440 - diff)).toBeLessThanOrEqual(1);
-    await page.getByTestId("time-left").getByText(/2[34] h \d\d min to go/).waitFor();
+    await page.getByTestId("time-left").getByText(/(1 h 00|[345]\d) min to go/).waitFor();
     await page.getByRole("heading", { name: "Wait before the next step" }).waitFor();
     await screenshot(page, "plan-2-retest-timer");
 

@@ -52,7 +52,8 @@ describe("the plan loader", () => {
     // needs 2.5 × 1.2 = 3.0 g Cl2 → 3.0 / 0.554 = 5.4 g (also the example of water-plan.md).
     expect(fc.chemical).toBe("sodium_dichloroisocyanurate_dihydrate");
     expect(fc.grams).toBeCloseTo(5.4, 1);
-    expect(fc.retestAfterHours).toBe(24);
+    // a maintenance top-up waits 1 h (a shock 12 h): one rule, products.ts WAIT_HOURS (common practice)
+    expect(fc.retestAfterHours).toBe(1);
     for (const step of d.plan.steps) expect(step.cautions.join(" ")).toMatch(/Add chemical to water, never water to chemical/);
     expect(d.plan.notes.join(" ")).toMatch(/licensed operators decide/);
     expect(d.plan.waterBalance.lsi).not.toBeNull();
@@ -124,18 +125,22 @@ describe("the product catalogue", () => {
     expect(await db.select().from(s.product).where(eq(s.product.ownerId, owner.id))).toHaveLength(0);
   });
 
-  it("uses the owner's edited strength in the plan: half the strength, twice the grams", async () => {
+  it("uses the owner's edited strength in the plan: 90 % purity, 1/0.9 the grams", async () => {
     const who = await createUser("owner");
     const id = (await createTub(who.id, { volumeLitres: 1200 })).id;
     await addReading(id, OUT_OF_RANGE);
     const { action, loader } = await importRoute("routes/plan/products.tsx");
-    const r = await callRoute(action!, { url: "/products", user: who, form: { intent: "save", catalogueId: "dichlor-granules", name: "Half-strength dichlor", form: "granules", strengthPercent: "50", packageSize: "2", packageUnit: "kg" } });
+    const r = await callRoute(action!, { url: "/products", user: who, form: { intent: "save", catalogueId: "dichlor-granules", name: "Technical dichlor", form: "granules", strengthPercent: "90", packageSize: "2", packageUnit: "kg" } });
     expect(r.status).toBe(302);
     const list = (await callRoute(loader!, { url: "/products", user: who })).data as { products: { id: string; strengthPercent: number; edited: boolean }[] };
-    expect(list.products.find((p) => p.id === "dichlor-granules")).toMatchObject({ strengthPercent: 50, edited: true });
+    expect(list.products.find((p) => p.id === "dichlor-granules")).toMatchObject({ strengthPercent: 90, edited: true });
     const d = (await planOf(who, id)).data as PlanData;
-    expect(d.plan.steps[0]!.productName).toBe("Half-strength dichlor");
-    expect(d.plan.steps[0]!.grams).toBeCloseTo(10.8, 0);
+    expect(d.plan.steps[0]!.productName).toBe("Technical dichlor");
+    expect(d.plan.steps[0]!.grams).toBeCloseTo(6.0, 1);
+    // a label's 56 % available chlorine typed as strength is refused (it would overdose 1.8×)
+    const bad = await callRoute(action!, { url: "/products", user: who, form: { intent: "save", catalogueId: "dichlor-granules", name: "x", form: "granules", strengthPercent: "56", packageSize: "1", packageUnit: "kg" } });
+    expect(bad.status).toBe(400);
+    expect((bad.data as { fields: Record<string, string> }).fields.strengthPercent).toMatch(/available chlorine/);
   });
 });
 
@@ -156,7 +161,7 @@ describe("the treatment log", () => {
     const [row] = await db.select().from(s.treatment).where(eq(s.treatment.tubId, id));
     expect(row!.chemical).toBe("sodium_dichloroisocyanurate_dihydrate");
     expect(row!.amount).toBe(step.grams);
-    expect(row!.retestAt!.getTime() - row!.addedAt.getTime()).toBe(24 * 3600_000);
+    expect(row!.retestAt!.getTime() - row!.addedAt.getTime()).toBe(1 * 3600_000);
     const d = (await planOf(owner, id)).data as PlanData;
     expect(d.plan.steps[0]!.kind).toBe("wait");
     expect(d.timer!.retestAt).toBe(row!.retestAt!.toISOString());

@@ -101,6 +101,8 @@ export function parseProductEdit(form: FormData): { ok: true; values: Omit<typeo
   else if (v.strengthPercent > 100) fields.strengthPercent = `A strength of ${v.strengthPercent} % is impossible: it must be 100 % or less.`;
   else if (v.strengthPercent < 1)
     fields.strengthPercent = `A strength of ${v.strengthPercent} % is too weak to dose with; check the label (give the percentage, for example 93, not 0.93).`;
+  else if (base.chemical.startsWith("sodium_dichloroisocyanurate") && v.strengthPercent < 80)
+    fields.strengthPercent = `${v.strengthPercent} % looks like the label's available chlorine, not the purity: dichlor is sold nearly pure (pure dichlor dihydrate has 55.4 % available chlorine). Give the purity, usually 95–100 %.`;
   const density = v.densityGPerMl ?? (v.form === "liquid" ? (base.densityGPerMl ?? 1) : undefined);
   if (v.form === "liquid" && density !== undefined && !(density >= 0.5 && density <= 2.5))
     fields.densityGPerMl = "The density of a liquid must be between 0.5 and 2.5 g/mL (water is 1.0).";

@@ -18,7 +18,7 @@ import {
   type TargetRanges,
   type WaterPlan,
 } from "~/chemistry";
-import { retestHoursFor } from "~/chemistry/products";
+import { waitHoursForLogged } from "~/chemistry/lock";
 import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tubs.server";
@@ -195,6 +195,8 @@ function hasNonFinite(x: unknown): boolean {
   return false;
 }
 
+const ENGINE_READINGS = ["free_chlorine", "total_chlorine", "bromine", "ph", "total_alkalinity", "total_hardness", "calcium_hardness", "cyanuric_acid", "borate"] as const;
+
 /** Runs the engine for this tub; bad readings become an error in plain words, never a NaN dose. */
 export function runEngine(
   t: Pick<Tub, "volumeLitres" | "temperatureC" | "sanitiser" | "bathersPerDay" | "timeZone" | "targets">,
@@ -209,7 +211,8 @@ export function runEngine(
       temperatureC: t.temperatureC,
       sanitiser: t.sanitiser,
       bathersPerDay: t.bathersPerDay > 0 ? t.bathersPerDay : undefined,
-      readings,
+      // only the analytes the engine knows: a chart may carry other pads
+      readings: Object.fromEntries(Object.entries(readings).filter(([k]) => (ENGINE_READINGS as readonly string[]).includes(k))),
     });
     const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone) });
     if (hasNonFinite(plan)) return { plan: null, error: "The plan could not be computed for these readings; please check them." };
@@ -319,7 +322,7 @@ export async function recordTreatment(t: Tub, userId: string, form: FormData, no
     readingId = r ? r.id : null;
   }
   if (Object.keys(fields).length || !product) return { ok: false, fields };
-  const hours = retestHoursFor(product);
+  const { hours } = waitHoursForLogged(product, { amount: v.amount, unit: v.unit }, t.volumeLitres);
   const retestAt = new Date(addedAt.getTime() + hours * 3600_000);
   const parameter = v.parameter && v.parameter in DEFAULT_TARGETS[t.sanitiser] ? v.parameter : null;
   const [row] = await db
