@@ -37,7 +37,7 @@ async function planOf(user: TestUser, id = tubId, query = "") {
 }
 
 describe("the plan loader", () => {
-  it("plans from the latest reading: sanitiser, then total alkalinity, then pH, with amounts for this tub's volume", async () => {
+  it("plans from the latest reading: sanitiser, then total alkalinity; the acid for pH waits for a new plan (never acid and alkali in one plan)", async () => {
     const r = await planOf(owner);
     expect(r.status).toBe(200);
     const d = r.data as PlanData;
@@ -45,7 +45,8 @@ describe("the plan loader", () => {
     const params = d.plan.steps.map((x: PlanStep) => x.parameter);
     expect(params.indexOf("free_chlorine")).toBe(0);
     expect(params.indexOf("total_alkalinity")).toBeGreaterThan(0);
-    expect(params.indexOf("ph")).toBeGreaterThan(params.indexOf("total_alkalinity"));
+    expect(params).not.toContain("ph");
+    expect(d.plan.notes.join(" ")).toMatch(/new plan lowers it with acid/);
     const fc = d.plan.steps[0]!;
     // Dichlor dihydrate NaCl2(NCO)3·2H2O, M = 255.98 g/mol, 2 Cl → 2 × 35.453 × 2 / 255.98 = 0.554 g
     // available chlorine per g (IUPAC atomic weights; chemistry.md §2.1). 1200 L from 0.5 to 3 mg/L
