@@ -46,7 +46,23 @@ describe("water-plan command", () => {
     ["zero-strength product", JSON.stringify({ ...good, products: [{ id: "d", name: "dichlor", chemical: "sodium_dichloroisocyanurate_dihydrate", form: "granules", strength: 0 }] })],
     ["missing readings", JSON.stringify({ volumeLitres: 1200, sanitiser: "chlorine" })],
     ["Infinity via 1e400", '{"volumeLitres":1e400,"sanitiser":"chlorine","readings":{}}'],
+    ["an unknown field (gallons misspelt)", JSON.stringify({ ...good, volumeLitres: undefined, volumeGalons: 400 })],
+    ["both volumes", JSON.stringify({ ...good, volumeGallons: 400 })],
   ];
+  it("takes US gallons and °F, prints ounces and the predicted water; --help describes the contract", () => {
+    const r = run(["-"], JSON.stringify({ ...good, volumeLitres: undefined, volumeGallons: 317, temperatureC: undefined, temperatureF: 100, units: "us" }));
+    expect(r.status).toBe(0);
+    const plan = JSON.parse(r.stdout);
+    expect(plan.steps[0].ounces).toBeGreaterThan(0);
+    expect(plan.steps[0].amountText).toMatch(/oz/);
+    expect(plan.predicted.free_chlorine).toBe(3);
+    expect(Object.keys(plan.predicted)).toEqual(expect.arrayContaining(["ph", "total_alkalinity", "lsi", "usableAfter"]));
+    const h = run(["--help"]);
+    expect(h.status).toBe(0);
+    expect(h.stdout).toMatch(/volumeGallons/);
+    expect(h.stdout).toMatch(/first_fill/);
+  });
+
   it.each(bad)("rejects %s with one plain line on stderr", (_name, text) => {
     const r = run(["-"], text);
     expect(r.status).not.toBe(0);

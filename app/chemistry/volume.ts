@@ -10,10 +10,16 @@ export type InsideDimsCm =
   | { length: number; width: number };
 
 /**
- * Water volume (L) from inside dimensions and water depth in cm. Seats and footwells make the
- * real volume smaller; treat the result as an upper estimate (common practice).
+ * Water one moulded seat displaces: a block about 50 × 50 cm, 40 cm high ≈ 100 L; a lounger about
+ * twice that (common practice estimate, from memory). Footwells are already below the water depth.
  */
-export function estimateVolumeLitres(shape: Shape, insideDimsCm: InsideDimsCm, depthCm: number): number {
+export const LITRES_PER_SEAT = 100;
+
+/**
+ * Water volume (L) from inside dimensions and water depth in cm, less what the seats displace
+ * (an estimate; the tub's manual gives the true figure).
+ */
+export function estimateVolumeLitres(shape: Shape, insideDimsCm: InsideDimsCm, depthCm: number, o: { seats?: number } = {}): number {
   const pos = (n: unknown, what: string) => {
     if (typeof n !== "number" || !Number.isFinite(n) || n <= 0) throw new RangeError(`The ${what} must be a positive number of centimetres.`);
     return n;
@@ -32,7 +38,10 @@ export function estimateVolumeLitres(shape: Shape, insideDimsCm: InsideDimsCm, d
   } else {
     throw new RangeError(`Unknown tub shape "${String(shape)}"; use round, square or rectangular.`);
   }
-  return (areaCm2 * d) / 1000;
+  const seats = Math.max(0, Math.min(12, Math.round(o.seats ?? 0)));
+  const gross = (areaCm2 * d) / 1000;
+  // never take away more than half the shell: a tiny tub with many seats is a typing slip
+  return Math.max(gross / 2, gross - seats * LITRES_PER_SEAT);
 }
 
 /** US gallons → litres (1 US gal = 3.785411784 L exactly, NIST Handbook 44 App. C). */

@@ -43,6 +43,8 @@ export const user = pgTable("user", {
   banned: boolean("banned").default(false),
   banReason: text("ban_reason"),
   banExpires: timestamp("ban_expires", { withTimezone: true }),
+  /** amounts in "metric" (g, mL, L, °C) or "us" (oz, fl oz, US gal, °F) */
+  units: text("units").notNull().default("metric"),
 });
 
 export const session = pgTable(
@@ -176,6 +178,8 @@ export const tub = pgTable(
     /** shape and inside dimensions the volume was estimated from, if any */
     shape: jsonb("shape"),
     testEveryDays: integer("test_every_days").notNull().default(2),
+    /** which published guidance sets the default ranges: "us_home", "us_public" or "uk" */
+    guidance: text("guidance").notNull().default("us_home"),
     firstFillCompletedAt: timestamp("first_fill_completed_at", { withTimezone: true }),
     archivedAt: timestamp("archived_at", { withTimezone: true }),
     createdAt: createdAt(),
@@ -381,6 +385,8 @@ export const treatment = pgTable(
     unit: text("unit").notNull(),
     addedAt: timestamp("added_at", { withTimezone: true }).notNull(),
     retestAt: timestamp("retest_at", { withTimezone: true }),
+    /** logged as a shock dose: the tub stays closed longer */
+    shock: boolean("shock").notNull().default(false),
     addedBy: text("added_by").references(() => user.id, { onDelete: "set null" }),
     note: text("note"),
     createdAt: createdAt(),

@@ -1,7 +1,7 @@
 // Pieces of the plan, treatment and setup pages.
 import { useEffect, useState } from "react";
 import { Form } from "react-router";
-import { PARAMETER_NAMES, type PlanStep, type WaterBalance } from "~/chemistry";
+import { PARAMETER_NAMES, type Headline, type PlanStep, type WaterBalance } from "~/chemistry";
 import { Button, ButtonLink, Card, Notice, cx } from "~/components/ui";
 import { remainingWords } from "~/features/plan/time";
 
@@ -45,32 +45,46 @@ export function RetestTimer({ retestAt, clock, day, now, label }: { retestAt: st
   );
 }
 
-export function Cautions({ items, title = "Safety" }: { items: string[]; title?: string }) {
+/** The cautions of a dose: collapsible, open by default, shown before the amount. */
+export function Cautions({ items, title = "Safety", open = true }: { items: string[]; title?: string; open?: boolean }) {
   if (items.length === 0) return null;
   return (
-    <div className="rounded-xl border border-alert/30 bg-alert-soft px-4 py-3 text-sm text-ink" data-testid="cautions">
-      <p className="mb-1 font-bold text-alert">⚠ {title}</p>
-      <ul className="list-disc space-y-1 pl-5">
+    <details open={open} className="rounded-xl border border-alert/30 bg-alert-soft px-4 py-3 text-sm text-ink" data-testid="cautions">
+      <summary className="cursor-pointer font-bold text-alert">⚠ {title} ({items.length})</summary>
+      <ul className="mt-1 list-disc space-y-1 pl-5">
         {items.map((c) => (
           <li key={c}>{c}</li>
         ))}
       </ul>
-    </div>
+    </details>
   );
 }
 
-export function amountText(s: { grams: number | null; millilitres: number | null; tablets?: number | null; litres?: number | null }) {
+export function amountText(s: { grams: number | null; millilitres: number | null; tablets?: number | null; litres?: number | null; amountText?: string }) {
+  if (s.amountText) return s.amountText;
   if (s.millilitres !== null) return `${s.millilitres} mL`;
   if (s.grams !== null) return `${s.grams} g${s.tablets ? ` (about ${s.tablets} tablets)` : ""}`;
   if (s.litres) return `${s.litres} L of water`;
   return "";
 }
 
+/** The plan's headline: the worst finding first, and whether the tub may be used. */
+export function PlanHeadline({ headline }: { headline: Headline }) {
+  const usable = headline.usableNow === true ? "The tub may be used." : headline.usableNow === false ? "Do not use the tub now." : "Test before anyone uses the tub.";
+  return (
+    <Notice tone={headline.tone === "ok" ? "ok" : headline.tone === "alert" ? "alert" : "caution"} className="text-base" data-testid="plan-headline">
+      <p className="text-lg font-bold">{headline.title}</p>
+      <p>{headline.detail}</p>
+      <p className="mt-1 font-bold">{usable}</p>
+    </Notice>
+  );
+}
+
 const fmt = (parameter: string | null, x: number | null) => (x === null ? "–" : parameter === "ph" ? x.toFixed(1) : String(x));
 const unitOf = (parameter: string | null) => (parameter === "ph" ? "" : " mg/L");
 
 /** One step of the plan, with its amount, aim, side effects, retest and cautions, and "I added this". */
-export function StepCard({ step, tubId, readingId, canLog, current, redirectTo }: { step: PlanStep; tubId: string; readingId?: string | null; canLog: boolean; current: boolean; redirectTo: string }) {
+export function StepCard({ step, tubId, readingId, canLog, current, redirectTo, cautionsAt }: { step: PlanStep; tubId: string; readingId?: string | null; canLog: boolean; current: boolean; redirectTo: string; cautionsAt?: number }) {
   const amount = amountText(step);
   return (
     <li className={cx("rounded-card border bg-shell p-4 shadow-sm", current ? "border-well-500 ring-2 ring-well-100" : "border-line")} data-testid="plan-step">
@@ -83,8 +97,14 @@ export function StepCard({ step, tubId, readingId, canLog, current, redirectTo }
               : step.kind === "replace_water"
                 ? "Replace water"
                 : `${step.direction === "raise" ? "Raise" : "Lower"} ${PARAMETER_NAMES[step.parameter ?? ""]?.toLowerCase().replace(/^ph$/, "pH") ?? ""}`}
+            {step.shock && <span className="ml-2 rounded bg-alert-soft px-2 py-0.5 text-xs font-bold text-alert">shock</span>}
             {step.provisional && <span className="ml-2 rounded bg-sand px-2 py-0.5 text-xs font-bold text-ink-soft">estimate: retest first</span>}
           </p>
+          {cautionsAt !== undefined ? (
+            <p className="text-sm font-bold text-alert" data-testid="cautions-ref">⚠ Same safety as step {cautionsAt}: read it before you add this.</p>
+          ) : (
+            <Cautions items={step.cautions} title={step.productName ? `Safety: ${step.productName}` : "Safety"} />
+          )}
           {step.kind === "dose" && (
             <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
               <dt className="text-ink-soft">Product</dt>
@@ -113,13 +133,13 @@ export function StepCard({ step, tubId, readingId, canLog, current, redirectTo }
               </ul>
             </div>
           )}
-          <Cautions items={step.cautions} />
           {canLog && step.kind === "dose" && step.productId && (step.grams !== null || step.millilitres !== null) && (
             <Form method="post" action={`/tubs/${tubId}/treatments`} className="flex flex-wrap items-end gap-2 pt-1">
               <input type="hidden" name="intent" value="log" />
               <input type="hidden" name="productId" value={step.productId} />
               <input type="hidden" name="parameter" value={step.parameter ?? ""} />
               <input type="hidden" name="unit" value={step.millilitres !== null ? "mL" : "g"} />
+              {step.shock && <input type="hidden" name="shock" value="1" />}
               {readingId && <input type="hidden" name="readingId" value={readingId} />}
               <input type="hidden" name="redirectTo" value={redirectTo} />
               <label className="text-sm">

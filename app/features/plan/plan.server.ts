@@ -18,7 +18,8 @@ import {
   type TargetRanges,
   type WaterPlan,
 } from "~/chemistry";
-import { waitHoursForLogged } from "~/chemistry/lock";
+import { activeLock, waitHoursForLogged } from "~/chemistry/lock";
+import { GUIDANCE_IDS, type Guidance, type Units } from "~/chemistry";
 import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tubs.server";
@@ -79,6 +80,7 @@ export async function treatmentLog(tubId: string, now: Date): Promise<LoggedTrea
       amount: r.amount,
       unit: (["g", "mL", "tablets"].includes(r.unit) ? r.unit : "g") as LoggedTreatment["unit"],
       addedAt: r.addedAt.toISOString(),
+      ...(r.shock ? { shock: true } : {}),
     }));
 }
 
@@ -91,21 +93,33 @@ export interface Timer {
   retestClock: string;
   /** "Wed 2 Dec" in the tub's time zone */
   retestDay: string;
+  /** the dose was a shock: the tub stays closed longer */
+  shock: boolean;
 }
 
-/** The running retest timer: the latest retest time still ahead. */
-export function activeTimer(rows: TreatmentRow[], now: Date, timeZone: string): Timer | null {
-  let best: TreatmentRow | null = null;
-  for (const r of rows) if (r.retestAt && r.retestAt.getTime() > now.getTime() && (!best || r.retestAt > best.retestAt!)) best = r;
-  if (!best) return null;
+/** The lock in force: the same rule the plan, the treatment log and the first-fill routine honour. */
+export function activeTimer(t: Pick<Tub, "volumeLitres" | "timeZone">, rows: TreatmentRow[], products: Product[], now: Date): Timer | null {
+  const zone = safeZone(t.timeZone);
+  const log = rows
+    .filter((r) => r.addedAt.getTime() <= now.getTime() + 60_000 && r.addedAt.getTime() >= now.getTime() - 7 * 86400_000)
+    .map((r) => ({ id: r.id, entry: { productId: r.productId ?? r.chemical, chemical: r.chemical, amount: r.amount, unit: (["g", "mL", "tablets"].includes(r.unit) ? r.unit : "g") as LoggedTreatment["unit"], addedAt: r.addedAt.toISOString(), ...(r.shock ? { shock: true } : {}) } }));
+  const lock = activeLock(log.map((l) => l.entry), { products, volumeLitres: t.volumeLitres, now });
+  if (!lock) return null;
+  const row = log.find((l) => l.entry.addedAt === lock.addedAt && l.entry.productId === lock.productId);
+  const named = rows.find((r) => r.id === row?.id);
   return {
-    treatmentId: best.id,
-    productName: best.productName,
-    addedAt: best.addedAt.toISOString(),
-    retestAt: best.retestAt!.toISOString(),
-    retestClock: clock(best.retestAt!, timeZone),
-    retestDay: dayOnly(best.retestAt!, timeZone),
+    treatmentId: row?.id ?? "",
+    productName: named?.productName ?? lock.productName,
+    addedAt: lock.addedAt,
+    retestAt: lock.until,
+    retestClock: clock(lock.until, zone),
+    retestDay: dayOnly(lock.until, zone),
+    shock: lock.shock,
   };
+}
+
+export function tubGuidance(t: Pick<Tub, "guidance">): Guidance {
+  return (GUIDANCE_IDS as string[]).includes(t.guidance) ? (t.guidance as Guidance) : "us_home";
 }
 
 // ------------------------------------------------------------------ target ranges
@@ -113,21 +127,21 @@ export function activeTimer(rows: TreatmentRow[], now: Date, timeZone: string): 
 const overrideSchema = z.record(z.string(), z.object({ min: z.number().optional(), max: z.number().optional(), aim: z.number().optional() }));
 
 /** The tub's stored overrides; anything unreadable is ignored rather than breaking the plan. */
-export function tubOverrides(t: Pick<Tub, "targets" | "sanitiser">): Partial<Record<Parameter, Partial<Range>>> {
+export function tubOverrides(t: Pick<Tub, "targets" | "sanitiser"> & Partial<Pick<Tub, "guidance">>): Partial<Record<Parameter, Partial<Range>>> {
   const parsed = overrideSchema.safeParse(t.targets ?? {});
   if (!parsed.success) return {};
   const out: Partial<Record<Parameter, Partial<Range>>> = {};
   for (const [k, v] of Object.entries(parsed.data)) if (k in DEFAULT_TARGETS[t.sanitiser]) out[k as Parameter] = v;
   try {
-    resolveTargets(t.sanitiser, out);
+    resolveTargets(t.sanitiser, out, t.guidance ? tubGuidance({ guidance: t.guidance }) : undefined);
     return out;
   } catch {
     return {};
   }
 }
 
-export function tubTargets(t: Pick<Tub, "targets" | "sanitiser">): TargetRanges {
-  return resolveTargets(t.sanitiser, tubOverrides(t));
+export function tubTargets(t: Pick<Tub, "targets" | "sanitiser" | "guidance">): TargetRanges {
+  return resolveTargets(t.sanitiser, tubOverrides(t), tubGuidance(t));
 }
 
 /** Upper limits for a per-tub range: beyond them it is not a hot tub target any more (common practice). */
@@ -185,6 +199,8 @@ export interface TubPlan {
   targets: TargetRanges;
   overridden: Parameter[];
   timer: Timer | null;
+  units: Units;
+  guidance: Guidance;
   now: string;
 }
 
@@ -199,22 +215,24 @@ const ENGINE_READINGS = ["free_chlorine", "total_chlorine", "bromine", "ph", "to
 
 /** Runs the engine for this tub; bad readings become an error in plain words, never a NaN dose. */
 export function runEngine(
-  t: Pick<Tub, "volumeLitres" | "temperatureC" | "sanitiser" | "bathersPerDay" | "timeZone" | "targets">,
+  t: Pick<Tub, "volumeLitres" | "temperatureC" | "sanitiser" | "bathersPerDay" | "timeZone" | "targets" | "guidance">,
   readings: Readings,
   products: Product[],
   log: LoggedTreatment[],
   now: Date,
+  units: Units = "metric",
 ): { plan: WaterPlan | null; error: string | null } {
   try {
     const input = validateWaterInput({
       volumeLitres: t.volumeLitres,
-      temperatureC: t.temperatureC,
+      // the tub's set temperature: a strip reading carries no water temperature
+      setTemperatureC: t.temperatureC,
       sanitiser: t.sanitiser,
       bathersPerDay: t.bathersPerDay > 0 ? t.bathersPerDay : undefined,
       // only the analytes the engine knows: a chart may carry other pads
       readings: Object.fromEntries(Object.entries(readings).filter(([k]) => (ENGINE_READINGS as readonly string[]).includes(k))),
     });
-    const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone) });
+    const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone), guidance: tubGuidance(t), units });
     if (hasNonFinite(plan)) return { plan: null, error: "The plan could not be computed for these readings; please check them." };
     return { plan, error: null };
   } catch (e) {
@@ -238,13 +256,13 @@ export function parseWhatIf(params: URLSearchParams): { readings: Readings | nul
   return { readings, error: null };
 }
 
-export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | null } = {}): Promise<TubPlan> {
+export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | null; units?: Units } = {}): Promise<TubPlan> {
   const now = opts.now ?? new Date();
   const zone = safeZone(t.timeZone);
   const [products, rows, latest] = await Promise.all([ownerProducts(t.ownerId), recentTreatments(t.id, 20), latestReading(t.id)]);
   const log = await treatmentLog(t.id, now);
   const readings = opts.whatIf ?? latest?.readings ?? null;
-  const { plan, error } = readings ? runEngine(t, readings, products, log, now) : { plan: null, error: null };
+  const { plan, error } = readings ? runEngine(t, readings, products, log, now, opts.units) : { plan: null, error: null };
   const overrides = tubOverrides(t);
   return {
     tub: {
@@ -263,9 +281,11 @@ export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | nu
     whatIf: opts.whatIf ?? null,
     plan,
     error,
-    targets: resolveTargets(t.sanitiser, overrides),
+    targets: resolveTargets(t.sanitiser, overrides, tubGuidance(t)),
     overridden: Object.keys(overrides) as Parameter[],
-    timer: activeTimer(rows, now, zone),
+    timer: activeTimer(t, rows, products, now),
+    units: opts.units ?? "metric",
+    guidance: tubGuidance(t),
     now: now.toISOString(),
   };
 }
@@ -285,7 +305,7 @@ const logSchema = z.object({
   note: z.string().max(500, "Keep the note under 500 characters.").optional(),
 });
 
-export type LogResult = { ok: true; id: string; retestAt: Date } | { ok: false; fields: Record<string, string> };
+export type LogResult = { ok: true; id: string; retestAt: Date } | { ok: false; fields: Record<string, string>; locked?: boolean };
 
 export async function recordTreatment(t: Tub, userId: string, form: FormData, now = new Date()): Promise<LogResult> {
   const parsed = logSchema.safeParse(Object.fromEntries(form));
@@ -322,7 +342,17 @@ export async function recordTreatment(t: Tub, userId: string, form: FormData, no
     readingId = r ? r.id : null;
   }
   if (Object.keys(fields).length || !product) return { ok: false, fields };
-  const { hours } = waitHoursForLogged(product, { amount: v.amount, unit: v.unit }, t.volumeLitres);
+  // The lock: nothing else goes in before the retest. Recording a dose already added stays possible, on purpose.
+  const lockNow = activeTimer(t, await recentTreatments(t.id, 20), products, now);
+  if (lockNow && form.get("alreadyAdded") !== "1")
+    return {
+      ok: false,
+      fields: {
+        form: `Nothing should go in until ${lockNow.retestClock} (${lockNow.productName} was added${lockNow.shock ? " as a shock" : ""}; retest first). If you have already added it, tick “I already added it” to record it.`,
+      },
+      locked: true,
+    };
+  const { hours, shock } = waitHoursForLogged(product, { amount: v.amount, unit: v.unit, ...(form.get("shock") === "1" ? { shock: true } : {}) }, t.volumeLitres);
   const retestAt = new Date(addedAt.getTime() + hours * 3600_000);
   const parameter = v.parameter && v.parameter in DEFAULT_TARGETS[t.sanitiser] ? v.parameter : null;
   const [row] = await db
@@ -338,6 +368,7 @@ export async function recordTreatment(t: Tub, userId: string, form: FormData, no
       unit: v.unit,
       addedAt,
       retestAt: hours > 0 ? retestAt : null,
+      shock,
       addedBy: userId,
       note: v.note?.trim() || null,
     })

@@ -1,11 +1,11 @@
 // Guided routines for a tub: first-fill setup (state in routine_run), routine top-ups, foam, drain interval.
 import { and, desc, eq, isNull } from "drizzle-orm";
-import { drainIntervalDays, firstFillRoutine, foamTreatment, routineTopUp, type Readings, type RoutineStep } from "~/chemistry";
+import { drainIntervalDays, firstFillRoutine, foamTreatment, routineTopUp, type Readings, type RoutineStep, type Units } from "~/chemistry";
 import { routineRun, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tubs.server";
 import { ownerProducts } from "./catalogue.server";
-import { latestReading, runEngine, type LatestReading } from "./plan.server";
+import { activeTimer, latestReading, recentTreatments, runEngine, tubGuidance, type LatestReading } from "./plan.server";
 import { clock, safeZone } from "./time";
 
 export const FIRST_FILL = "first_fill";
@@ -54,20 +54,27 @@ export function readiness(t: Tub, latest: LatestReading | null, run: RunRow | nu
   return { ready: reasons.length === 0, reasons };
 }
 
-export async function setupView(t: Tub, now = new Date()) {
+export async function setupView(t: Tub, now = new Date(), units: Units = "metric") {
   const zone = safeZone(t.timeZone);
-  const [products, latest, run] = await Promise.all([ownerProducts(t.ownerId), latestReading(t.id), currentRun(t.id)]);
-  const o = { volumeLitres: t.volumeLitres, sanitiser: t.sanitiser, products, temperatureC: t.temperatureC };
+  const [products, latest, run, rows] = await Promise.all([ownerProducts(t.ownerId), latestReading(t.id), currentRun(t.id), recentTreatments(t.id, 20)]);
+  const o = { volumeLitres: t.volumeLitres, sanitiser: t.sanitiser, products, temperatureC: t.temperatureC, units, guidance: tubGuidance(t) };
   let steps: RoutineStep[] = [];
   let stepsError: string | null = null;
   try {
     steps = firstFillRoutine({ ...o, fillReadings: fillReadings(latest, run) });
   } catch (e) {
     stepsError = (e as Error).message;
-    steps = firstFillRoutine(o);
+    try {
+      steps = firstFillRoutine(o);
+    } catch {
+      steps = [];
+    }
   }
   const state = (run?.state ?? {}) as RunState;
-  const timerEndsAt = state.timerEndsAt && Date.parse(state.timerEndsAt) > now.getTime() ? state.timerEndsAt : null;
+  // One lock for the plan, the log and this routine: the routine's own timer or a logged dose's wait, whichever ends later.
+  const lock = activeTimer(t, rows, products, now);
+  const own = state.timerEndsAt && Date.parse(state.timerEndsAt) > now.getTime() ? state.timerEndsAt : null;
+  const timerEndsAt = own && (!lock || Date.parse(own) >= Date.parse(lock.retestAt)) ? own : (lock?.retestAt ?? null);
   const drain = t.bathersPerDay > 0 ? drainIntervalDays(t.volumeLitres, t.bathersPerDay) : null;
   const dueOn = drain !== null && t.fillDate ? new Date(Date.parse(`${t.fillDate}T00:00:00Z`) + drain * 86400_000).toISOString().slice(0, 10) : null;
   return {
@@ -75,9 +82,12 @@ export async function setupView(t: Tub, now = new Date()) {
     run: run ? { id: run.id, stepIndex: run.stepIndex, startedAt: run.startedAt.toISOString(), done: state.done ?? [] } : null,
     steps,
     stepsError,
-    timer: timerEndsAt ? { endsAt: timerEndsAt, clock: clock(timerEndsAt, zone) } : null,
+    timer: timerEndsAt ? { endsAt: timerEndsAt, clock: clock(timerEndsAt, zone), why: lock && timerEndsAt === lock.retestAt ? `${lock.productName} was added${lock.shock ? " as a shock" : ""}: nothing else goes in until then` : "Timer for the last step" } : null,
+    ownTimerRunning: Boolean(own),
+    doseLocked: Boolean(lock),
     readiness: readiness(t, latest, run, products),
     latest,
+    units,
     topUp: routineTopUp({ ...o, bathersPerDay: t.bathersPerDay }),
     foam: foamTreatment(o),
     drain: { days: drain, dueOn, overdue: dueOn !== null && dueOn < now.toISOString().slice(0, 10) },
@@ -100,9 +110,10 @@ export async function finishStep(t: Tub, userId: string, stepIndex: number, now 
   if (!run) return { ok: false, form: "Start the first-fill setup first." };
   if (stepIndex !== run.stepIndex) return { ok: false, form: "That step is not the current one; the page was out of date, so it has been reloaded." };
   const state = (run.state ?? {}) as RunState;
-  if (state.timerEndsAt && Date.parse(state.timerEndsAt) > now.getTime())
-    return { ok: false, form: `The timer is still running: wait until ${clock(state.timerEndsAt, safeZone(t.timeZone))} before the next step.` };
   const view = await setupView(t, now);
+  const wanted = view.steps[stepIndex];
+  if (view.timer && (view.ownTimerRunning || (view.doseLocked && wanted?.productId)))
+    return { ok: false, form: `The timer is still running: wait until ${view.timer.clock} before the next step. ${view.timer.why.startsWith("Timer") ? "" : view.timer.why + "."}`.trim() };
   const step = view.steps[stepIndex];
   if (!step) return { ok: false, form: "The setup has no more steps." };
   if (stepIndex === view.steps.length - 1) return { ok: false, form: "Use “The tub is ready” on the last step." };
@@ -119,8 +130,9 @@ export async function finishStep(t: Tub, userId: string, stepIndex: number, now 
       unit: step.millilitres !== null ? "mL" : "g",
       addedAt: now,
       retestAt: step.timerMinutes ? new Date(now.getTime() + step.timerMinutes * 60_000) : null,
+      shock: step.shock ?? false,
       addedBy: userId,
-      note: "First-fill setup",
+      note: step.shock ? "First-fill setup (shock)" : "First-fill setup",
     });
   }
   const next: RunState = {

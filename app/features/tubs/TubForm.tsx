@@ -1,17 +1,23 @@
 // The tub settings form, shared by "Add a tub" and "Edit tub", with the volume helper.
 import { useState } from "react";
 import { Form } from "react-router";
-import { estimateVolumeLitres, usGallonsFromLitres, type Shape } from "~/chemistry";
+import { GUIDANCE, estimateVolumeLitres, imperialGallonsFromLitres, usGallonsFromLitres, type Guidance, type Shape } from "~/chemistry";
 import { Button, Card, Field, Input, Notice, Select } from "~/components/ui";
 
 export type TubFormValues = {
   name: string;
   volume: string;
-  volumeUnit: "L" | "USgal";
+  volumeUnit: "L" | "USgal" | "UKgal";
   sanitiser: "chlorine" | "bromine";
   batchId: string;
   timeZone: string;
+  setTemperature: string;
+  temperatureUnit: "C" | "F";
+  bathersPerDay: string;
+  guidance: Guidance;
 };
+
+const UNIT_WORDS = { L: "litres", USgal: "US gallons", UKgal: "imperial gallons" } as const;
 
 export function TubForm({
   initial,
@@ -29,21 +35,25 @@ export function TubForm({
   const [volume, setVolume] = useState(initial.volume);
   const [unit, setUnit] = useState(initial.volumeUnit);
   const [shape, setShape] = useState<Shape>("round");
-  const [dims, setDims] = useState({ diameter: "", side: "", length: "", width: "", depth: "" });
+  const [dims, setDims] = useState({ diameter: "", side: "", length: "", width: "", depth: "", seats: "" });
   const [helperOpen, setHelperOpen] = useState(false);
+  // gallons go with inches, litres with centimetres
+  const inches = unit !== "L";
+  const dimUnit = inches ? "in" : "cm";
 
   let estimate: number | null = null;
   let estimateError = "";
   const n = (s: string) => Number(s.replace(",", "."));
+  const cm = (s: string) => n(s) * (inches ? 2.54 : 1);
   if (dims.depth) {
     try {
-      const inside = shape === "round" ? { diameter: n(dims.diameter) } : shape === "square" ? { side: n(dims.side) } : { length: n(dims.length), width: n(dims.width) };
-      estimate = estimateVolumeLitres(shape, inside, n(dims.depth));
+      const inside = shape === "round" ? { diameter: cm(dims.diameter) } : shape === "square" ? { side: cm(dims.side) } : { length: cm(dims.length), width: cm(dims.width) };
+      estimate = estimateVolumeLitres(shape, inside, cm(dims.depth), { seats: dims.seats ? n(dims.seats) : 0 });
     } catch (e) {
-      estimateError = (e as Error).message;
+      estimateError = (e as Error).message.replace("centimetres", inches ? "inches" : "centimetres");
     }
   }
-  const estimateInUnit = estimate === null ? null : Math.round(unit === "USgal" ? usGallonsFromLitres(estimate) : estimate);
+  const estimateInUnit = estimate === null ? null : Math.round(unit === "USgal" ? usGallonsFromLitres(estimate) : unit === "UKgal" ? imperialGallonsFromLitres(estimate) : estimate);
 
   return (
     <Form method="post" className="space-y-5" noValidate>
@@ -58,9 +68,10 @@ export function TubForm({
           </Field>
           <label className="block">
             <span className="sr-only">Unit</span>
-            <Select name="volumeUnit" value={unit} onChange={(e) => setUnit(e.target.value as "L" | "USgal")} aria-label="Volume unit">
+            <Select name="volumeUnit" value={unit} onChange={(e) => setUnit(e.target.value as TubFormValues["volumeUnit"])} aria-label="Volume unit">
               <option value="L">litres</option>
               <option value="USgal">US gallons</option>
+              <option value="UKgal">imperial gallons</option>
             </Select>
           </label>
         </div>
@@ -70,6 +81,7 @@ export function TubForm({
           </button>
           {helperOpen && (
             <div className="mt-3 space-y-3 rounded-xl bg-sand p-4" data-testid="volume-helper">
+              <input type="hidden" name="dimsUnit" value={dimUnit} />
               <Field label="Shape">
                 <Select name="shape" value={shape} onChange={(e) => setShape(e.target.value as Shape)}>
                   <option value="round">Round</option>
@@ -77,22 +89,23 @@ export function TubForm({
                   <option value="rectangular">Rectangular</option>
                 </Select>
               </Field>
-              <p className="text-sm text-ink-soft">Measure inside the shell, in centimetres, and the depth of the water (not the shell).</p>
+              <p className="text-sm text-ink-soft">Measure inside the shell, in {inches ? "inches" : "centimetres"}, and the depth of the water (not the shell). Count the moulded seats and loungers: each takes up about {inches ? "26 US gallons" : "100 litres"} of water.</p>
               <div className="grid grid-cols-2 gap-3">
-                {shape === "round" && <DimField label="Inside diameter (cm)" name="diameter" dims={dims} setDims={setDims} />}
-                {shape === "square" && <DimField label="Inside side (cm)" name="side" dims={dims} setDims={setDims} />}
+                {shape === "round" && <DimField label={`Inside diameter (${dimUnit})`} name="diameter" dims={dims} setDims={setDims} />}
+                {shape === "square" && <DimField label={`Inside side (${dimUnit})`} name="side" dims={dims} setDims={setDims} />}
                 {shape === "rectangular" && (
                   <>
-                    <DimField label="Inside length (cm)" name="length" dims={dims} setDims={setDims} />
-                    <DimField label="Inside width (cm)" name="width" dims={dims} setDims={setDims} />
+                    <DimField label={`Inside length (${dimUnit})`} name="length" dims={dims} setDims={setDims} />
+                    <DimField label={`Inside width (${dimUnit})`} name="width" dims={dims} setDims={setDims} />
                   </>
                 )}
-                <DimField label="Water depth (cm)" name="depth" dims={dims} setDims={setDims} />
+                <DimField label={`Water depth (${dimUnit})`} name="depth" dims={dims} setDims={setDims} />
+                <DimField label="Seats and loungers" name="seats" dims={dims} setDims={setDims} />
               </div>
               {estimate !== null && estimateInUnit !== null && (
                 <div className="flex flex-wrap items-center gap-3">
                   <p data-testid="volume-estimate">
-                    About <strong>{estimateInUnit} {unit === "USgal" ? "US gallons" : "litres"}</strong>. Seats and footwells make it a little less.
+                    About <strong>{estimateInUnit} {UNIT_WORDS[unit]}</strong>{dims.seats ? ", seats taken off" : ". Add the seats to take off the water they displace"}; the tub's manual gives the true figure.
                   </p>
                   <Button type="button" variant="secondary" onClick={() => setVolume(String(estimateInUnit))}>
                     Use this volume
@@ -107,6 +120,30 @@ export function TubForm({
           <Select name="sanitiser" defaultValue={initial.sanitiser}>
             <option value="chlorine">Chlorine</option>
             <option value="bromine">Bromine</option>
+          </Select>
+        </Field>
+        <div className="grid grid-cols-[1fr_auto] items-end gap-3">
+          <Field label="Running temperature" hint="The temperature the heater keeps; the water balance is worked out for it." error={errors?.setTemperature}>
+            <Input name="setTemperature" inputMode="decimal" defaultValue={initial.setTemperature} />
+          </Field>
+          <label className="block">
+            <span className="sr-only">Temperature unit</span>
+            <Select name="temperatureUnit" defaultValue={initial.temperatureUnit} aria-label="Temperature unit">
+              <option value="C">°C</option>
+              <option value="F">°F</option>
+            </Select>
+          </label>
+        </div>
+        <Field label="Bathers per day" hint="On a usual day; it sets the drain-and-refill interval and the stabiliser forecast." error={errors?.bathersPerDay}>
+          <Input name="bathersPerDay" inputMode="decimal" defaultValue={initial.bathersPerDay} />
+        </Field>
+        <Field label="Ranges follow" hint="Where published guidance differs, choose which one the plan follows; it says which." error={errors?.guidance}>
+          <Select name="guidance" defaultValue={initial.guidance}>
+            {Object.values(GUIDANCE).map((g) => (
+              <option key={g.id} value={g.id}>
+                {g.name}
+              </option>
+            ))}
           </Select>
         </Field>
         <Field label="Test strips in use" hint="The batch printed on your strip tub. It picks the colour chart Dipwell reads with." error={errors?.batchId}>
@@ -128,7 +165,7 @@ export function TubForm({
   );
 }
 
-type Dims = { diameter: string; side: string; length: string; width: string; depth: string };
+type Dims = { diameter: string; side: string; length: string; width: string; depth: string; seats: string };
 
 function DimField({ label, name, dims, setDims }: { label: string; name: keyof Dims; dims: Dims; setDims: (d: Dims) => void }) {
   return (

@@ -1,7 +1,7 @@
 // Tub settings: create, edit, archive, with the volume helper and the strip batch in use.
 import { and, asc, desc, eq, isNotNull, isNull } from "drizzle-orm";
 import { z } from "zod";
-import { estimateVolumeLitres, litresFromUsGallons, parameterName, resolveTargets, type Parameter, type Range } from "~/chemistry";
+import { celsiusFromFahrenheit, estimateVolumeLitres, litresFromImperialGallons, litresFromUsGallons, parameterName, resolveTargets, type Guidance, type Parameter, type Range } from "~/chemistry";
 import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
@@ -49,7 +49,13 @@ const optionalNum = z
 const tubForm = z.object({
   name: z.string().trim().min(1, "Give the tub a name, e.g. “Garden tub”.").max(80, "Keep the name under 80 characters."),
   volume: num("volume"),
-  volumeUnit: z.enum(["L", "USgal"], { message: "Choose litres or US gallons." }),
+  volumeUnit: z.enum(["L", "USgal", "UKgal"], { message: "Choose litres, US gallons or imperial gallons." }),
+  setTemperature: optionalNum,
+  temperatureUnit: z.enum(["C", "F"]).optional(),
+  bathersPerDay: optionalNum,
+  guidance: z.enum(["us_home", "us_public", "uk"], { message: "Choose which guidance the ranges follow." }).optional(),
+  seats: optionalNum,
+  dimsUnit: z.enum(["cm", "in"]).optional(),
   sanitiser: z.enum(["chlorine", "bromine"], { message: "Choose chlorine or bromine." }),
   batchId: z
     .string()
@@ -74,27 +80,54 @@ export async function parseTubForm(form: FormData) {
     return { ok: false as const, fields };
   }
   const v = parsed.data;
-  const volumeLitres = v.volumeUnit === "USgal" ? litresFromUsGallons(v.volume) : v.volume;
+  const volumeLitres = v.volumeUnit === "USgal" ? litresFromUsGallons(v.volume) : v.volumeUnit === "UKgal" ? litresFromImperialGallons(v.volume) : v.volume;
   if (volumeLitres < 100 || volumeLitres > 20000) {
     return { ok: false as const, fields: { volume: "A hot tub holds between 100 and 20,000 litres (about 26 to 5,300 US gallons). Check the number and the unit." } };
   }
+  const fields: TubFormErrors = {};
+  let temperatureC: number | undefined;
+  if (v.setTemperature !== undefined) {
+    const c = v.temperatureUnit === "F" ? celsiusFromFahrenheit(v.setTemperature) : v.setTemperature;
+    if (!Number.isFinite(c) || c < 10 || c > 40)
+      fields.setTemperature = v.temperatureUnit === "F" ? "Give the running temperature in °F, between 50 and 104 °F (hot tubs stay at or below 104 °F)." : "Give the running temperature in °C, between 10 and 40 °C (hot tubs stay at or below 40 °C).";
+    else temperatureC = Math.round(c * 10) / 10;
+  }
+  let bathersPerDay: number | undefined;
+  if (v.bathersPerDay !== undefined) {
+    if (!Number.isFinite(v.bathersPerDay) || v.bathersPerDay < 0 || v.bathersPerDay > 200) fields.bathersPerDay = "Bathers per day must be a number from 0 to 200.";
+    else bathersPerDay = v.bathersPerDay;
+  }
+  if (Object.keys(fields).length) return { ok: false as const, fields };
   if (v.batchId) {
     const batches = await listBatches();
     if (!batches.some((b) => b.id === v.batchId)) return { ok: false as const, fields: { batchId: "Choose a strip batch from the list." } };
   }
   let shape: Record<string, unknown> | null = null;
   if (v.shape && v.depth) {
-    const dims = v.shape === "round" ? { diameter: v.diameter } : v.shape === "square" ? { side: v.side } : { length: v.length, width: v.width };
+    const k = v.dimsUnit === "in" ? 2.54 : 1;
+    const cm = (x: number | undefined) => (x === undefined ? undefined : x * k);
+    const dims = v.shape === "round" ? { diameter: cm(v.diameter) } : v.shape === "square" ? { side: cm(v.side) } : { length: cm(v.length), width: cm(v.width) };
     try {
-      const estimate = estimateVolumeLitres(v.shape, dims as never, v.depth);
-      shape = { shape: v.shape, insideDimsCm: dims, depthCm: v.depth, estimateLitres: Math.round(estimate) };
+      const estimate = estimateVolumeLitres(v.shape, dims as never, cm(v.depth)!, { seats: v.seats ?? 0 });
+      shape = { shape: v.shape, insideDimsCm: dims, depthCm: cm(v.depth), seats: v.seats ?? 0, estimateLitres: Math.round(estimate) };
     } catch {
       shape = null;
     }
   }
   return {
     ok: true as const,
-    values: { name: v.name, volumeLitres, volumeUnit: v.volumeUnit, sanitiser: v.sanitiser, batchId: v.batchId, timeZone: v.timeZone, shape },
+    values: {
+      name: v.name,
+      volumeLitres,
+      volumeUnit: v.volumeUnit,
+      sanitiser: v.sanitiser,
+      batchId: v.batchId,
+      timeZone: v.timeZone,
+      shape,
+      ...(temperatureC !== undefined ? { temperatureC } : {}),
+      ...(bathersPerDay !== undefined ? { bathersPerDay } : {}),
+      ...(v.guidance ? { guidance: v.guidance } : {}),
+    },
   };
 }
 
@@ -114,10 +147,10 @@ export async function setArchived(tubId: string, archived: boolean) {
 export type TargetRow = { parameter: string; label: string; min: number; max: number; aim: number; source: string };
 
 /** The tub's target ranges (defaults with its overrides), leaving out the sanitiser it does not use. */
-export function tubTargets(t: Pick<Tub, "sanitiser" | "targets">): TargetRow[] {
+export function tubTargets(t: Pick<Tub, "sanitiser" | "targets"> & Partial<Pick<Tub, "guidance">>): TargetRow[] {
   let ranges;
   try {
-    ranges = resolveTargets(t.sanitiser, (t.targets ?? {}) as Partial<Record<Parameter, Partial<Range>>>);
+    ranges = resolveTargets(t.sanitiser, (t.targets ?? {}) as Partial<Record<Parameter, Partial<Range>>>, (t.guidance ?? "us_home") as Guidance);
   } catch {
     ranges = resolveTargets(t.sanitiser);
   }
@@ -128,6 +161,7 @@ export function tubTargets(t: Pick<Tub, "sanitiser" | "targets">): TargetRow[] {
 
 export function displayVolume(t: Pick<Tub, "volumeLitres" | "volumeUnit">) {
   if (t.volumeUnit === "USgal") return `${Math.round(t.volumeLitres / 3.785411784)} US gal (${Math.round(t.volumeLitres)} L)`;
+  if (t.volumeUnit === "UKgal") return `${Math.round(t.volumeLitres / 4.54609)} imperial gal (${Math.round(t.volumeLitres)} L)`;
   return `${Math.round(t.volumeLitres)} L`;
 }
 

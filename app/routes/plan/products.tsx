@@ -5,6 +5,7 @@ import { Button, Card, Field, Input, Notice, PageTitle, Select } from "~/compone
 import { ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from "~/features/plan/catalogue.server";
 import { FORMS, PACKAGE_UNITS } from "~/features/plan/shared";
 import { requireUser } from "~/lib/session.server";
+import { saveUserUnits, userUnits } from "~/features/plan/units.server";
 import type { Route } from "./+types/products";
 
 export const meta: Route.MetaFunction = () => [{ title: "Products · Dipwell" }];
@@ -14,6 +15,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const entries = await ownerCatalogue(user.id);
   const url = new URL(request.url);
   return {
+    units: await userUnits(user.id),
     saved: url.searchParams.get("saved"),
     products: entries
       .filter((e) => e.base)
@@ -47,6 +49,10 @@ export async function action({ context, request }: Route.ActionArgs) {
   const user = requireUser(context, request);
   const form = await request.formData();
   const intent = form.get("intent");
+  if (intent === "units") {
+    if (!(await saveUserUnits(user.id, String(form.get("units") ?? "")))) return data({ catalogueId: "", fields: {} as Record<string, string>, form: "Choose metric or US units." }, { status: 400 });
+    return redirect("/products?saved=units");
+  }
   const catalogueId = String(form.get("catalogueId") ?? "");
   if (intent === "reset") {
     await resetProduct(user.id, catalogueId);
@@ -60,10 +66,25 @@ export async function action({ context, request }: Route.ActionArgs) {
 }
 
 export default function ProductsPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { products, saved } = loaderData;
+  const { products, saved, units } = loaderData;
   return (
     <div className="space-y-5">
       <PageTitle sub="The plan doses with these products. Copy the strength (percentage of active ingredient), form and package size from your product labels.">Products</PageTitle>
+      <Card data-testid="units-setting">
+        <h2 className="text-lg font-bold">Your units</h2>
+        <p className="mb-3 text-sm text-ink-soft">How plans and routines show amounts, volumes and temperatures, for all your tubs.</p>
+        {saved === "units" && <Notice tone="ok" className="mb-3">Units saved.</Notice>}
+        <Form method="post" className="flex flex-wrap items-end gap-3">
+          <input type="hidden" name="intent" value="units" />
+          <Field label="Show amounts in">
+            <Select name="units" defaultValue={units}>
+              <option value="metric">grams, millilitres, litres, °C</option>
+              <option value="us">ounces, fluid ounces, US gallons, °F (with grams and mL)</option>
+            </Select>
+          </Field>
+          <Button type="submit" variant="secondary">Save units</Button>
+        </Form>
+      </Card>
       {products.map((p) => {
         const mine = actionData?.catalogueId === p.id ? actionData : null;
         const f = mine?.fields ?? {};

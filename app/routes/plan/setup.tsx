@@ -5,6 +5,7 @@ import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
 import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
 import { dayAndClock, longDate } from "~/features/plan/time";
 import { requireUser } from "~/lib/session.server";
+import { userUnits } from "~/features/plan/units.server";
 import { requireTub } from "~/lib/tubs.server";
 import type { Route } from "./+types/setup";
 
@@ -13,7 +14,7 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Routines 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub, relation } = await requireTub(user, params.tubId, "view");
-  return { ...(await setupView(tub)), relation };
+  return { ...(await setupView(tub, new Date(), await userUnits(user.id))), relation };
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
@@ -35,22 +36,37 @@ export async function action({ context, request, params }: Route.ActionArgs) {
 }
 
 function amount(s: RoutineStep) {
+  if (s.amountText) return s.amountText;
   if (s.millilitres !== null) return `${s.millilitres} mL`;
   if (s.grams !== null) return `${s.grams} g`;
   return null;
 }
 
+const waitWords = (m: number) => (m >= 60 ? `${Math.round((m / 60) * 10) / 10} h` : `${m} min`);
+
+/** Cautions once per product: a later step of the same product points back. */
+function cautionsOnce(steps: RoutineStep[]) {
+  const seen = new Map<string, number>();
+  return steps.map((s) => {
+    if (!s.productId) return undefined;
+    const at = seen.get(s.productId);
+    if (at === undefined) seen.set(s.productId, s.order);
+    return at;
+  });
+}
+
 function RoutineList({ steps }: { steps: RoutineStep[] }) {
+  const refs = cautionsOnce(steps);
   return (
     <ol className="space-y-3">
-      {steps.map((s) => (
+      {steps.map((s, i) => (
         <li key={s.order} className="rounded-xl border border-line p-3">
           <p>
             <strong>{s.order}.</strong> {s.words}
           </p>
+          {s.cautions.length > 0 && (refs[i] === undefined ? <div className="mt-2"><Cautions items={s.cautions} open={false} /></div> : <p className="mt-1 text-sm font-bold text-alert">⚠ Same safety as step {refs[i]}.</p>)}
           {amount(s) && <p className="mt-1 font-bold text-well-900">Amount: {amount(s)}</p>}
-          {s.timerMinutes ? <p className="text-sm text-ink-soft">Then wait {s.timerMinutes >= 60 ? `${s.timerMinutes / 60} h` : `${s.timerMinutes} min`}.</p> : null}
-          {s.cautions.length > 0 && <div className="mt-2"><Cautions items={s.cautions} /></div>}
+          {s.timerMinutes ? <p className="text-sm text-ink-soft">Then wait {waitWords(s.timerMinutes)}.</p> : null}
         </li>
       ))}
     </ol>
@@ -58,7 +74,8 @@ function RoutineList({ steps }: { steps: RoutineStep[] }) {
 }
 
 export default function SetupPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tub, run, steps, timer, readiness, topUp, foam, drain, now, stepsError } = loaderData;
+  const { tub, run, steps, timer, readiness, topUp, foam, drain, now, stepsError, ownTimerRunning, doseLocked } = loaderData;
+  const refs = cautionsOnce(steps);
   const current = run?.stepIndex ?? -1;
   const last = steps.length - 1;
   return (
@@ -86,7 +103,7 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
         {stepsError && <Notice tone="alert">{stepsError}</Notice>}
         {run && (
           <>
-            {timer && <div className="my-3"><RetestTimer retestAt={timer.endsAt} clock={timer.clock} now={now} label="Timer for the last step" /></div>}
+            {timer && <div className="my-3"><RetestTimer retestAt={timer.endsAt} clock={timer.clock} now={now} label={timer.why} /></div>}
             <ol className="mt-3 space-y-3">
               {steps.map((s, i) => {
                 const state = i < current ? "done" : i === current ? "current" : "later";
@@ -95,14 +112,14 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
                     <p>
                       <strong>{state === "done" ? <><span aria-hidden="true">✓</span><span className="sr-only">Done:</span></> : `${s.order}.`}</strong> {s.words}
                     </p>
-                    {amount(s) && <p className="mt-1 font-bold text-well-900">Amount: {amount(s)}</p>}
-                    {s.timerMinutes ? <p className="text-sm text-ink-soft">Timer: {s.timerMinutes >= 60 ? `${s.timerMinutes / 60} h` : `${s.timerMinutes} min`} after this step.</p> : null}
-                    {s.cautions.length > 0 && state !== "done" && <div className="mt-2"><Cautions items={s.cautions} /></div>}
+                    {s.cautions.length > 0 && state !== "done" && (refs[i] === undefined ? <div className="mt-2"><Cautions items={s.cautions} open={state === "current"} /></div> : <p className="mt-1 text-sm font-bold text-alert">⚠ Same safety as step {refs[i]}: read it before you add this.</p>)}
+                    {amount(s) && <p className="mt-1 font-bold text-well-900" data-testid="setup-amount">Amount: {amount(s)}</p>}
+                    {s.timerMinutes ? <p className="text-sm text-ink-soft">Timer: {waitWords(s.timerMinutes)} after this step{s.shock ? " (a shock: keep everyone out until the retest)" : ""}.</p> : null}
                     {state === "current" && i < last && (
                       <Form method="post" className="mt-2">
                         <input type="hidden" name="intent" value="step" />
                         <input type="hidden" name="step" value={i} />
-                        <Button type="submit" disabled={Boolean(timer)}>{amount(s) ? "I added this" : "Done"}{s.timerMinutes ? ", start the timer" : ""}</Button>
+                        <Button type="submit" disabled={ownTimerRunning || (doseLocked && Boolean(s.productId))}>{amount(s) ? "I added this" : "Done"}{s.timerMinutes ? ", start the timer" : ""}</Button>
                       </Form>
                     )}
                     {state === "current" && i === last && (

@@ -19,7 +19,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   return {
     relation,
     tub: { id: tub.id, name: tub.name, timeZone: zone, firstFillCompletedAt: tub.firstFillCompletedAt?.toISOString() ?? null },
-    timer: activeTimer(rows, now, zone),
+    timer: activeTimer(tub, rows, products, now),
     treatments: rows.map((r) => ({
       id: r.id,
       productName: r.productName,
@@ -46,11 +46,11 @@ export async function action({ context, request, params }: Route.ActionArgs) {
     await deleteTreatment(tub.id, String(form.get("id") ?? ""));
     return redirect(`/tubs/${tub.id}/treatments`);
   }
-  if (intent !== "log") return data({ fields: {} as Record<string, string>, form: "Unknown action.", values: {} as Record<string, string> }, { status: 400 });
+  if (intent !== "log") return data({ fields: {} as Record<string, string>, form: "Unknown action.", values: {} as Record<string, string>, locked: false }, { status: 400 });
   const result = await recordTreatment(tub, user.id, form);
   if (!result.ok) {
     const values = Object.fromEntries([...form].map(([k, v]) => [k, String(v)]));
-    return data({ fields: result.fields, form: "The treatment was not saved; please fix what is marked.", values }, { status: 400 });
+    return data({ fields: result.fields, form: result.fields.form ?? "The treatment was not saved; please fix what is marked.", values, locked: result.locked ?? false }, { status: 400 });
   }
   return redirect(safeRedirect(form.get("redirectTo"), `/tubs/${tub.id}/treatments`));
 }
@@ -103,6 +103,12 @@ export default function TreatmentsPage({ loaderData, actionData }: Route.Compone
           <Field label="Note (optional)" error={f.note}>
             <Input name="note" defaultValue={v.note ?? ""} />
           </Field>
+          {(timer || actionData?.locked) && (
+            <label className="flex min-h-12 items-center gap-3 rounded-xl border border-caution bg-caution-soft px-3 py-2">
+              <input type="checkbox" name="alreadyAdded" value="1" className="h-6 w-6" />
+              <span>I already added it (record it anyway: nothing should go in until {timer ? timer.retestClock : "the retest"})</span>
+            </label>
+          )}
           <Button type="submit">Save the treatment</Button>
         </Form>
       </Card>

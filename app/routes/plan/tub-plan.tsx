@@ -1,6 +1,8 @@
 import { Form, data, redirect, useNavigation } from "react-router";
 import { AUTHORITY_NOTE, DEFAULT_TARGETS } from "~/chemistry";
-import { BalanceCard, FirstFillPrompt, PARAMETER_NAMES, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
+import { BalanceCard, FirstFillPrompt, PARAMETER_NAMES, PlanHeadline, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
+import { temperatureWords, volumeWords, type PlanStep } from "~/chemistry";
+import { userUnits } from "~/features/plan/units.server";
 import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components/ui";
 import { parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
 import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "~/features/plan/shared";
@@ -16,7 +18,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub, relation } = await requireTub(user, params.tubId, "view");
   const url = new URL(request.url);
   const whatIf = parseWhatIf(url.searchParams);
-  const view = await tubPlan(tub, { whatIf: whatIf.readings });
+  const view = await tubPlan(tub, { whatIf: whatIf.readings, units: await userUnits(user.id) });
   return { ...view, relation, whatIfError: whatIf.error, whatIfValues: whatIf.readings || whatIf.error ? Object.fromEntries(url.searchParams) : null, saved: url.searchParams.get("saved") === "targets" };
 }
 
@@ -41,7 +43,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
 const fmtValue = (analyte: string, v: number) => (analyte === "ph" ? v.toFixed(1) : String(Math.round(v * 10) / 10));
 
 export default function TubPlanPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tub, plan, reading, source, error, targets, overridden, timer, now, whatIfError, whatIfValues, saved } = loaderData;
+  const { tub, plan, reading, source, error, targets, overridden, timer, now, whatIfError, whatIfValues, saved, units } = loaderData;
   const nav = useNavigation();
   const firstDose = plan?.steps.find((s) => s.kind === "dose" || s.kind === "replace_water");
   const waiting = plan?.steps[0]?.kind === "wait";
@@ -51,7 +53,8 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
   return (
     <div className="space-y-5">
       <TubTabs tubId={tub.id} active="plan" />
-      <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser === "chlorine" ? "chlorine" : "bromine"} · ${tub.temperatureC} °C`}>Treatment plan · {tub.name}</PageTitle>
+      <PageTitle sub={`${volumeWords(tub.volumeLitres, units)} · ${tub.sanitiser === "chlorine" ? "chlorine" : "bromine"} · ${temperatureWords(tub.temperatureC, units)} · ${tub.bathersPerDay} bathers a day`}>Treatment plan · {tub.name}</PageTitle>
+      {plan && <PlanHeadline headline={plan.headline} />}
       {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
 
       {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />}
@@ -85,18 +88,45 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
         <>
           <section aria-labelledby="steps-title">
             <h2 id="steps-title" className="mb-2 text-xl font-bold text-well-900">
-              {plan.steps.length === 0 ? "Nothing to add" : waiting ? "Wait before the next step" : "Do these steps in order, one at a time"}
+              {plan.steps.length === 0 ? "No steps" : waiting ? "Wait before the next step" : plan.steps.length === 1 ? "Today's step" : "Do these steps in order, one at a time"}
             </h2>
             {plan.steps.length === 0 ? (
-              <EmptyState title="Every measured pad is in range">Nothing to add now. Test again before the next use.</EmptyState>
+              <EmptyState title={plan.headline.tone === "ok" ? "Nothing to add now" : "Nothing to add now, but see above"}>{plan.headline.detail}</EmptyState>
             ) : (
-              <ol className="space-y-3">
-                {plan.steps.map((s) => (
-                  <StepCard key={s.order} step={s} tubId={tub.id} readingId={source === "reading" ? reading?.id : null} canLog={source === "reading" || source === "what-if"} current={s === firstDose && !waiting} redirectTo={here} />
-                ))}
-              </ol>
+              <StepList steps={plan.steps} tubId={tub.id} readingId={source === "reading" ? reading?.id : null} canLog={source === "reading" || source === "what-if"} firstDose={firstDose} waiting={waiting} here={here} />
             )}
           </section>
+
+          <Card data-testid="predicted">
+            <h2 className="mb-2 text-lg font-bold">The water after these steps</h2>
+            <p className="mb-2 font-bold">May be used: {plan.predicted.usableWords}</p>
+            <ul className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm">
+              {(["free_chlorine", "combined_chlorine", "bromine", "ph", "total_alkalinity", "calcium_hardness", "cyanuric_acid"] as const)
+                .filter((k) => plan.predicted[k] !== null)
+                .map((k) => (
+                  <li key={k}>
+                    {k === "combined_chlorine" ? "Combined chlorine" : PARAMETER_NAMES[k]} <strong>{k === "ph" ? plan.predicted[k]!.toFixed(1) : plan.predicted[k]}</strong>
+                  </li>
+                ))}
+              {plan.predicted.lsi !== null && (
+                <li>
+                  Langelier index <strong>{plan.predicted.lsi > 0 ? "+" : ""}{plan.predicted.lsi.toFixed(2)}</strong>
+                </li>
+              )}
+            </ul>
+            <p className="mt-2 text-xs text-ink-soft">The engine's own estimate; retest after each step. Ranges follow {plan.guidance.name}.</p>
+          </Card>
+
+          {plan.trends.words.length > 0 && (
+            <Card data-testid="trends">
+              <h2 className="mb-2 text-lg font-bold">Slow changes</h2>
+              <ul className="list-disc space-y-1 pl-5">
+                {plan.trends.words.map((w) => (
+                  <li key={w}>{w}</li>
+                ))}
+              </ul>
+            </Card>
+          )}
 
           <BalanceCard balance={plan.waterBalance} />
 
@@ -175,5 +205,28 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
         )}
       </Card>
     </div>
+  );
+}
+
+/** Today's step first; later steps folded. Cautions once per product (later steps point back to them). */
+function StepList({ steps, tubId, readingId, canLog, firstDose, waiting, here }: { steps: PlanStep[]; tubId: string; readingId?: string | null; canLog: boolean; firstDose: PlanStep | undefined; waiting: boolean; here: string }) {
+  const shownAt = new Map<string, number>();
+  const cards = steps.map((s) => {
+    const key = s.productId ?? `${s.kind}-${s.order}`;
+    const at = shownAt.get(key);
+    if (at === undefined) shownAt.set(key, s.order);
+    return <StepCard key={s.order} step={s} tubId={tubId} readingId={readingId} canLog={canLog} current={s === firstDose && !waiting} redirectTo={here} cautionsAt={at} />;
+  });
+  const [first, ...later] = cards;
+  return (
+    <>
+      <ol className="space-y-3">{first}</ol>
+      {later.length > 0 && (
+        <details className="mt-3 rounded-card border border-line bg-shell p-3" data-testid="later-steps">
+          <summary className="cursor-pointer font-bold text-well-900">Later steps ({later.length}): after the retest, estimates</summary>
+          <ol className="mt-3 space-y-3">{later}</ol>
+        </details>
+      )}
+    </>
   );
 }

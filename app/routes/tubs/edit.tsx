@@ -3,6 +3,7 @@ import { BackLink, Button, Card, PageTitle } from "~/components/ui";
 import { TubForm } from "~/features/tubs/TubForm";
 import { listBatches, parseTubForm, setArchived, updateTub } from "~/features/tubs/tubs.server";
 import { requireUser } from "~/lib/session.server";
+import { userUnits } from "~/features/plan/units.server";
 import { requireTub } from "~/lib/tubs.server";
 import type { Route } from "./+types/edit";
 
@@ -11,12 +12,13 @@ export const meta: Route.MetaFunction = () => [{ title: "Tub settings · Dipwell
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub } = await requireTub(user, params.tubId, "own");
-  const volume = tub.volumeUnit === "USgal" ? tub.volumeLitres / 3.785411784 : tub.volumeLitres;
+  const units = await userUnits(user.id);
+  const volume = tub.volumeUnit === "USgal" ? tub.volumeLitres / 3.785411784 : tub.volumeUnit === "UKgal" ? tub.volumeLitres / 4.54609 : tub.volumeLitres;
   return {
     batches: await listBatches(),
     tub: {
       id: tub.id, archived: Boolean(tub.archivedAt),
-      initial: { name: tub.name, volume: String(Math.round(volume)), volumeUnit: (tub.volumeUnit === "USgal" ? "USgal" : "L") as "L" | "USgal", sanitiser: tub.sanitiser, batchId: tub.batchId ?? "", timeZone: tub.timeZone },
+      initial: { name: tub.name, volume: String(Math.round(volume)), volumeUnit: (tub.volumeUnit === "USgal" || tub.volumeUnit === "UKgal" ? tub.volumeUnit : "L") as "L" | "USgal" | "UKgal", sanitiser: tub.sanitiser, batchId: tub.batchId ?? "", timeZone: tub.timeZone, setTemperature: String(units === "us" ? Math.round((tub.temperatureC * 9) / 5 + 32) : tub.temperatureC), temperatureUnit: (units === "us" ? "F" : "C") as "C" | "F", bathersPerDay: String(tub.bathersPerDay), guidance: tub.guidance as "us_home" | "us_public" | "uk" },
     },
   };
 }

@@ -3,13 +3,14 @@ import { PageTitle, BackLink } from "~/components/ui";
 import { TubForm } from "~/features/tubs/TubForm";
 import { createTub, listBatches, parseTubForm } from "~/features/tubs/tubs.server";
 import { requireUser } from "~/lib/session.server";
+import { userUnits } from "~/features/plan/units.server";
 import type { Route } from "./+types/new";
 
 export const meta: Route.MetaFunction = () => [{ title: "Add a tub · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  requireUser(context, request);
-  return { batches: await listBatches() };
+  const user = requireUser(context, request);
+  return { batches: await listBatches(), units: await userUnits(user.id) };
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
@@ -27,7 +28,18 @@ export default function NewTub({ loaderData, actionData }: Route.ComponentProps)
       <BackLink href="/tubs">All tubs</BackLink>
       <PageTitle sub="A few facts about the water, so readings and treatment steps fit your tub.">Add a tub</PageTitle>
       <TubForm
-        initial={{ name: "", volume: "", volumeUnit: "L", sanitiser: "chlorine", batchId: loaderData.batches[0]?.id ?? "", timeZone: tz || "UTC" }}
+        initial={{
+          name: "",
+          volume: "",
+          volumeUnit: loaderData.units === "us" ? "USgal" : "L",
+          sanitiser: "chlorine",
+          batchId: loaderData.batches[0]?.id ?? "",
+          timeZone: tz || "UTC",
+          setTemperature: loaderData.units === "us" ? "100" : "38",
+          temperatureUnit: loaderData.units === "us" ? "F" : "C",
+          bathersPerDay: "2",
+          guidance: "us_home",
+        }}
         batches={loaderData.batches}
         errors={actionData?.fields}
         formError={actionData?.form}
