@@ -72,11 +72,13 @@ export function amountText(s: { grams: number | null; millilitres: number | null
 export function PlanHeadline({ headline }: { headline: Headline }) {
   const usable = headline.usableNow === true ? "The tub may be used." : headline.usableNow === false ? "Do not use the tub now." : "Test before anyone uses the tub.";
   return (
-    <Notice tone={headline.tone === "ok" ? "ok" : headline.tone === "alert" ? "alert" : "caution"} className="text-base" data-testid="plan-headline">
-      <p className="text-lg font-bold">{headline.title}</p>
-      <p>{headline.detail}</p>
-      <p className="mt-1 font-bold">{usable}</p>
-    </Notice>
+    <div data-testid="plan-headline">
+      <Notice tone={headline.tone === "ok" ? "ok" : headline.tone === "alert" ? "alert" : "caution"} className="text-base">
+        <p className="text-lg font-bold">{headline.title}</p>
+        <p>{headline.detail}</p>
+        <p className="mt-1 font-bold">{usable}</p>
+      </Notice>
+    </div>
   );
 }
 
