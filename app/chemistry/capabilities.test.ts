@@ -118,6 +118,23 @@ describe("slow trends", () => {
   });
 });
 
+describe("old water is replaced before anything is dosed into it", () => {
+  it("TDS 2600 against fill water 400 (Δ 2200 > 1500, Maine App. B): a full drain, nothing dosed, every reading to be taken again", () => {
+    const p = planTreatment({ ...base, tds: 2600, fillTds: 400, readings: { ...base.readings, free_chlorine: 0.5, total_chlorine: 1.5 } });
+    expect(p.steps).toHaveLength(1);
+    expect(p.steps[0]).toMatchObject({ kind: "replace_water", litres: 1500 });
+    expect(p.predicted.free_chlorine).toBeNull();
+    expect(p.predicted.usableAfter).toBeNull();
+    expect(p.headline.title).toMatch(/Replace water/);
+  });
+  it("stabiliser 100 in a chlorine tub: replace 70 % (to 30 mg/L); the diluted water is not predicted usable", () => {
+    const p = planTreatment({ ...base, readings: { ...base.readings, cyanuric_acid: 100 } });
+    expect(p.steps[0]!.litres).toBe(1050);
+    expect(p.predicted.cyanuric_acid).toBe(30);
+    expect(p.predicted.usableAfter).toBeNull();
+  });
+});
+
 describe("total alkalinity corrected for cyanuric acid", () => {
   it("TA 90 with CYA 50 at pH 7.5 is carbonate alkalinity ≈ 74 (factor ≈ 0.33 at 38 °C, chemistry.md §3.3): low, and dosed from the corrected value", () => {
     const p = planTreatment({ ...base, readings: { ...base.readings, total_alkalinity: 90, cyanuric_acid: 50 } });

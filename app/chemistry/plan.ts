@@ -137,6 +137,8 @@ interface Ctx {
   sim: Sim;
   acidDosed: boolean;
   baseDosed: boolean;
+  /** Water was replaced: every reading must be taken again. */
+  replaced?: boolean;
 }
 
 function pushStep(ctx: Ctx, s: Omit<PlanStep, "order" | "provisional">) {
@@ -351,34 +353,18 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
     return finish(at);
   }
 
+  // 0a. Dissolved solids far above the fill water: drain and refill first (Maine 10-144 CMR ch. 202 App. B [P]); nothing dosed into old water.
+  if (finite(input.tds) && finite(input.fillTds) && input.tds - input.fillTds > TDS_RISE_DRAIN) {
+    replaceWater(ctx, 1, `Dissolved solids are ${r1(input.tds - input.fillTds)} mg/L above the fill water (more than ${TDS_RISE_DRAIN}, Maine 10-144 CMR ch. 202 App. B): old water foams and resists treatment. Drain the tub and refill with fresh water, then start again with the first-fill steps.`, "tds");
+    return finish();
+  }
+
   // 0b. Stabiliser too high in a chlorine tub: only water replacement lowers it, and it changes everything else.
   const cyaRange = targets.cyanuric_acid;
   if (input.sanitiser === "chlorine" && cya !== null && cya > cyaRange.max) {
     const aimCya = Math.max(10, Math.min(cyaRange.aim, cyaRange.max * 0.8));
     const fraction = Math.min(1, 1 - aimCya / cya);
-    const litres = fraction * input.volumeLitres;
-    pushStep(ctx, {
-      kind: "replace_water",
-      parameter: "cyanuric_acid",
-      direction: "lower",
-      from: cya,
-      to: r1(cya * (1 - fraction)),
-      chemical: "fresh_water",
-      productId: null,
-      productName: null,
-      grams: null,
-      millilitres: null,
-      litres: roundAmount(litres),
-      amountText: `${volumeWords(litres, units)} of water`,
-      retestAfterHours: 2,
-      words: `Cyanuric acid is ${cya} mg/L, above ${cyaRange.max}; no product lowers it. Replace about ${Math.round(fraction * 100)} % of the water (${volumeWords(litres, units)}) with fresh water, run the jets 2 h, then retest all pads.`,
-      sideEffects: [],
-      cautions: [
-        "Switch the tub's power off before draining; refill before switching the heater back on.",
-        "Drain where local rules allow; chlorinated water can harm plants and streams.",
-        ...generalCautions(),
-      ],
-    });
+    replaceWater(ctx, fraction, `Cyanuric acid is ${cya} mg/L, above ${cyaRange.max}; no product lowers it. Replace about ${Math.round(fraction * 100)} % of the water (${volumeWords(fraction * input.volumeLitres, units)}) with fresh water, run the jets 2 h, then retest all pads.`, "cyanuric_acid");
     ctx.sim.cya = r1(cya * (1 - fraction));
     notes.push("After refilling, retest every pad and make a new plan: fresh water changes all the readings.");
     return finish();
@@ -408,6 +394,36 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
   hardnessStage(ctx, chMeasured, th);
 
   return finish();
+}
+
+/** Replace part (or all) of the water: everything but what was asked for must be measured again. */
+function replaceWater(ctx: Ctx, fraction: number, words: string, what: "cyanuric_acid" | "tds") {
+  const litres = fraction * ctx.volume;
+  pushStep(ctx, {
+    kind: "replace_water",
+    parameter: what === "cyanuric_acid" ? "cyanuric_acid" : null,
+    direction: "lower",
+    from: what === "cyanuric_acid" ? ctx.sim.cya : null,
+    to: what === "cyanuric_acid" && ctx.sim.cya !== null ? r1(ctx.sim.cya * (1 - fraction)) : null,
+    chemical: "fresh_water",
+    productId: null,
+    productName: null,
+    grams: null,
+    millilitres: null,
+    litres: roundAmount(litres),
+    amountText: `${volumeWords(litres, ctx.units)} of water`,
+    retestAfterHours: 2,
+    words,
+    sideEffects: [],
+    cautions: [
+      "Switch the tub's power off before draining; refill before switching the heater back on.",
+      "Drain where local rules allow; chlorinated water can harm plants and streams.",
+      ...generalCautions(),
+    ],
+  });
+  // fresh water changes every reading: the plan predicts none of them
+  ctx.sim = { san: null, combined: null, ph: null, ta: null, ch: null, cya: what === "tds" ? null : ctx.sim.cya };
+  ctx.replaced = true;
 }
 
 const ROLE_PARAMETER: Record<ProductRole, Parameter | null> = {
@@ -814,7 +830,9 @@ function predict(
   const totalHours = ctx.steps.reduce((h, x) => h + (x.kind === "wait" ? 0 : x.retestAfterHours), 0);
   let usableAfter: string | null = null;
   let usableWords: string;
-  if (o.lockUntil) {
+  if (ctx.replaced) {
+    usableWords = "After refilling: retest every pad; the new water needs its own plan (start with the first-fill steps).";
+  } else if (o.lockUntil) {
     usableAfter = sanOk && phOk ? o.lockUntil.toISOString() : null;
     usableWords = usableAfter
       ? `After the retest at ${timeWords(o.lockUntil, o.timeZone)}, if ${sanName} and pH read in range.`

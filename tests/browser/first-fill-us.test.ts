@@ -64,6 +64,7 @@ describe("first fill of a bromine tub in US units", () => {
     await page.goto(`/tubs/${tubId}/setup`);
     await page.getByRole("button", { name: "Start the first-fill setup" }).click();
     await page.getByRole("button", { name: /Done, start the timer/ }).click();
+    await page.getByTestId("retest-timer").waitFor();
     await timerDone(tubId);
     await page.reload();
     // 1) bromide reserve: 30 mg/L bromide in 1514 L = 59 g sodium bromide = 2.1 oz (28.35 g per oz)
@@ -72,6 +73,8 @@ describe("first fill of a bromine tub in US units", () => {
     expect(await current.getByTestId("cautions").isVisible()).toBe(true);
     await screenshot(page, "first-fill-us-2-bromide");
     await current.getByRole("button", { name: /I added this/ }).click();
+    await page.getByTestId("retest-timer").waitFor();
+    await expect.poll(async () => (await db.select().from(s.treatment).where(eq(s.treatment.tubId, tubId))).length).toBe(1);
     await timerDone(tubId);
     await logAged(tubId, 31);
     await page.reload();
@@ -80,6 +83,7 @@ describe("first fill of a bromine tub in US units", () => {
     await expect.poll(async () => (await shock.getByTestId("setup-amount").textContent()) ?? "").toMatch(/Amount: 1\.8 fl oz \(54 mL, about 3 ⅔ tbsp\)/);
     await shock.getByRole("button", { name: /I added this/ }).click();
     await page.getByTestId("retest-timer").waitFor();
+    await expect.poll(async () => (await db.select().from(s.treatment).where(eq(s.treatment.tubId, tubId))).length).toBe(2);
     await screenshot(page, "first-fill-us-3-shock-timer");
 
     // 31 minutes later: the routine's own 30-minute timer is over, but the shock's 12-hour lock holds
