@@ -8,7 +8,6 @@
 import { spawn, spawnSync } from "node:child_process";
 import { existsSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
-import pg from "pg";
 import { migrateDatabase } from "./migrate";
 import { FAULT_PORTS, TEST_PORTS as P, TEST_SLOT } from "./ports";
 import {
@@ -64,10 +63,6 @@ async function main() {
 
   try {
     const admin = postgres.url("postgres");
-    // Worker databases are clones of this run's template: drop those left by an earlier run,
-    // which lack any migration added since.
-    const workerDbs = (await queryAdmin(admin, "select datname from pg_database where datname like 'dipwell_w%'")).map((r) => String(r.datname));
-    for (const name of workerDbs) if (/^dipwell_w\d+$/.test(name)) await queryAdmin(admin, `drop database if exists "${name}" with (force)`);
     await createDatabase(admin, "dipwell_template", { fresh: true });
     // Each Vitest worker clones the template once; clones from an earlier run lack newer migrations.
     await dropWorkerDatabases(admin);
@@ -166,13 +161,3 @@ main().catch((error) => {
   stopChildren();
   process.exit(1);
 });
-
-async function queryAdmin(adminUrl: string, sql: string): Promise<Record<string, unknown>[]> {
-  const client = new pg.Client({ connectionString: adminUrl });
-  await client.connect();
-  try {
-    return (await client.query(sql)).rows;
-  } finally {
-    await client.end();
-  }
-}

@@ -1,5 +1,5 @@
 import { Form, data, redirect } from "react-router";
-import type { RoutineStep } from "~/chemistry";
+import { volumeWords, type RoutineStep } from "~/chemistry";
 import { Cautions, RetestTimer, TubTabs } from "~/components/plan/plan-ui";
 import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
 import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
@@ -81,7 +81,7 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
   return (
     <div className="space-y-5">
       <TubTabs tubId={tub.id} active="setup" />
-      <PageTitle sub={`${Math.round(tub.volumeLitres)} L · ${tub.sanitiser}`}>Routines · {tub.name}</PageTitle>
+      <PageTitle sub={`${volumeWords(tub.volumeLitres, loaderData.units)} · ${tub.sanitiser}`}>Routines · {tub.name}</PageTitle>
       {actionData?.form && <Notice tone="alert">{actionData.form}</Notice>}
 
       <Card>
