@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import * as s from "~/db/schema";
 import { ensurePreferences, savePreferences } from "~/features/notify/preferences.server";
 import { runScan } from "~/features/notify/scan.server";
+import { MESSAGE_KINDS, type MessageKind } from "~/features/notify/schedule";
 import { createQueues } from "~/jobs/queues";
 import { db } from "~/lib/db.server";
 import { PASSWORD, createTub, createUser } from "../support/fixtures";
@@ -32,7 +33,7 @@ describe("reminders in the browser", () => {
     const owner = await createUser("owner");
     await ensurePreferences(owner.id);
     // No quiet hours, so the message goes whatever the time of day of this run.
-    await savePreferences(owner.id, { timeZone: "Europe/London", quietStartHour: 0, quietEndHour: 0, enabledKinds: ["retest", "test_due", "drain_due", "weekly_summary", "invitation"] });
+    await savePreferences(owner.id, { timeZone: "Europe/London", quietStartHour: 0, quietEndHour: 0, enabledKinds: Object.keys(MESSAGE_KINDS) as MessageKind[] });
     const tub = await createTub(owner.id, { name: "Willow tub", timeZone: "Europe/London" });
     const now = new Date();
     await db.insert(s.treatment).values({
