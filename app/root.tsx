@@ -1,10 +1,12 @@
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { availabilityMiddleware } from "./lib/availability.server";
+import { useNonce } from "./lib/nonce";
 import { sessionMiddleware } from "./lib/session.server";
+import { bodyLimitMiddleware, securityMiddleware } from "./lib/web-security.server";
 import "./app.css";
 
-export const middleware: Route.MiddlewareFunction[] = [availabilityMiddleware, sessionMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [securityMiddleware, availabilityMiddleware, sessionMiddleware, bodyLimitMiddleware];
 
 export const meta: Route.MetaFunction = () => [
   { title: "Dipwell · hot tub water care" },
@@ -18,6 +20,7 @@ export const links: Route.LinksFunction = () => [
 ];
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -31,8 +34,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-screen">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );

@@ -100,6 +100,20 @@ export const verification = pgTable(
   (t) => [index("verification_identifier_idx").on(t.identifier)],
 );
 
+/**
+ * Password attempts per client address and per account, in fixed windows, shared
+ * by every app server (app/lib/sign-in-limit.server.ts).
+ */
+export const passwordAttempt = pgTable(
+  "password_attempt",
+  {
+    key: text("key").primaryKey(),
+    attempts: integer("attempts").notNull().default(0),
+    windowStart: timestamp("window_start", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("password_attempt_window_idx").on(t.windowStart)],
+);
+
 // ---------------------------------------------------------------- strip charts
 
 /** A colour chart family, e.g. "Six-pad spa strip". Its colours live in versions. */

@@ -1,11 +1,12 @@
 // Sign-up, sign-in, sign-out and password reset as server actions, so the forms
 // work without JavaScript. better-auth does the work; this turns its answers
 // into plain words and carries its cookies onto our redirects.
-import { data } from "react-router";
+import { data, type RouterContextProvider } from "react-router";
 import { z } from "zod";
 import { auth } from "./auth.server";
 import { env } from "./env.server";
 import { redirectWithCookies, safeRedirect } from "./session.server";
+import { headersWithClientAddress } from "./sign-in-limit.server";
 
 export type FormErrors = { form?: string; fields?: Record<string, string> };
 
@@ -26,20 +27,27 @@ async function authError(res: Response) {
   }
 }
 
-export async function signIn(request: Request, form: FormData) {
-  const parsed = z.object({ email, password: z.string().min(1, "Enter your password") }).safeParse(Object.fromEntries(form));
+export async function signIn(request: Request, form: FormData, context: Readonly<RouterContextProvider>) {
+  const parsed = z.object({ email, password: z.string().min(1, "Enter your password").max(1024, "That password is too long") }).safeParse(Object.fromEntries(form));
   if (!parsed.success) return data(fieldErrors(parsed.error), { status: 400 });
+  // The same endpoint, hooks and password limiter as better-auth's HTTP API.
   const res = await auth.api.signInEmail({
     body: { email: parsed.data.email, password: parsed.data.password, callbackURL: "/tubs?verified=1" },
-    headers: request.headers,
+    headers: headersWithClientAddress(request, context),
     asResponse: true,
   });
   if (res.ok) return redirectWithCookies(safeRedirect(form.get("redirectTo")), res);
-  const { code } = await authError(res);
+  const { code, message } = await authError(res);
   if (code === "EMAIL_NOT_VERIFIED") {
     return data({ form: "Please confirm your e-mail address first. We have sent you a new confirmation link." }, { status: 403 });
   }
-  if (res.status === 429) return data({ form: "Too many attempts. Wait a minute and try again." }, { status: 429 });
+  if (res.status === 429) {
+    const retryAfter = res.headers.get("retry-after");
+    return data(
+      { form: code === "TOO_MANY_PASSWORD_ATTEMPTS" && message ? message : "Too many attempts. Wait a minute and try again." },
+      { status: 429, headers: retryAfter ? { "Retry-After": retryAfter } : undefined },
+    );
+  }
   return data({ form: "That e-mail address and password do not match an account." }, { status: 401 });
 }
 
@@ -70,11 +78,14 @@ export async function signOut(request: Request) {
 export async function requestPasswordReset(request: Request, form: FormData) {
   const parsed = z.object({ email }).safeParse(Object.fromEntries(form));
   if (!parsed.success) return data(fieldErrors(parsed.error), { status: 400 });
-  await auth.api.requestPasswordReset({
-    body: { email: parsed.data.email, redirectTo: `${env().PUBLIC_URL}/reset-password` },
-    headers: request.headers,
+  // The same answer, in the same time, whether or not the address has an account:
+  // the look-up and the queued e-mail happen after the answer, off the response path.
+  const headers = new Headers(request.headers);
+  setImmediate(() => {
+    auth.api
+      .requestPasswordReset({ body: { email: parsed.data.email, redirectTo: `${env().PUBLIC_URL}/reset-password` }, headers })
+      .catch((error) => console.error("Password reset request failed:", error));
   });
-  // The same answer whether or not the address has an account.
   return { sent: true as const };
 }
 

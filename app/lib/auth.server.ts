@@ -3,6 +3,8 @@
 import { createHash } from "node:crypto";
 import { betterAuth } from "better-auth";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { APIError, createAuthMiddleware, getSessionFromCtx, isAPIError } from "better-auth/api";
+import { and, eq, like, ne } from "drizzle-orm";
 import { admin as adminPlugin } from "better-auth/plugins";
 import { account, session, user, verification } from "../db/schema";
 import { db } from "./db.server";
@@ -10,10 +12,49 @@ import { resetPasswordMail, verifyEmailMail } from "./emails";
 import { enqueueEmail } from "../features/notify/outbox.server";
 import { env } from "./env.server";
 import { ac, roles } from "./permissions";
+import { CLIENT_ADDRESS_HEADER, PASSWORD_PATHS, attemptKeys, countAttempt, forgiveAttempt } from "./sign-in-limit.server";
 
 // Account e-mails go through the outbox (app/features/notify): queued in
 // PostgreSQL, sent by the worker, retried with back-off, listed at /admin/email.
 const digest = (s: string) => createHash("sha256").update(s).digest("hex").slice(0, 24);
+
+export const NAME_MAX = 80;
+
+type HookCtx = Parameters<Parameters<typeof createAuthMiddleware>[0]>[0];
+
+/** The account a password attempt is for: the e-mail address typed, or the signed-in user. */
+async function attemptAccount(ctx: HookCtx): Promise<string | null> {
+  const typed = (ctx.body as { email?: unknown } | undefined)?.email;
+  if (typeof typed === "string" && typed.trim()) return typed;
+  const found = await getSessionFromCtx(ctx).catch(() => null);
+  return found ? `user:${found.user.id}` : null;
+}
+
+const hasPassword = (ctx: HookCtx) => typeof (ctx.body as { password?: unknown; currentPassword?: unknown } | undefined)?.password === "string"
+  || typeof (ctx.body as { currentPassword?: unknown } | undefined)?.currentPassword === "string";
+
+/** Before every endpoint: the password limiter, and names of a sensible length however they arrive. */
+const beforeHook = createAuthMiddleware(async (ctx) => {
+  if (ctx.path === "/update-user" || ctx.path === "/sign-up/email") {
+    const name = (ctx.body as { name?: unknown } | undefined)?.name;
+    if (name !== undefined && (typeof name !== "string" || !name.trim() || name.length > NAME_MAX)) {
+      throw new APIError("BAD_REQUEST", { code: "NAME_TOO_LONG", message: `Give a name of 1 to ${NAME_MAX} characters.` });
+    }
+  }
+  if (PASSWORD_PATHS.has(ctx.path) && hasPassword(ctx)) {
+    const verdict = await countAttempt(attemptKeys(ctx.headers, await attemptAccount(ctx)));
+    if (!verdict.ok) {
+      throw new APIError("TOO_MANY_REQUESTS", { code: "TOO_MANY_PASSWORD_ATTEMPTS", message: verdict.message }, { "Retry-After": String(verdict.retryAfterSeconds) });
+    }
+  }
+});
+
+/** After a password endpoint succeeds, the limiter forgives the attempt. */
+const afterHook = createAuthMiddleware(async (ctx) => {
+  if (!PASSWORD_PATHS.has(ctx.path) || !hasPassword(ctx)) return;
+  if (ctx.context.returned === undefined || isAPIError(ctx.context.returned)) return;
+  await forgiveAttempt(attemptKeys(ctx.headers, await attemptAccount(ctx)));
+});
 
 function createAuth() {
   const config = env();
@@ -28,7 +69,11 @@ function createAuth() {
       requireEmailVerification: true,
       minPasswordLength: 8,
       resetPasswordTokenExpiresIn: 60 * 60,
-      sendResetPassword: async ({ user, url }) => {
+      // A new password signs out every device that had the old one.
+      revokeSessionsOnPasswordReset: true,
+      sendResetPassword: async ({ user, url, token }) => {
+        // One outstanding reset link per account: a newer link ends every older one.
+        await db.delete(verification).where(and(eq(verification.value, user.id), like(verification.identifier, "reset-password:%"), ne(verification.identifier, `reset-password:${token}`)));
         await enqueueEmail({ kind: "reset_password", to: user.email, userId: user.id, dedupeKey: `reset_password:${user.id}:${digest(url)}`, ...resetPasswordMail(user.name, url) });
       },
     },
@@ -42,7 +87,13 @@ function createAuth() {
       },
     },
     session: { expiresIn: 60 * 60 * 24 * 30, updateAge: 60 * 60 * 24 },
-    rateLimit: { enabled: config.NODE_ENV === "production" && !process.env.DIPWELL_TEST_RUN },
+    // better-auth's own limiter guards its other endpoints; password checks have ours (hooks), shared by every server.
+    rateLimit: {
+      enabled: config.NODE_ENV === "production" && !process.env.DIPWELL_TEST_RUN,
+      customRules: Object.fromEntries([...PASSWORD_PATHS].map((p) => [p, false as const])),
+    },
+    advanced: { ipAddress: { ipAddressHeaders: [CLIENT_ADDRESS_HEADER] } },
+    hooks: { before: beforeHook, after: afterHook },
     plugins: [adminPlugin({ ac, roles, defaultRole: "owner", adminRoles: ["admin"] })],
   });
 }

@@ -3,6 +3,7 @@
 import { data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { auth, type SessionUser } from "./auth.server";
 import { userContext } from "./context";
+import { env } from "./env.server";
 import { hasRole, type Role } from "./permissions";
 
 export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request, context }, next) => {
@@ -37,10 +38,33 @@ export function requireRole(context: Ctx, request: Request, ...roles: Role[]): S
   return user;
 }
 
-/** Keeps a redirect target on this site. */
+/**
+ * Keeps a redirect target on this site: the target is resolved with the URL API
+ * against the app's own origin (PUBLIC_URL), the way a browser would resolve it
+ * (backslashes, encoded slashes, tabs and newlines included), and only a path on
+ * that same origin comes back.
+ */
 export function safeRedirect(to: FormDataEntryValue | string | null | undefined, fallback = "/tubs") {
-  if (typeof to !== "string" || !to.startsWith("/") || to.startsWith("//")) return fallback;
-  return to;
+  if (typeof to !== "string" || !to.startsWith("/") || to.length > 2000) return fallback;
+  // Browsers drop tabs and newlines from URLs and read "\" as "/": refuse rather than guess.
+  if (/[\u0000-\u001f\u007f\\]/.test(to)) return fallback;
+  let decoded = to;
+  try {
+    decoded = decodeURIComponent(to);
+  } catch {
+    return fallback;
+  }
+  if (/^\/[\/\\]/.test(decoded) || /[\u0000-\u001f\u007f]/.test(decoded)) return fallback;
+  const home = new URL(env().PUBLIC_URL).origin;
+  let url: URL;
+  try {
+    url = new URL(to, home);
+  } catch {
+    return fallback;
+  }
+  if (url.origin !== home) return fallback;
+  const path = url.pathname + url.search + url.hash;
+  return path.startsWith("/") && !path.startsWith("//") ? path : fallback;
 }
 
 /** Copies every Set-Cookie from a better-auth response onto a redirect. */

@@ -64,7 +64,7 @@ async function main() {
 
   await assertPortFree(P.app, "the Dipwell app");
   // Supervised: a child that dies (a crash, an out-of-memory kill) is started again, and the log says so.
-  superviseService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), ["./build/server/index.js"], { cwd: root, env, quiet: true });
+  superviseService("app", process.execPath, ["app/ops/server.mjs", "./build/server/index.js"], { cwd: root, env, quiet: true });
   superviseService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env });
   await waitForPort(P.app, "the Dipwell app", 60_000);
 

@@ -95,7 +95,7 @@ async function main() {
 
     await assertPortFree(P.app, "the Dipwell app under test");
     const appEnv = { ...env, NODE_ENV: "production", PORT: String(P.app), HOST: "127.0.0.1" };
-    spawnService("app", bin("react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env: appEnv, quiet: true });
+    spawnService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env: appEnv, quiet: true });
     if (existsSync(path.join(root, "app", "jobs", "worker.ts"))) {
       spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env: appEnv, quiet: true });
     }

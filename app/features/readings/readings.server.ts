@@ -8,6 +8,7 @@ import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { PhotoError, presignPhoto, receivePhoto, thumbKey } from "~/features/photos/intake.server";
 import { headObject, putObject, readObject } from "~/lib/storage.server";
+import { csvCell } from "~/lib/csv";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tubs.server";
@@ -256,10 +257,6 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
   };
 }
 
-const csvCell = (v: unknown) => {
-  const s = v === null || v === undefined ? "" : String(v);
-  return /[",\n\r]/.test(s) || /^[=+\-@]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-};
 
 const CSV_BATCH = 500;
 

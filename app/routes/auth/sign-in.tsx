@@ -12,8 +12,8 @@ export function loader({ context, request }: Route.LoaderArgs) {
   return { redirectTo: url.searchParams.get("redirectTo") ?? "", reset: url.searchParams.has("reset") };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  return signIn(request, await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  return signIn(request, await request.formData(), context);
 }
 
 export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {

@@ -13,6 +13,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub } = await requireTub(user, params.tubId, "view");
   const url = new URL(request.url);
   const sortParam = url.searchParams.get("sort");
+  // Only the table's own columns (never an inherited key such as "__proto__").
   const sort = (sortParam && Object.hasOwn(HISTORY_SORTS, sortParam) ? sortParam : "taken") as keyof typeof HISTORY_SORTS;
   const dir = url.searchParams.get("dir") === "asc" ? "asc" : "desc";
   const page = askedPage(url);
