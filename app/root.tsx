@@ -1,12 +1,19 @@
+import { useEffect } from "react";
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { availabilityMiddleware } from "./lib/availability.server";
+import { dateSettingsFor, rememberBrowserZone } from "./lib/dates";
 import { useNonce } from "./lib/nonce";
 import { sessionMiddleware } from "./lib/session.server";
 import { bodyLimitMiddleware, securityMiddleware } from "./lib/web-security.server";
 import "./app.css";
 
 export const middleware: Route.MiddlewareFunction[] = [securityMiddleware, availabilityMiddleware, sessionMiddleware, bodyLimitMiddleware];
+
+/** The user's locale and time zone for dates (app/lib/dates.ts). */
+export function loader({ request }: Route.LoaderArgs) {
+  return { dates: dateSettingsFor(request) };
+}
 
 export const meta: Route.MetaFunction = () => [
   { title: "Dipwell · hot tub water care" },
@@ -42,6 +49,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
 }
 
 export default function App() {
+  useEffect(rememberBrowserZone, []);
   return <Outlet />;
 }
 

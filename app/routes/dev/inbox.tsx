@@ -4,6 +4,7 @@ import { data } from "react-router";
 import { Card, EmptyState, PageTitle } from "~/components/ui";
 import { env } from "~/lib/env.server";
 import { requireRole } from "~/lib/session.server";
+import { LocalTime } from "~/components/When";
 import type { Route } from "./+types/inbox";
 
 type CaughtMail = { id: string; subject: string; date: string; to: { address: string }[]; text?: string; html?: string };
@@ -36,7 +37,7 @@ export default function Inbox({ loaderData }: Route.ComponentProps) {
       {open && (
         <Card>
           <p className="text-lg font-bold">{open.subject}</p>
-          <p className="text-sm text-ink-soft">To {open.to} · {new Date(open.date).toLocaleString("en-GB")}</p>
+          <p className="text-sm text-ink-soft">To {open.to} · <LocalTime at={open.date} /></p>
           <iframe title="Message" sandbox="" srcDoc={open.html} className="mt-3 h-96 w-full rounded-lg border border-line bg-white" />
           <details className="mt-3">
             <summary className="cursor-pointer font-bold">Plain-text part</summary>
@@ -50,7 +51,7 @@ export default function Inbox({ loaderData }: Route.ComponentProps) {
           <li key={m.id}>
             <a href={`?open=${m.id}`} className="block px-4 py-3 no-underline hover:bg-well-50">
               <span className="block font-bold text-ink">{m.subject}</span>
-              <span className="block text-sm text-ink-soft">{m.to} · {new Date(m.date).toLocaleString("en-GB")}</span>
+              <span className="block text-sm text-ink-soft">{m.to} · <LocalTime at={m.date} /></span>
             </a>
           </li>
         ))}

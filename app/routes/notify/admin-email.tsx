@@ -6,6 +6,7 @@ import { EMAIL_STATUSES } from "~/features/notify/statuses";
 import { Pager, withParams } from "~/components/Pager";
 import { askedPage } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
+import { LocalTime } from "~/components/When";
 import type { Route } from "./+types/admin-email";
 
 export const meta: Route.MetaFunction = () => [{ title: "E-mail log · Dipwell" }];
@@ -49,7 +50,7 @@ export default function AdminEmail({ loaderData }: Route.ComponentProps) {
                 {r.subject}
               </p>
               <p className="text-sm text-ink-soft">
-                {r.kind} · to {r.to} · {r.attempts} attempt{r.attempts === 1 ? "" : "s"} · {new Date(r.updatedAt).toLocaleString("en-GB")}
+                {r.kind} · to {r.to} · {r.attempts} attempt{r.attempts === 1 ? "" : "s"} · <LocalTime at={r.updatedAt} />
               </p>
               {r.lastError && <p className="text-sm text-alert">{r.lastError}</p>}
             </li>

@@ -4,6 +4,7 @@ import { z } from "zod";
 import { Button, Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { listNotifications, markRead } from "~/features/notify/notifications.server";
 import { requireUser } from "~/lib/session.server";
+import { LocalTime } from "~/components/When";
 import type { Route } from "./+types/notifications";
 
 export const meta: Route.MetaFunction = () => [{ title: "Notifications · Dipwell" }];
@@ -57,7 +58,7 @@ export default function Notifications({ loaderData }: Route.ComponentProps) {
                     {n.link ? <a href={n.link}>{n.title}</a> : n.title}
                   </p>
                   <p className="text-ink-soft">{n.body}</p>
-                  <p className="text-sm text-ink-soft">{new Date(n.createdAt).toLocaleString("en-GB")}</p>
+                  <p className="text-sm text-ink-soft"><LocalTime at={n.createdAt} /></p>
                 </div>
                 {!n.read && (
                   <Form method="post">

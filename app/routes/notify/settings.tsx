@@ -4,6 +4,7 @@ import { Button, Card, Field, Notice, PageTitle, Select } from "~/components/ui"
 import { ensurePreferences, savePreferences } from "~/features/notify/preferences.server";
 import { MESSAGE_KINDS, isMessageKind, isValidTimeZone, type MessageKind } from "~/features/notify/schedule";
 import { requireUser } from "~/lib/session.server";
+import { browserZone, useDateSettings, useHydrated, zoneFromCookie } from "~/lib/dates";
 import type { Route } from "./+types/settings";
 
 export const meta: Route.MetaFunction = () => [{ title: "Notification settings · Dipwell" }];
@@ -13,11 +14,13 @@ const hourLabel = (h: number) => `${String(h).padStart(2, "0")}:00`;
 
 export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireUser(context, request);
-  const pref = await ensurePreferences(user.id);
+  // A new account's zone is the one its browser reported (app/lib/dates.ts).
+  const pref = await ensurePreferences(user.id, { timeZone: zoneFromCookie(request.headers.get("cookie")) ?? undefined });
+  const zones = Intl.supportedValuesOf("timeZone");
   return {
     timeZone: pref.timeZone, quietStartHour: pref.quietStartHour, quietEndHour: pref.quietEndHour,
     enabled: (Object.keys(MESSAGE_KINDS) as MessageKind[]).filter((k) => !pref.disabledKinds.includes(k)),
-    zones: Intl.supportedValuesOf("timeZone"),
+    zones: zones.includes(pref.timeZone) ? zones : [pref.timeZone, ...zones],
     saved: new URL(request.url).searchParams.has("saved"),
   };
 }
@@ -39,6 +42,12 @@ export async function action({ context, request }: Route.ActionArgs) {
 
 export default function NotificationSettings({ loaderData }: Route.ComponentProps) {
   const d = loaderData;
+  // Stored as the bare UTC default while the browser is elsewhere: offer the browser's zone.
+  const hydrated = useHydrated();
+  const { timeZone: cookieZone } = useDateSettings();
+  const seen = cookieZone ?? (hydrated ? browserZone() : null);
+  const suggested = d.timeZone === "UTC" && seen && seen !== "UTC" && d.zones.includes(seen) ? seen : null;
+  const zone = suggested ?? d.timeZone;
   const errors = useActionData<typeof action>() as { fields?: Record<string, string>; form?: string } | undefined;
   return (
     <div className="space-y-4">
@@ -59,8 +68,8 @@ export default function NotificationSettings({ loaderData }: Route.ComponentProp
         <Card className="space-y-3">
           <h2 className="text-lg font-bold">Quiet hours</h2>
           <p className="text-ink-soft">A reminder that comes due in quiet hours waits until they end. Choose the same hour twice for no quiet hours.</p>
-          <Field label="Time zone" error={errors?.fields?.timeZone}>
-            <Select name="timeZone" defaultValue={d.timeZone}>
+          <Field label="Time zone" hint={suggested ? "Your browser's time zone, chosen for you. Save the settings to keep it." : undefined} error={errors?.fields?.timeZone}>
+            <Select key={zone} name="timeZone" defaultValue={zone}>
               {d.zones.map((z) => <option key={z} value={z}>{z.replace(/_/g, " ")}</option>)}
             </Select>
           </Field>

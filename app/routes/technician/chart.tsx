@@ -4,6 +4,7 @@ import { ChartEditor, type EditChart } from "~/components/charts/chart-editor";
 import { Button, ButtonLink, Card, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
 import { addBatch, ChartInputError, loadChart, saveVersion, SOURCES, updateBatch } from "~/features/charts/charts.server";
 import { requireChartRole } from "~/features/charts/guard.server";
+import { LocalTime } from "~/components/When";
 import type { Route } from "./+types/chart";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.chart.name ?? "Chart"} · Dipwell` }];
@@ -160,7 +161,7 @@ export default function ChartPage({ loaderData, actionData }: Route.ComponentPro
               <span className="font-bold">Version {v.version}</span>
               <span className="text-sm text-ink-soft">
                 {v.source}
-                {v.batchLot ? ` · lot ${v.batchLot}` : ""} · {new Date(v.createdAt).toLocaleString("en-GB")}
+                {v.batchLot ? ` · lot ${v.batchLot}` : ""} · <LocalTime at={v.createdAt} />
                 {v.note ? ` · ${v.note}` : ""}
               </span>
               <a href={`/api/chart-versions/${v.id}`} download>Export</a>

@@ -4,6 +4,7 @@ import { Button, Card, EmptyState, Field, Input, Notice, PageTitle } from "~/com
 import { addNote, notesFor } from "~/features/clients/clients.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
+import { Day } from "~/components/When";
 import type { Route } from "./+types/notes";
 
 export const meta: Route.MetaFunction = () => [{ title: "Visit notes · Dipwell" }];
@@ -56,7 +57,7 @@ export default function Notes({ loaderData, actionData }: Route.ComponentProps) 
           {notes.map((n) => (
             <li key={n.id}>
               <Card>
-                <p className="text-sm text-ink-soft">{new Date(n.visitedAt).toLocaleDateString("en-GB")} · {n.author}</p>
+                <p className="text-sm text-ink-soft"><Day day={n.visitedAt} /> · {n.author}</p>
                 <p className="whitespace-pre-wrap">{n.body}</p>
               </Card>
             </li>

@@ -3,6 +3,7 @@ import { Button, Card, EmptyState, Field, Input, Notice, PageTitle } from "~/com
 import { ClientInputError, inviteTechnician, revokeAccess, sharingFor, withdrawInvitation } from "~/features/clients/clients.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
+import { LocalTime } from "~/components/When";
 import type { Route } from "./+types/sharing";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sharing · Dipwell" }];
@@ -55,7 +56,7 @@ export default function Sharing({ loaderData, actionData }: Route.ComponentProps
             {access.map((x) => (
               <li key={x.id} className="flex flex-wrap items-center gap-3 py-2">
                 <span className="font-bold">{x.name}</span>
-                <span className="text-sm text-ink-soft">{x.email} · since {new Date(x.since).toLocaleDateString("en-GB")}</span>
+                <span className="text-sm text-ink-soft">{x.email} · since <LocalTime at={x.since} date /></span>
                 <form method="post" className="ml-auto">
                   <input type="hidden" name="intent" value="revoke" />
                   <input type="hidden" name="id" value={x.id} />
@@ -73,7 +74,7 @@ export default function Sharing({ loaderData, actionData }: Route.ComponentProps
             {invites.map((i) => (
               <li key={i.id} className="flex flex-wrap items-center gap-3 py-2">
                 <span>{i.email}</span>
-                <span className="text-sm text-ink-soft">{i.expired ? "expired" : `until ${new Date(i.expiresAt).toLocaleDateString("en-GB")}`}</span>
+                <span className="text-sm text-ink-soft">{i.expired ? "expired" : <>until <LocalTime at={i.expiresAt} date /></>}</span>
                 <form method="post" className="ml-auto">
                   <input type="hidden" name="intent" value="withdraw" />
                   <input type="hidden" name="id" value={i.id} />

@@ -7,6 +7,7 @@ import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import { stripChart } from "~/db/schema";
 import { eq } from "drizzle-orm";
+import { formatDateTime, useDateSettings } from "~/lib/dates";
 import type { Route } from "./+types/detail";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
@@ -32,7 +33,8 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 export default function TubDetail({ loaderData }: Route.ComponentProps) {
   const { tub, latest, targets, relation, notice } = loaderData;
   const base = `/tubs/${tub.id}`;
-  const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
+  const { locale } = useDateSettings();
+  const fmt = (iso: string) => formatDateTime(iso, locale, tub.timeZone);
   return (
     <div className="space-y-5">
       <BackLink href="/tubs">All tubs</BackLink>

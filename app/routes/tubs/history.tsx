@@ -4,6 +4,7 @@ import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server"
 import { askedPage } from "~/lib/paging";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
+import { formatDateTime, useDateSettings } from "~/lib/dates";
 import type { Route } from "./+types/history";
 
 export const meta: Route.MetaFunction = () => [{ title: "History · Dipwell" }];
@@ -41,7 +42,8 @@ export default function History({ loaderData }: Route.ComponentProps) {
   };
   // The sort order belongs on the column header, not on the link inside it.
   const ariaSort = (key: string) => (sort === key ? (dir === "asc" ? "ascending" : "descending") : undefined);
-  const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
+  const { locale } = useDateSettings();
+  const fmt = (iso: string) => formatDateTime(iso, locale, tub.timeZone);
   return (
     <div className="space-y-5">
       <BackLink href={base}>{tub.name}</BackLink>

@@ -4,6 +4,8 @@ import { TubForm } from "~/features/tubs/TubForm";
 import { createTub, listBatches, parseTubForm } from "~/features/tubs/tubs.server";
 import { requireUser } from "~/lib/session.server";
 import { userUnits } from "~/features/plan/units.server";
+import { useEffect, useState } from "react";
+import { browserZone } from "~/lib/dates";
 import type { Route } from "./+types/new";
 
 export const meta: Route.MetaFunction = () => [{ title: "Add a tub · Dipwell" }];
@@ -22,7 +24,9 @@ export async function action({ context, request }: Route.ActionArgs) {
 }
 
 export default function NewTub({ loaderData, actionData }: Route.ComponentProps) {
-  const tz = typeof Intl !== "undefined" ? Intl.DateTimeFormat().resolvedOptions().timeZone : "UTC";
+  // The browser's zone, once the page runs in the browser (the server cannot know it).
+  const [tz, setTz] = useState("UTC");
+  useEffect(() => setTz(browserZone()), []);
   return (
     <div className="mx-auto max-w-xl">
       <BackLink href="/tubs">All tubs</BackLink>

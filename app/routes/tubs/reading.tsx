@@ -6,6 +6,7 @@ import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass }
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
+import { formatDateTime, useDateSettings } from "~/lib/dates";
 import type { Route } from "./+types/reading";
 
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
@@ -47,7 +48,8 @@ export default function ReviewReading({ loaderData, actionData }: Route.Componen
   );
   const failed = reading.status === "failed";
   const confirmed = reading.status === "confirmed";
-  const when = new Date(reading.takenAt).toLocaleString("en-GB", { timeZone: tub.timeZone, dateStyle: "medium", timeStyle: "short" });
+  const { locale } = useDateSettings();
+  const when = formatDateTime(reading.takenAt, locale, tub.timeZone);
   const unsure = pads.filter((p) => p.needsReview && p.readValue !== null).length;
 
   return (

@@ -1,0 +1,113 @@
+// One way to show dates and times: Intl, in the user's locale (from the browser's
+// Accept-Language, the same on the server and in the browser), in a known zone:
+// - a tub's times in the tub's own zone, rendered on the server (no jump after load);
+// - a person's own times (notifications, e-mail log) in the zone their browser
+//   reported (cookie `dipwell_tz`); before it has reported one, only in the browser.
+import { useSyncExternalStore } from "react";
+import { useRouteLoaderData } from "react-router";
+
+export const TZ_COOKIE = "dipwell_tz";
+export const DEFAULT_LOCALE = "en-GB";
+
+export type DateSettings = { locale: string; timeZone: string | null };
+
+export function isTimeZone(zone: string | null | undefined): zone is string {
+  if (!zone || zone.length > 64) return false;
+  try {
+    new Intl.DateTimeFormat("en", { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** The first supported locale of an Accept-Language header. */
+export function localeFrom(acceptLanguage: string | null | undefined): string {
+  const wanted = (acceptLanguage ?? "")
+    .split(",")
+    .map((part) => part.split(";")[0].trim())
+    .filter((tag) => tag && tag !== "*" && tag.length <= 35);
+  for (const tag of wanted) {
+    try {
+      const [supported] = Intl.DateTimeFormat.supportedLocalesOf(tag);
+      if (supported) return supported;
+    } catch {
+      // not a language tag
+    }
+  }
+  return DEFAULT_LOCALE;
+}
+
+/** The zone the browser reported in its cookie, if it is a real zone. */
+export function zoneFromCookie(cookie: string | null | undefined): string | null {
+  const m = new RegExp(`(?:^|;\\s*)${TZ_COOKIE}=([^;]+)`).exec(cookie ?? "");
+  if (!m) return null;
+  let zone: string;
+  try {
+    zone = decodeURIComponent(m[1]);
+  } catch {
+    return null;
+  }
+  return isTimeZone(zone) ? zone : null;
+}
+
+export function dateSettingsFor(request: Request): DateSettings {
+  return { locale: localeFrom(request.headers.get("accept-language")), timeZone: zoneFromCookie(request.headers.get("cookie")) };
+}
+
+const cache = new Map<string, Intl.DateTimeFormat>();
+function formatter(locale: string, timeZone: string, kind: "dateTime" | "date" | "time") {
+  const key = `${locale}|${timeZone}|${kind}`;
+  let f = cache.get(key);
+  if (!f) {
+    const style: Intl.DateTimeFormatOptions =
+      kind === "dateTime" ? { dateStyle: "medium", timeStyle: "short" } : kind === "date" ? { dateStyle: "medium" } : { timeStyle: "short" };
+    f = new Intl.DateTimeFormat(locale, { ...style, timeZone });
+    cache.set(key, f);
+  }
+  return f;
+}
+
+/** "2 Dec 2026, 14:05" (en-GB), "Dec 2, 2026, 2:05 PM" (en-US), ... */
+export function formatDateTime(at: Date | string | number, locale: string, timeZone: string): string {
+  return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", "dateTime").format(new Date(at));
+}
+
+/** "2 Dec 2026" (en-GB). */
+export function formatDate(at: Date | string | number, locale: string, timeZone: string): string {
+  return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", "date").format(new Date(at));
+}
+
+/** A calendar day stored as "YYYY-MM-DD" (or a timestamp meaning that day), with no time zone shift. */
+export function formatDay(day: string | Date, locale: string): string {
+  const iso = typeof day === "string" ? day.slice(0, 10) : day.toISOString().slice(0, 10);
+  return formatter(locale, "UTC", "date").format(new Date(`${iso}T12:00:00Z`));
+}
+
+/** The locale and the user's zone, from the root loader (defaults in an error page). */
+export function useDateSettings(): DateSettings {
+  const root = useRouteLoaderData("root") as { dates?: DateSettings } | undefined;
+  return root?.dates ?? { locale: DEFAULT_LOCALE, timeZone: null };
+}
+
+const noop = () => () => {};
+/** False while the server renders and the browser hydrates; true afterwards. */
+export function useHydrated(): boolean {
+  return useSyncExternalStore(noop, () => true, () => false);
+}
+
+export function browserZone(): string {
+  try {
+    return Intl.DateTimeFormat().resolvedOptions().timeZone || "UTC";
+  } catch {
+    return "UTC";
+  }
+}
+
+/** Remembers the browser's zone in a cookie, so the server can render the user's times. */
+export function rememberBrowserZone() {
+  const zone = browserZone();
+  if (zoneFromCookie(document.cookie) !== zone) {
+    document.cookie = `${TZ_COOKIE}=${encodeURIComponent(zone)}; path=/; max-age=31536000; samesite=lax`;
+  }
+}
