@@ -1,29 +1,16 @@
-// Dates and times on screen, one format through Intl (app/lib/dates.ts).
+// Dates and times on screen, one format through Intl (app/lib/dates.ts). The words
+// come from the loader (formatted on the server, so they never change after load);
+// only a person's own time before their browser has told us its zone is
+// formatted in the browser, after hydration.
 import { browserZone, formatDate, formatDateTime, formatDay, useDateSettings, useHydrated } from "~/lib/dates";
 
-type Props = { at: string | Date; date?: boolean; className?: string };
-
-/** A tub's time, in the tub's zone: the same on the server and in the browser. */
-export function TubTime({ at, zone, date, className }: Props & { zone: string }) {
+/** The user's own time: the server's words, or the browser's once it runs. */
+export function LocalTime({ at, text, date, className }: { at: string | Date; text: string | null; date?: boolean; className?: string }) {
   const { locale } = useDateSettings();
-  const iso = new Date(at).toISOString();
-  return <time dateTime={iso} className={className}>{date ? formatDate(iso, locale, zone) : formatDateTime(iso, locale, zone)}</time>;
-}
-
-/**
- * The user's own time, in their browser's zone. The server renders it when the
- * browser has told it the zone (cookie); otherwise only the browser does.
- */
-export function LocalTime({ at, date, className }: Props) {
-  const { locale, timeZone } = useDateSettings();
   const hydrated = useHydrated();
-  const zone = timeZone ?? (hydrated ? browserZone() : null);
   const iso = new Date(at).toISOString();
-  return (
-    <time dateTime={iso} className={className}>
-      {zone ? (date ? formatDate(iso, locale, zone) : formatDateTime(iso, locale, zone)) : ""}
-    </time>
-  );
+  const words = text ?? (hydrated ? (date ? formatDate(iso, locale, browserZone()) : formatDateTime(iso, locale, browserZone())) : "");
+  return <time dateTime={iso} className={className}>{words}</time>;
 }
 
 /** A calendar day (a visit, a fill date): no zone, no shift. */

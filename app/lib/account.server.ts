@@ -2,6 +2,7 @@
 // work without JavaScript. better-auth does the work; this turns its answers
 // into plain words and carries its cookies onto our redirects.
 import { data, type RouterContextProvider } from "react-router";
+import { isAPIError } from "better-auth/api";
 import { z } from "zod";
 import { auth } from "./auth.server";
 import { env } from "./env.server";
@@ -31,11 +32,18 @@ export async function signIn(request: Request, form: FormData, context: Readonly
   const parsed = z.object({ email, password: z.string().min(1, "Enter your password").max(1024, "That password is too long") }).safeParse(Object.fromEntries(form));
   if (!parsed.success) return data(fieldErrors(parsed.error), { status: 400 });
   // The same endpoint, hooks and password limiter as better-auth's HTTP API.
-  const res = await auth.api.signInEmail({
-    body: { email: parsed.data.email, password: parsed.data.password, callbackURL: "/tubs?verified=1" },
-    headers: headersWithClientAddress(request, context),
-    asResponse: true,
-  });
+  let res: Response;
+  try {
+    res = await auth.api.signInEmail({
+      body: { email: parsed.data.email, password: parsed.data.password, callbackURL: "/tubs?verified=1" },
+      headers: headersWithClientAddress(request, context),
+      asResponse: true,
+    });
+  } catch (error) {
+    // A refusal from a before-hook (the password limiter) is thrown, not returned.
+    if (!isAPIError(error)) throw error;
+    res = Response.json(error.body ?? {}, { status: error.statusCode, headers: error.headers });
+  }
   if (res.ok) return redirectWithCookies(safeRedirect(form.get("redirectTo")), res);
   const { code, message } = await authError(res);
   if (code === "EMAIL_NOT_VERIFIED") {

@@ -111,3 +111,22 @@ export function rememberBrowserZone() {
     document.cookie = `${TZ_COOKIE}=${encodeURIComponent(zone)}; path=/; max-age=31536000; samesite=lax`;
   }
 }
+
+/**
+ * Times are turned into words on the server only, in loaders: the browser's own
+ * time zone database can differ from the server's (a zone that changed its rules
+ * recently shows an hour apart), so text formatted in both places would jump
+ * after load and break hydration. Loaders call these and send the words.
+ */
+export function timeWords(request: Request) {
+  const { locale, timeZone } = dateSettingsFor(request);
+  return {
+    locale,
+    /** a tub's time, in the tub's zone */
+    tub: (at: Date | string | number, zone: string) => formatDateTime(at, locale, zone),
+    tubDate: (at: Date | string | number, zone: string) => formatDate(at, locale, zone),
+    /** the user's own time, in their browser's zone (null until the browser has told us its zone) */
+    own: (at: Date | string | number) => (timeZone ? formatDateTime(at, locale, timeZone) : null),
+    ownDate: (at: Date | string | number) => (timeZone ? formatDate(at, locale, timeZone) : null),
+  };
+}

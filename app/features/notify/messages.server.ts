@@ -3,6 +3,7 @@
 // one-click way to stop that kind of message (List-Unsubscribe headers, RFC
 // 2369 and RFC 8058, plus a link in the footer).
 import sharp from "sharp";
+import { formatDateTime, formatDay } from "../../lib/dates";
 import { layout, type MailContent } from "../../lib/emails";
 import { env } from "../../lib/env.server";
 import type { OutgoingEmail } from "./outbox.server";
@@ -30,8 +31,9 @@ export function withUnsubscribe(content: MailContent, kind: MessageKind, token: 
   };
 }
 
+/** A time in the recipient's zone, saying which zone, so no sentence leaves the reader guessing. */
 function formatLocal(iso: string, timeZone: string) {
-  return new Date(iso).toLocaleString("en-GB", { timeZone, dateStyle: "medium", timeStyle: "short" });
+  return `${formatDateTime(iso, "en-GB", timeZone)} (${timeZone.replace(/_/g, " ")} time)`;
 }
 
 export type WeekReading = { takenAt: Date; analyte: string; value: number };
@@ -100,11 +102,11 @@ export async function reminderEmail(r: DueReminder, to: Recipient, week: WeekRea
       break;
     }
     case "drain_due": {
-      note = { title: `${d.tubName}: time to drain and refill`, body: `Filled on ${d.fillDate}; water like this is usually changed about every ${d.intervalDays} days.` };
+      note = { title: `${d.tubName}: time to drain and refill`, body: `Filled on ${formatDay(String(d.fillDate), "en-GB")}; water like this is usually changed about every ${d.intervalDays} days.` };
       content = layout({
         subject: note.title, greeting,
         paragraphs: [
-          `${d.tubName} was filled on ${d.fillDate}. For its volume and use, the water is usually changed about every ${d.intervalDays} days: dissolved solids build up and the water gets harder to keep balanced.`,
+          `${d.tubName} was filled on ${formatDay(String(d.fillDate), "en-GB")}. For its volume and use, the water is usually changed about every ${d.intervalDays} days: dissolved solids build up and the water gets harder to keep balanced.`,
           "Switch off the power to the heater and pumps before draining, follow the tub maker's manual and local rules for where the water may go, and record the new fill date in Dipwell afterwards.",
         ],
         action: { label: "Open the tub", url: tubUrl },

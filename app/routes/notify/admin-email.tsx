@@ -7,6 +7,7 @@ import { Pager, withParams } from "~/components/Pager";
 import { askedPage } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/admin-email";
 
 export const meta: Route.MetaFunction = () => [{ title: "E-mail log · Dipwell" }];
@@ -20,7 +21,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
     status, page,
     rows: rows.map((r) => ({
       id: r.id, kind: r.kind, to: r.to, subject: r.subject, status: r.status, attempts: r.attempts,
-      lastError: r.lastError, updatedAt: r.updatedAt.toISOString(), sentAt: r.sentAt?.toISOString() ?? null,
+      lastError: r.lastError, updatedAt: r.updatedAt.toISOString(), updatedWhen: timeWords(request).own(r.updatedAt), sentAt: r.sentAt?.toISOString() ?? null,
     })),
   };
 }
@@ -50,7 +51,7 @@ export default function AdminEmail({ loaderData }: Route.ComponentProps) {
                 {r.subject}
               </p>
               <p className="text-sm text-ink-soft">
-                {r.kind} · to {r.to} · {r.attempts} attempt{r.attempts === 1 ? "" : "s"} · <LocalTime at={r.updatedAt} />
+                {r.kind} · to {r.to} · {r.attempts} attempt{r.attempts === 1 ? "" : "s"} · <LocalTime at={r.updatedAt} text={r.updatedWhen} />
               </p>
               {r.lastError && <p className="text-sm text-alert">{r.lastError}</p>}
             </li>

@@ -5,6 +5,7 @@ import { Button, Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { listNotifications, markRead } from "~/features/notify/notifications.server";
 import { requireUser } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/notifications";
 
 export const meta: Route.MetaFunction = () => [{ title: "Notifications · Dipwell" }];
@@ -13,7 +14,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const rows = await listNotifications(user.id);
   return {
-    items: rows.map((n) => ({ id: n.id, kind: n.kind, title: n.title, body: n.body, link: n.link, createdAt: n.createdAt.toISOString(), read: n.readAt !== null })),
+    items: rows.map((n) => ({ id: n.id, kind: n.kind, title: n.title, body: n.body, link: n.link, createdAt: n.createdAt.toISOString(), when: timeWords(request).own(n.createdAt), read: n.readAt !== null })),
   };
 }
 
@@ -58,7 +59,7 @@ export default function Notifications({ loaderData }: Route.ComponentProps) {
                     {n.link ? <a href={n.link}>{n.title}</a> : n.title}
                   </p>
                   <p className="text-ink-soft">{n.body}</p>
-                  <p className="text-sm text-ink-soft"><LocalTime at={n.createdAt} /></p>
+                  <p className="text-sm text-ink-soft"><LocalTime at={n.createdAt} text={n.when} /></p>
                 </div>
                 {!n.read && (
                   <Form method="post">

@@ -14,7 +14,10 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Routines 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub, relation } = await requireTub(user, params.tubId, "view");
-  return { ...(await setupView(tub, new Date(), await userUnits(user.id))), relation };
+  const view = await setupView(tub, new Date(), await userUnits(user.id));
+  // Times as words from the server only (the browser's zone rules may differ).
+  const finishedWords = view.tub.firstFillCompletedAt ? dayAndClock(view.tub.firstFillCompletedAt, view.tub.timeZone) : null;
+  return { ...view, finishedWords, relation };
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
@@ -87,7 +90,7 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
       <Card>
         <h2 className="mb-1 text-xl font-bold text-well-900">First-fill setup</h2>
         {tub.firstFillCompletedAt && !run ? (
-          <Notice tone="ok">First-fill setup finished {dayAndClock(tub.firstFillCompletedAt, tub.timeZone)}. Use the plan for day-to-day care.</Notice>
+          <Notice tone="ok">First-fill setup finished {loaderData.finishedWords}. Use the plan for day-to-day care.</Notice>
         ) : !run ? (
           <>
             <Notice tone="caution" className="mb-3">

@@ -16,10 +16,13 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const now = new Date();
   const zone = safeZone(tub.timeZone);
   const [rows, products] = await Promise.all([recentTreatments(tub.id, 100), ownerProducts(tub.ownerId)]);
+  const timer = activeTimer(tub, rows, products, now);
   return {
     relation,
     tub: { id: tub.id, name: tub.name, timeZone: zone, firstFillCompletedAt: tub.firstFillCompletedAt?.toISOString() ?? null },
-    timer: activeTimer(tub, rows, products, now),
+    timer,
+    // Times as words from the server only (the browser's zone rules may differ).
+    timerAddedWords: timer ? dayAndClock(timer.addedAt, zone) : null,
     treatments: rows.map((r) => ({
       id: r.id,
       productName: r.productName,
@@ -65,7 +68,7 @@ export default function TreatmentsPage({ loaderData, actionData }: Route.Compone
       <PageTitle sub={`Times in ${tub.timeZone}`}>Treatments · {tub.name}</PageTitle>
       {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
       {timer ? (
-        <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />
+        <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${loaderData.timerAddedWords}`} />
       ) : (
         <Notice tone="ok">No retest timer is running. <a href={`/tubs/${tub.id}/plan`}>See the plan</a>.</Notice>
       )}

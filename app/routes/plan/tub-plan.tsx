@@ -19,7 +19,12 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const whatIf = parseWhatIf(url.searchParams);
   const view = await tubPlan(tub, { whatIf: whatIf.readings, units: await userUnits(user.id) });
-  return { ...view, relation, whatIfError: whatIf.error, whatIfValues: whatIf.readings || whatIf.error ? Object.fromEntries(url.searchParams) : null, saved: url.searchParams.get("saved") === "targets" };
+  // Times as words from the server only (the browser's zone rules may differ).
+  const words = {
+    reading: view.reading ? dayAndClock(view.reading.takenAt, view.tub.timeZone) : null,
+    timerAdded: view.timer ? dayAndClock(view.timer.addedAt, view.tub.timeZone) : null,
+  };
+  return { ...view, words, relation, whatIfError: whatIf.error, whatIfValues: whatIf.readings || whatIf.error ? Object.fromEntries(url.searchParams) : null, saved: url.searchParams.get("saved") === "targets" };
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
@@ -57,7 +62,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
       {plan && <PlanHeadline headline={plan.headline} />}
       {!tub.firstFillCompletedAt && <FirstFillPrompt tubId={tub.id} />}
 
-      {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${dayAndClock(timer.addedAt, tub.timeZone)}`} />}
+      {timer && <RetestTimer retestAt={timer.retestAt} clock={timer.retestClock} day={timer.retestDay} now={now} label={`${timer.productName} was added ${loaderData.words.timerAdded}`} />}
 
       <Card>
         <h2 className="mb-1 text-lg font-bold">From which reading</h2>
@@ -66,7 +71,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
         ) : reading ? (
           <>
             <p data-testid="reading-source">
-              Reading of <strong>{dayAndClock(reading.takenAt, tub.timeZone)}</strong> ({tub.timeZone}){reading.confirmed ? ", confirmed" : ", not confirmed yet"}.
+              Reading of <strong>{loaderData.words.reading}</strong> ({tub.timeZone}){reading.confirmed ? ", confirmed" : ", not confirmed yet"}.
             </p>
             {!reading.confirmed && <p className="text-sm text-caution">Confirm the pads on the reading screen first if any look wrong; the plan uses the values as read.</p>}
             <ul className="mt-2 flex flex-wrap gap-2 text-sm">

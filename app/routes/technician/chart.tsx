@@ -5,6 +5,7 @@ import { Button, ButtonLink, Card, Field, Input, Notice, PageTitle, Select } fro
 import { addBatch, ChartInputError, loadChart, saveVersion, SOURCES, updateBatch } from "~/features/charts/charts.server";
 import { requireChartRole } from "~/features/charts/guard.server";
 import { LocalTime } from "~/components/When";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/chart";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.chart.name ?? "Chart"} · Dipwell` }];
@@ -19,7 +20,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
     chart: { id: chart.id, name: chart.name },
     batches: batches.map((b) => ({ id: b.id, lot: b.lot, expiresOn: b.expiresOn, currentVersion: versions.find((v) => v.id === b.currentVersionId)?.version ?? null })),
     batchId: batch?.id ?? null,
-    versions: versions.map((v) => ({ id: v.id, version: v.version, source: SOURCES[v.source as keyof typeof SOURCES] ?? v.source, note: v.note, createdAt: v.createdAt.toISOString(), batchLot: batches.find((b) => b.id === v.batchId)?.lot ?? null })),
+    versions: versions.map((v) => ({ id: v.id, version: v.version, source: SOURCES[v.source as keyof typeof SOURCES] ?? v.source, note: v.note, createdAt: v.createdAt.toISOString(), when: timeWords(request).own(v.createdAt), batchLot: batches.find((b) => b.id === v.batchId)?.lot ?? null })),
     current: current ? { id: current.id, version: current.version, definition: current.definition as EditChart } : null,
     saved: url.searchParams.get("saved"),
   };
@@ -161,7 +162,7 @@ export default function ChartPage({ loaderData, actionData }: Route.ComponentPro
               <span className="font-bold">Version {v.version}</span>
               <span className="text-sm text-ink-soft">
                 {v.source}
-                {v.batchLot ? ` · lot ${v.batchLot}` : ""} · <LocalTime at={v.createdAt} />
+                {v.batchLot ? ` · lot ${v.batchLot}` : ""} · <LocalTime at={v.createdAt} text={v.when} />
                 {v.note ? ` · ${v.note}` : ""}
               </span>
               <a href={`/api/chart-versions/${v.id}`} download>Export</a>

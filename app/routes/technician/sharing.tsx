@@ -4,6 +4,7 @@ import { ClientInputError, inviteTechnician, revokeAccess, sharingFor, withdrawI
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import { LocalTime } from "~/components/When";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/sharing";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sharing · Dipwell" }];
@@ -14,8 +15,8 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { access, invites } = await sharingFor(tub);
   return {
     tub: { id: tub.id, name: tub.name },
-    access: access.map((x) => ({ id: x.id, name: x.name, email: x.email, since: x.createdAt.toISOString() })),
-    invites: invites.map((i) => ({ id: i.id, email: i.email, expiresAt: i.expiresAt.toISOString(), expired: i.expiresAt < new Date() })),
+    access: access.map((x) => ({ id: x.id, name: x.name, email: x.email, since: x.createdAt.toISOString(), sinceWhen: timeWords(request).ownDate(x.createdAt) })),
+    invites: invites.map((i) => ({ id: i.id, email: i.email, expiresAt: i.expiresAt.toISOString(), expiresWhen: timeWords(request).ownDate(i.expiresAt), expired: i.expiresAt < new Date() })),
     sent: new URL(request.url).searchParams.get("sent"),
   };
 }
@@ -56,7 +57,7 @@ export default function Sharing({ loaderData, actionData }: Route.ComponentProps
             {access.map((x) => (
               <li key={x.id} className="flex flex-wrap items-center gap-3 py-2">
                 <span className="font-bold">{x.name}</span>
-                <span className="text-sm text-ink-soft">{x.email} · since <LocalTime at={x.since} date /></span>
+                <span className="text-sm text-ink-soft">{x.email} · since <LocalTime at={x.since} text={x.sinceWhen} date /></span>
                 <form method="post" className="ml-auto">
                   <input type="hidden" name="intent" value="revoke" />
                   <input type="hidden" name="id" value={x.id} />
@@ -74,7 +75,7 @@ export default function Sharing({ loaderData, actionData }: Route.ComponentProps
             {invites.map((i) => (
               <li key={i.id} className="flex flex-wrap items-center gap-3 py-2">
                 <span>{i.email}</span>
-                <span className="text-sm text-ink-soft">{i.expired ? "expired" : <>until <LocalTime at={i.expiresAt} date /></>}</span>
+                <span className="text-sm text-ink-soft">{i.expired ? "expired" : <>until <LocalTime at={i.expiresAt} text={i.expiresWhen} date /></>}</span>
                 <form method="post" className="ml-auto">
                   <input type="hidden" name="intent" value="withdraw" />
                   <input type="hidden" name="id" value={i.id} />

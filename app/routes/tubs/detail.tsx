@@ -7,7 +7,7 @@ import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
 import { stripChart } from "~/db/schema";
 import { eq } from "drizzle-orm";
-import { formatDateTime, useDateSettings } from "~/lib/dates";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/detail";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
@@ -18,7 +18,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const current = await currentChartFor(tub);
   const chart = current ? await db.query.stripChart.findFirst({ where: eq(stripChart.id, current.batch.chartId) }) : null;
   const url = new URL(request.url);
-  return {
+  const out = {
     relation,
     notice: url.searchParams.has("added") ? "Your tub is added. Take your first reading when you are ready." : url.searchParams.has("saved") ? "Changes saved." : null,
     tub: {
@@ -27,14 +27,16 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
     },
     targets: tubTargets(tub),
     latest: await latestReading(tub),
+    latestWhen: null as string | null,
   };
+  const latest = out.latest;
+  if (latest) out.latestWhen = timeWords(request).tub(latest.takenAt, tub.timeZone);
+  return out;
 }
 
 export default function TubDetail({ loaderData }: Route.ComponentProps) {
-  const { tub, latest, targets, relation, notice } = loaderData;
+  const { tub, latest, latestWhen, targets, relation, notice } = loaderData;
   const base = `/tubs/${tub.id}`;
-  const { locale } = useDateSettings();
-  const fmt = (iso: string) => formatDateTime(iso, locale, tub.timeZone);
   return (
     <div className="space-y-5">
       <BackLink href="/tubs">All tubs</BackLink>
@@ -58,7 +60,7 @@ export default function TubDetail({ loaderData }: Route.ComponentProps) {
         ) : (
           <div>
             <p className="text-ink-soft">
-              {fmt(latest.takenAt)} · {latest.status === "confirmed" ? "confirmed" : latest.status === "failed" ? "could not be read" : "waiting for you to check it"}
+              {latestWhen} · {latest.status === "confirmed" ? "confirmed" : latest.status === "failed" ? "could not be read" : "waiting for you to check it"}
             </p>
             {!latest.confirmed && latest.pads.length > 0 && (
               <p className="mt-2"><UnconfirmedMark>Not confirmed yet: these are the reader's values</UnconfirmedMark></p>

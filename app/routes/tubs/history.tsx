@@ -4,7 +4,7 @@ import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server"
 import { askedPage } from "~/lib/paging";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
-import { formatDateTime, useDateSettings } from "~/lib/dates";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/history";
 
 export const meta: Route.MetaFunction = () => [{ title: "History · Dipwell" }];
@@ -18,7 +18,10 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const sort = (sortParam && Object.hasOwn(HISTORY_SORTS, sortParam) ? sortParam : "taken") as keyof typeof HISTORY_SORTS;
   const dir = url.searchParams.get("dir") === "asc" ? "asc" : "desc";
   const page = askedPage(url);
-  return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, sort, dir: dir as "asc" | "desc", ...(await historyPage(tub, { sort, dir, page })) };
+  const found = await historyPage(tub, { sort, dir, page });
+  const words = timeWords(request);
+  const rows = found.rows.map((r) => ({ ...r, when: words.tub(r.takenAt, tub.timeZone) }));
+  return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, sort, dir: dir as "asc" | "desc", ...found, rows };
 }
 
 const STATUS_WORDS: Record<string, string> = { read: "to check", failed: "not read", confirmed: "confirmed", manual: "by hand" };
@@ -42,8 +45,6 @@ export default function History({ loaderData }: Route.ComponentProps) {
   };
   // The sort order belongs on the column header, not on the link inside it.
   const ariaSort = (key: string) => (sort === key ? (dir === "asc" ? "ascending" : "descending") : undefined);
-  const { locale } = useDateSettings();
-  const fmt = (iso: string) => formatDateTime(iso, locale, tub.timeZone);
   return (
     <div className="space-y-5">
       <BackLink href={base}>{tub.name}</BackLink>
@@ -80,7 +81,7 @@ export default function History({ loaderData }: Route.ComponentProps) {
                     )}
                   </td>
                   <td className="p-3">
-                    <a href={`${base}/readings/${r.id}`} className="whitespace-nowrap">{fmt(r.takenAt)}</a>
+                    <a href={`${base}/readings/${r.id}`} className="whitespace-nowrap">{r.when}</a>
                     <span className="block text-ink-soft sm:hidden">
                       {STATUS_WORDS[r.status] ?? r.status}
                       {r.confirmedBy ? ` · by ${r.confirmedBy}` : ""}

@@ -6,7 +6,7 @@ import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass }
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
-import { formatDateTime, useDateSettings } from "~/lib/dates";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/reading";
 
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
@@ -19,6 +19,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);
   return {
     tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone },
+    when: timeWords(request).tub(review.reading.takenAt, tub.timeZone),
     canConfirm: relation !== null,
     duplicate: url.searchParams.has("duplicate"),
     justConfirmed: url.searchParams.has("confirmed"),
@@ -48,8 +49,7 @@ export default function ReviewReading({ loaderData, actionData }: Route.Componen
   );
   const failed = reading.status === "failed";
   const confirmed = reading.status === "confirmed";
-  const { locale } = useDateSettings();
-  const when = formatDateTime(reading.takenAt, locale, tub.timeZone);
+  const when = loaderData.when;
   const unsure = pads.filter((p) => p.needsReview && p.readValue !== null).length;
 
   return (
