@@ -128,7 +128,7 @@ async function main() {
       const b = spawnSync(path.join(root, "node_modules", ".bin", "react-router"), ["build"], { cwd: root, stdio: ["ignore", "ignore", "inherit"], env });
       if (b.status !== 0) throw new Error("The app did not build.");
     }
-    spawnService("app", path.join(root, "node_modules", ".bin", "react-router-serve"), [`./${buildDir}/server/index.js`], { cwd: root, env, quiet: true });
+    spawnService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env, quiet: true });
     worker = spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env, quiet: true });
     await waitForPort(P.app, "the app", 60_000);
     // Let the worker create its queues before the outbox is used.

@@ -73,7 +73,7 @@ export async function startStack(opts: { app?: boolean; worker?: boolean; env?: 
   const env = childEnv(opts.env);
   const common = { cwd: root, env, quiet: true, log: (line: string) => log.push(line) };
   const buildDir = process.env.DIPWELL_BUILD_DIR ?? "build";
-  const app = opts.app === false ? undefined : superviseService("app", bin("react-router-serve"), [`./${buildDir}/server/index.js`], common);
+  const app = opts.app === false ? undefined : superviseService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], common);
   const worker = opts.worker === false ? undefined : superviseService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], common);
   if (app) await waitForPort(APP_PORT, "the app under fault test", 60_000);
   const none: Supervised = { current: () => undefined, restarts: () => 0, nextStart: () => new Promise(() => {}), stop: async () => {} };

@@ -4,6 +4,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { CartesianGrid, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { StatusBadge, STATUS_WORDS, UnconfirmedMark } from "~/components/status";
+import { formatDateTime, useDateSettings } from "~/lib/dates";
 import { ButtonLink, Card, EmptyState, Notice } from "~/components/ui";
 import { rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { timeTicks, valueTicks } from "./trend-scale";
@@ -45,6 +46,7 @@ function TreatmentFlag({ viewBox, n }: { viewBox?: { x?: number; y?: number }; n
 
 export function TrendCharts({ tubId, timeZone, days }: { tubId: string; timeZone: string; days?: number }) {
   const q = useQuery({ queryKey: ["trends", tubId, days ?? null], queryFn: () => fetchTrends(tubId, days) });
+  const { locale } = useDateSettings();
   if (q.isPending) {
     return (
       <div className="space-y-4" aria-busy="true" data-testid="trends-loading">
@@ -80,8 +82,8 @@ export function TrendCharts({ tubId, timeZone, days }: { tubId: string; timeZone
   const domain: [number, number] = [lo - pad, hi + pad];
   const xt = timeTicks(domain[0], domain[1], timeZone);
   const tickFmt = (t: number) =>
-    new Date(t).toLocaleString("en-GB", xt.unit === "hour" ? { timeZone, hour: "2-digit", minute: "2-digit" } : xt.unit === "day" ? { timeZone, day: "numeric", month: "short" } : { timeZone, month: "short", year: "2-digit" });
-  const fullFmt = (t: number) => new Date(t).toLocaleString("en-GB", { timeZone, dateStyle: "medium", timeStyle: "short" });
+    new Date(t).toLocaleString(locale, xt.unit === "hour" ? { timeZone, hour: "2-digit", minute: "2-digit" } : xt.unit === "day" ? { timeZone, day: "numeric", month: "short" } : { timeZone, month: "short", year: "2-digit" });
+  const fullFmt = (t: number) => formatDateTime(t, locale, timeZone);
   const numbered = treatments.map((t, i) => ({ ...t, n: i + 1 }));
   return (
     <div className="space-y-4" data-testid="trend-charts">

@@ -125,7 +125,7 @@ export const DASHBOARD_VIEWS = ["attention", "all"] as const;
 export type DashboardView = (typeof DASHBOARD_VIEWS)[number];
 
 type DashboardSqlRow = {
-  id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; everyDays: number; ownerName: string;
+  id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; everyDays: number; ownerName: string; timeZone: string;
   latestAt: Date | null; pads: { a: string; u: string | null; v: number | null }[] | null;
   waiting: number; waitingNewest: Date | null;
   trName: string | null; trAmount: number | null; trUnit: string | null; trAt: Date | null;
@@ -142,7 +142,7 @@ async function dashboardRows(user: SessionUser, q: string) {
   // A named statement: planned once per connection, not on every visit to the dashboard.
   const r = await db.$client.query<DashboardSqlRow>({
     name: "dipwell-dashboard",
-    text: `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName",
+    text: `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName", t.time_zone as "timeZone",
             cur.taken_at as "latestAt", cur.pads, w.n as waiting, w.newest as "waitingNewest",
             tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
        from tub t
@@ -204,6 +204,7 @@ export async function dashboard(
     return {
       id: t.id,
       name: t.name,
+      timeZone: t.timeZone,
       ownerName: t.ownerName,
       latestAt: t.latestAt?.toISOString() ?? null,
       outOfRange,
@@ -241,7 +242,7 @@ export async function dashboard(
 
 export const REVIEW_PAGE_SIZE = 10;
 
-type ReviewSqlRow = { id: string; tubId: string; tubName: string; ownerName: string; takenAt: Date; status: string; photoId: string | null; chartVersionId: string | null };
+type ReviewSqlRow = { id: string; tubId: string; tubName: string; timeZone: string; ownerName: string; takenAt: Date; status: string; photoId: string | null; chartVersionId: string | null };
 
 /**
  * Every reading waiting for a technician (unsure and not yet reviewed) in the tubs the user
@@ -257,7 +258,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
   if (total === 0) return { items: [], page };
   const rows = (
     await db.$client.query<ReviewSqlRow>(
-      `select r.id, r.tub_id as "tubId", t.name as "tubName", o.name as "ownerName", r.taken_at as "takenAt", r.status,
+      `select r.id, r.tub_id as "tubId", t.name as "tubName", t.time_zone as "timeZone", o.name as "ownerName", r.taken_at as "takenAt", r.status,
               r.photo_id as "photoId", r.chart_version_id as "chartVersionId"
          from reading r join tub t on t.id = r.tub_id join "user" o on o.id = t.owner_id
         where ${waiting}
@@ -289,6 +290,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
         id: r.id,
         tubId: r.tubId,
         tubName: r.tubName,
+        timeZone: r.timeZone,
         ownerName: r.ownerName,
         takenAt: r.takenAt.toISOString(),
         status: r.status,

@@ -4,6 +4,7 @@ import { Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clients/clients.server";
 import { askedPage, searchText } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/clients";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clients · Dipwell" }];
@@ -15,10 +16,14 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const asked = url.searchParams.get("show");
   const view: DashboardView = (DASHBOARD_VIEWS as readonly string[]).includes(asked ?? "") ? (asked as DashboardView) : "all";
   const board = await dashboard(user, { page: askedPage(url), q, view, signal: request.signal });
-  return { ...board, q, view };
+  // Each tub's times in the tub's zone, put into words here on the server.
+  const words = timeWords(request);
+  const rows = board.rows.map((t) => {
+    const when = (iso: string | null | undefined) => (iso ? words.tub(iso, t.timeZone) : "");
+    return { ...t, words: { unsureNewer: when(t.unsureNewerAt), latest: when(t.latestAt), due: when(t.dueAt), treated: when(t.lastTreatment?.at) } };
+  });
+  return { ...board, rows, q, view };
 }
-
-const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
 
 export default function Clients({ loaderData }: Route.ComponentProps) {
   const { rows: tubs, page, totals, q, view } = loaderData;
@@ -77,17 +82,17 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
                   </li>
                   {t.unsureNewerAt && (
                     <li className="font-bold text-caution" data-testid="unsure-newer">
-                      <UnconfirmedMark className="rounded-xl">Unconfirmed: a newer reading ({when(t.unsureNewerAt)}) is unsure and waits for review; it is not counted as the water yet.</UnconfirmedMark>
+                      <UnconfirmedMark className="rounded-xl">Unconfirmed: a newer reading ({t.words.unsureNewer}) is unsure and waits for review; it is not counted as the water yet.</UnconfirmedMark>
                     </li>
                   )}
                   <li className={t.overdue ? "font-bold text-caution" : ""}>
-                    {t.latestAt ? `Last test ${when(t.latestAt)}` : t.unsureNewerAt ? "No sure test yet" : "Never tested"}
-                    {t.overdue ? " · test overdue" : t.dueAt ? ` · next due ${when(t.dueAt)}` : ""}
+                    {t.latestAt ? `Last test ${t.words.latest}` : t.unsureNewerAt ? "No sure test yet" : "Never tested"}
+                    {t.overdue ? " · test overdue" : t.dueAt ? ` · next due ${t.words.due}` : ""}
                   </li>
                   <li className={t.waiting ? "font-bold text-caution" : ""}>
                     {t.waiting ? <a href="/clients/review">{t.waiting} reading{t.waiting === 1 ? "" : "s"} to review</a> : "Nothing to review"}
                   </li>
-                  <li>{t.lastTreatment ? `Last treatment: ${t.lastTreatment.name}, ${t.lastTreatment.amount} ${t.lastTreatment.unit} on ${when(t.lastTreatment.at)}` : "No treatments logged"}</li>
+                  <li>{t.lastTreatment ? `Last treatment: ${t.lastTreatment.name}, ${t.lastTreatment.amount} ${t.lastTreatment.unit} on ${t.words.treated}` : "No treatments logged"}</li>
                 </ul>
                 <a href={`/tubs/${t.id}/notes`} className="mt-2 inline-block text-sm font-bold">Visit notes</a>
               </Card>

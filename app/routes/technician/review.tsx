@@ -4,6 +4,7 @@ import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
 import { askedPage } from "~/lib/paging";
 import { requireRole } from "~/lib/session.server";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/review";
 
 export const meta: Route.MetaFunction = () => [{ title: "Review readings · Dipwell" }];
@@ -12,7 +13,9 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const user = requireRole(context, request, "technician", "admin");
   const url = new URL(request.url);
   const queue = await reviewQueue(user, { page: askedPage(url), signal: request.signal });
-  return { ...queue, done: url.searchParams.has("done") };
+  const words = timeWords(request);
+  const items = queue.items.map((r) => ({ ...r, when: words.tub(r.takenAt, r.timeZone) }));
+  return { ...queue, items, done: url.searchParams.has("done") };
 }
 
 /** Corrections from the form: a typed value wins over a tapped swatch; blank means "as read". */
@@ -82,7 +85,7 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                     <a href={`${base}/readings/${r.id}`}>{r.tubName}</a>
                   </p>
                   <p className="text-sm text-ink-soft">
-                    {r.ownerName} · taken {new Date(r.takenAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })} · <strong className="text-caution">unconfirmed</strong>
+                    {r.ownerName} · taken <time dateTime={r.takenAt}>{r.when}</time> · <strong className="text-caution">unconfirmed</strong>
                   </p>
                 </div>
               </div>
