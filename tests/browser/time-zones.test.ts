@@ -67,7 +67,9 @@ async function screensFor(userId: string, role: string): Promise<string[]> {
     const fill = (param: string, values: string[]) => {
       variants = variants.flatMap((v) => (v.includes(`:${param}`) ? values.map((x) => v.replace(`:${param}`, x)) : [v]));
     };
-    fill("tubId", tubs.map((t) => t.id));
+    // Editing and sharing a tub are its owner's alone (a technician gets 403 there, by design).
+    const ownerOnly = /\/(edit|sharing)$/.test(r.path);
+    fill("tubId", (ownerOnly ? own : tubs).map((t) => t.id));
     fill("chartId", charts.map((c) => c.id));
     variants = variants.flatMap((v) => {
       if (v.includes(":readingId")) {
