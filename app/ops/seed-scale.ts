@@ -48,6 +48,8 @@ export async function seedScale(opts: ScaleOptions) {
     // (with the cascades on: every row of an earlier scale seed goes with its user or chart)
     // Tubs first (their readings, pads and treatments go with them), then the people: deleting
     // both in one cascade would null a reading's author while its tub is already gone.
+    // Treatments point at readings (set null on delete, no index on that column): remove them first.
+    await step("earlier scale treatments removed", `delete from treatment where tub_id in (select t.id from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test')`);
     await step("earlier scale tubs removed", `delete from tub where owner_id in (select id from "user" where email like '%@scale.lanternbay.test')`);
     await step("earlier scale users removed", `delete from "user" where email like '%@scale.lanternbay.test'`);
     await step("earlier scale chart removed", `delete from strip_chart where name = 'Scale test chart (invented colours)'`);
