@@ -152,11 +152,15 @@ export async function smtpRelay(): Promise<SmtpRelay> {
   };
 }
 
-type Caught = { subject: string; to: { address: string }[]; messageId?: string; headers: Record<string, string> };
+type Caught = { subject: string; to?: { address: string }[]; html?: string; messageId?: string; headers: Record<string, string> };
 
-/** Every message the catcher holds for addresses ending in `suffix`. */
-export async function caughtMail(suffix: string): Promise<Caught[]> {
+/**
+ * Every complete message the catcher holds for addresses ending in `suffix`. The catcher also
+ * files what it got of a conversation cut mid-message (no end-of-data mark, so never delivered
+ * by a real server); those fragments lack the end of the HTML body and are not counted.
+ */
+export async function caughtMail(suffix: string): Promise<(Caught & { to: { address: string }[] })[]> {
   const res = await fetch(`${CATCHER_URL}/email`);
   const all = (await res.json()) as Caught[];
-  return all.filter((m) => m.to.some((t) => t.address.endsWith(suffix)));
+  return all.filter((m): m is Caught & { to: { address: string }[] } => Boolean(m.to?.some((t) => t.address.endsWith(suffix)) && m.html?.includes("</p>")));
 }

@@ -52,8 +52,15 @@ describe("the worker killed mid-send", () => {
       const st = await statuses();
       return (st.sending ?? 0) > 0 ? st : undefined;
     });
-    await sleep(500); // anything the server accepted before it went quiet is marked sent by now
-    const before = await statuses();
+    // Anything the server accepted before it went quiet gets marked sent; wait until that has
+    // settled (no change for 1.5 s), so what is still "sending" truly is on the wire.
+    let before = await statuses();
+    for (let calm = 0; calm < 6; ) {
+      await sleep(250);
+      const now = await statuses();
+      calm = now.sent === before.sent && now.sending === before.sending ? calm + 1 : 0;
+      before = now;
+    }
     const dead = await kill(stack.worker);
     relay.resume();
     expect(before.sending, `stuck: ${JSON.stringify(stuck)}`).toBeGreaterThan(0);
@@ -74,7 +81,10 @@ describe("the worker killed mid-send", () => {
       return c.length >= count ? c : undefined;
     }, 30_000);
     await sleep(500); // a duplicate would land now
-    expect((await caughtMail(domain)).length).toBe(count);
+    const all = await caughtMail(domain);
+    const twice = all.map((m) => m.to[0].address).filter((a, i, list) => list.indexOf(a) !== i);
+    expect(twice, `sent twice: ${twice.join(", ")}`).toEqual([]);
+    expect(all.length).toBe(count);
     expect(new Set(caught.map((m) => m.to[0].address)).size).toBe(count);
     expect(stack.log).toContain("worker was stopped by SIGKILL; starting it again in 1 s.");
     expect(stack.worker.restarts()).toBe(1);
