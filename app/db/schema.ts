@@ -289,6 +289,7 @@ export const photo = pgTable(
 );
 
 export const readingStatusEnum = pgEnum("reading_status", [
+  "pending", // the photo is registered and waits for the worker to read it
   "read", // the reader produced values, waiting for the owner
   "failed", // the photo could not be read; values may be entered by hand
   "confirmed", // the owner confirmed or corrected every pad

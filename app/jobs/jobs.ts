@@ -7,7 +7,9 @@ import { runScan } from "../features/notify/scan.server";
 import { sweepUploads } from "../features/photos/intake.server";
 import { databaseUnavailable, noteDatabaseError } from "../lib/db-health";
 import { env } from "../lib/env.server";
-import { createQueues, DELIVER_BATCH, DELIVER_POLL_SECONDS, DELIVER_QUEUE, SCAN_CRON, SCAN_QUEUE, UPLOAD_SWEEP_CRON, UPLOAD_SWEEP_QUEUE } from "./queues";
+import { readPendingReading, type ReadJob } from "../features/readings/read-job.server";
+import { createReaderPool } from "./read-pool";
+import { createQueues, DELIVER_BATCH, DELIVER_POLL_SECONDS, DELIVER_QUEUE, SCAN_CRON, SCAN_QUEUE, UPLOAD_SWEEP_CRON, UPLOAD_SWEEP_QUEUE, READ_QUEUE } from "./queues";
 
 export async function registerJobs(boss: PgBoss) {
   await createQueues(boss);
@@ -40,6 +42,22 @@ export async function registerJobs(boss: PgBoss) {
     const deleted = await sweepUploads(new Date());
     if (deleted) console.log(`photo uploads: ${deleted} abandoned upload object(s) deleted`);
   });
+
+  await registerReadingWork(boss);
+}
+
+/**
+ * Strip photos: as many jobs in flight as reader threads (one per core), each read in a thread of
+ * the pool so the worker's own thread stays free for e-mail and the scan.
+ */
+export async function registerReadingWork(boss: PgBoss, pool = createReaderPool()) {
+  for (let i = 0; i < pool.size; i++) {
+    await boss.work<ReadJob>(READ_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+      const outcome = await readPendingReading(job.data.readingId, { reader: pool.read, finalAttempt: job.retryCount >= job.retryLimit });
+      if (outcome !== "already-done") console.log(`reading ${job.data.readingId}: ${outcome}`);
+    });
+  }
+  return pool;
 }
 
 /** One delivery job: send, then complete it (or fail it, so pg-boss retries with back-off). Returns true when the job could not be finished. */

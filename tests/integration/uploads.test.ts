@@ -14,6 +14,7 @@ import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
 import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
 import { importRoute } from "../support/routes";
+import { readPendingReading } from "~/features/readings/read-job.server";
 
 const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
 const chart = parseChart(chartJson);
@@ -71,8 +72,9 @@ describe("a strip photo goes up and is read", () => {
     expect(r.status, JSON.stringify(r.data)).toBe(201);
     const out = r.data as { readingId: string; photoId: string; status: string; duplicate: boolean };
     expect(out.duplicate).toBe(false);
-    expect(out.status).toBe("read");
+    expect(out.status).toBe("pending"); // read by the worker, off the request path
     readingId = out.readingId;
+    expect(await readPendingReading(readingId)).toBe("read");
 
     const row = await db.query.reading.findFirst({ where: eq(s.reading.id, readingId) });
     expect(row?.chartVersionId).toBe(versionId);
@@ -94,11 +96,11 @@ describe("a strip photo goes up and is read", () => {
       expect(p.readValue, "rounded to what a strip can tell apart").toBe(Number(p.readValue!.toFixed(1)));
       expect(p.source).toBe("auto");
       expect(p.confirmedValue).toBeNull();
-      expect(p.cropKey).toMatch(new RegExp(`^tubs/${tubId}/crops/`));
+      expect(p.cropKey).toBe(`tubs/${tubId}/readings/${readingId}/${p.analyte}.webp`);
     }
     // The crop is served through the permission-checked route.
-    const { loader } = await importRoute("routes/tubs/photo-crop.ts");
-    const crop = await callRoute(loader!, { url: "/x", params: { tubId, photoId: out.photoId, analyte: "ph" }, user: owner });
+    const { loader } = await importRoute("routes/tubs/reading-crop.ts");
+    const crop = await callRoute(loader!, { url: "/x", params: { tubId, readingId, analyte: "ph" }, user: owner });
     expect(crop.status).toBe(200);
     expect(crop.response?.headers.get("content-type")).toBe("image/webp");
     expect((await crop.response!.arrayBuffer()).byteLength).toBeGreaterThan(50);
@@ -241,7 +243,8 @@ describe("bad input", () => {
     const r = await register(key);
     expect(r.status).toBe(201);
     const out = r.data as { readingId: string; photoId: string; status: string };
-    expect(out.status).toBe("failed");
+    expect(out.status).toBe("pending");
+    expect(await readPendingReading(out.readingId)).toBe("failed");
     const row = await db.query.reading.findFirst({ where: eq(s.reading.id, out.readingId) });
     expect(row?.error).toBeTruthy();
     expect(row?.error).not.toMatch(/Error|undefined|stack/);

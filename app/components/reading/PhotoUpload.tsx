@@ -1,78 +1,128 @@
-// Choosing the strip photo (camera on a phone, drag and drop or a file on a desktop), the upload
-// straight to storage through a presigned PUT with a real progress bar, and the server's reading.
-import { useCallback, useRef, useState } from "react";
+// Choosing the strip photo (take one with the camera, or choose one already taken; drag and drop on
+// a desktop), the upload straight to storage through a presigned PUT with a real progress bar, a
+// stall timeout, Cancel and "Try the upload again", then the registration. The checks and words
+// are those of the shared photo rules (features/photos/rules.ts); the server checks again.
+import { useCallback, useEffect, useRef, useState } from "react";
 import { useDropzone } from "react-dropzone";
 import { Button, Notice, cx } from "~/components/ui";
+import { formatMb as mb, PHOTO_ACCEPT, photoProblem } from "~/features/photos/rules";
 
-const TYPES = ["image/jpeg", "image/png", "image/webp"];
-const mb = (b: number) => `${Math.round((b / 1024 / 1024) * 10) / 10} MB`;
+/** No byte sent for this long: the upload is given up as stalled (the owner can try again). */
+export const STALL_MS = 30_000;
+/** The registration answers within this, or the owner is told to try again. */
+const REGISTER_TIMEOUT_MS = 60_000;
 
 type Phase =
   | { kind: "idle" }
   | { kind: "uploading"; loaded: number; total: number }
-  | { kind: "reading" }
+  | { kind: "registering" }
   | { kind: "error"; message: string; retry: boolean };
 
 export function checkFile(file: File, maxBytes: number): string | null {
-  if (!TYPES.includes(file.type)) {
-    return `“${file.name}” is not a photo Dipwell can read. Choose a JPEG, PNG or WebP photo (on an iPhone, set Camera › Formats to “Most Compatible”).`;
-  }
-  if (file.size === 0) return "That file is empty. Take the photo again.";
-  if (file.size > maxBytes) return `That photo is ${mb(file.size)}; the largest Dipwell accepts is ${mb(maxBytes)}. Take it again at a lower resolution, or crop it around the strip.`;
-  return null;
+  const problem = photoProblem(file.type, file.size, maxBytes);
+  return problem ? (problem.code === "wrong_type" ? `“${file.name}”: ${problem.message}` : problem.message) : null;
 }
 
-function put(url: string, file: File, contentType: string, onProgress: (loaded: number, total: number) => void) {
+class UploadStopped extends Error {
+  constructor(public why: "cancelled" | "stalled" | "network" | "refused") {
+    super(why);
+  }
+}
+
+function put(url: string, file: File, contentType: string, onProgress: (loaded: number, total: number) => void, signal: AbortSignal) {
   return new Promise<void>((resolve, reject) => {
     const xhr = new XMLHttpRequest();
+    let stall: ReturnType<typeof setTimeout>;
+    const arm = () => {
+      clearTimeout(stall);
+      stall = setTimeout(() => {
+        reject(new UploadStopped("stalled"));
+        xhr.abort();
+      }, STALL_MS);
+    };
+    const done = (fn: () => void) => {
+      clearTimeout(stall);
+      signal.removeEventListener("abort", onAbort);
+      fn();
+    };
+    const onAbort = () => {
+      done(() => reject(new UploadStopped("cancelled")));
+      xhr.abort();
+    };
+    signal.addEventListener("abort", onAbort);
     xhr.open("PUT", url);
     xhr.setRequestHeader("Content-Type", contentType);
-    xhr.upload.onprogress = (e) => onProgress(e.loaded, e.lengthComputable ? e.total : file.size);
-    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`storage answered ${xhr.status}`)));
-    xhr.onerror = () => reject(new Error("network"));
-    xhr.onabort = () => reject(new Error("aborted"));
-    xhr.ontimeout = () => reject(new Error("timeout"));
+    xhr.upload.onprogress = (e) => {
+      arm();
+      onProgress(e.loaded, e.lengthComputable ? e.total : file.size);
+    };
+    xhr.onload = () => done(() => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new UploadStopped("refused"))));
+    xhr.onerror = () => done(() => reject(new UploadStopped("network")));
+    arm();
     xhr.send(file);
   });
 }
 
-async function postJson(url: string, body: unknown) {
-  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
+async function postJson(url: string, body: unknown, signal: AbortSignal) {
+  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body), signal });
   const json = (await res.json().catch(() => ({}))) as Record<string, unknown>;
   return { status: res.status, json };
 }
+
+const STOPPED_WORDS: Record<UploadStopped["why"], string> = {
+  cancelled: "Upload cancelled. Your photo is still here: send it when you are ready.",
+  stalled: "The upload stalled: nothing got through for 30 seconds. Your photo is still here: press “Try the upload again”, perhaps nearer the router or on mobile data.",
+  network: "The upload stopped before it finished (the connection dropped). Your photo is still here: press “Try the upload again”.",
+  refused: "Photo storage did not take the photo. Your photo is still here: press “Try the upload again”.",
+};
 
 export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxBytes: number; onRead: (readingId: string, duplicate: boolean) => void }) {
   const [file, setFile] = useState<File | null>(null);
   const [preview, setPreview] = useState<string | null>(null);
   const [phase, setPhase] = useState<Phase>({ kind: "idle" });
-  const cameraRef = useRef<HTMLInputElement>(null);
+  const abortRef = useRef<AbortController | null>(null);
+  const statusRef = useRef<HTMLDivElement>(null);
+
+  useEffect(() => () => abortRef.current?.abort(), []);
+  // Keep the progress (or the error) in view on a phone, below the photo tips.
+  useEffect(() => {
+    if (phase.kind !== "idle") statusRef.current?.scrollIntoView({ block: "center", behavior: "smooth" });
+  }, [phase.kind]);
 
   const upload = useCallback(
     async (f: File) => {
+      abortRef.current?.abort();
+      const abort = new AbortController();
+      abortRef.current = abort;
       setPhase({ kind: "uploading", loaded: 0, total: f.size });
       try {
-        const presign = await postJson(`/api/tubs/${tubId}/uploads`, { contentType: f.type, size: f.size });
+        const presign = await postJson(`/api/tubs/${tubId}/uploads`, { contentType: f.type, size: f.size }, abort.signal);
         if (presign.status !== 200) {
           setPhase({ kind: "error", message: String(presign.json.message ?? "The upload could not start. Try again."), retry: presign.status >= 500 });
           return;
         }
         const { url, key, contentType } = presign.json as { url: string; key: string; contentType: string };
-        try {
-          await put(url, f, contentType, (loaded, total) => setPhase({ kind: "uploading", loaded, total }));
-        } catch {
-          setPhase({ kind: "error", message: "The upload stopped before it finished (the connection dropped). Your photo is still here: press “Try the upload again”.", retry: true });
-          return;
-        }
-        setPhase({ kind: "reading" });
-        const reg = await postJson(`/api/tubs/${tubId}/photos`, { key });
-        if (reg.status === 200 || reg.status === 201) {
+        await put(url, f, contentType, (loaded, total) => setPhase({ kind: "uploading", loaded, total }), abort.signal);
+        setPhase({ kind: "registering" });
+        const timer = setTimeout(() => abort.abort(), REGISTER_TIMEOUT_MS);
+        const reg = await postJson(`/api/tubs/${tubId}/photos`, { key }, abort.signal).finally(() => clearTimeout(timer));
+        if (reg.status >= 200 && reg.status < 300) {
           onRead(String(reg.json.readingId), Boolean(reg.json.duplicate));
           return;
         }
         setPhase({ kind: "error", message: String(reg.json.message ?? "The photo could not be registered. Try again."), retry: reg.status === 409 || reg.status >= 500 });
-      } catch {
-        setPhase({ kind: "error", message: "Dipwell could not be reached. Check your connection, then press “Try the upload again”.", retry: true });
+      } catch (error) {
+        if (error instanceof UploadStopped) {
+          setPhase({ kind: "error", message: STOPPED_WORDS[error.why], retry: true });
+          return;
+        }
+        setPhase({
+          kind: "error",
+          message: abort.signal.aborted
+            ? "Dipwell did not answer in time. Your photo is still here: press “Try the upload again”."
+            : "Dipwell could not be reached. Check your connection, then press “Try the upload again”.",
+          retry: true,
+        });
       }
     },
     [tubId, onRead],
@@ -102,28 +152,38 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
     onDrop: (accepted, rejected) => choose(accepted[0] ?? rejected[0]?.file),
   });
 
-  const busy = phase.kind === "uploading" || phase.kind === "reading";
+  const busy = phase.kind === "uploading" || phase.kind === "registering";
   const pct = phase.kind === "uploading" && phase.total ? Math.round((phase.loaded / phase.total) * 100) : 0;
+  const pick = (testId: string, capture: boolean, label: string, primary: boolean) => (
+    <label
+      className={cx(
+        "flex min-h-14 w-full cursor-pointer items-center justify-center gap-2 rounded-xl px-5 text-lg font-bold focus-within:outline focus-within:outline-4 focus-within:outline-offset-2 focus-within:outline-well-500",
+        primary ? "bg-well-700 text-white hover:bg-well-900" : "border-2 border-well-700 bg-white text-well-900 hover:bg-well-50",
+      )}
+    >
+      <span aria-hidden>{capture ? "📷" : "🖼"}</span> {label}
+      <input
+        data-testid={testId}
+        type="file"
+        accept={PHOTO_ACCEPT}
+        {...(capture ? { capture: "environment" as const } : {})}
+        className="sr-only"
+        onChange={(e) => {
+          choose(e.target.files?.[0]);
+          e.target.value = "";
+        }}
+      />
+    </label>
+  );
 
   return (
     <div className="space-y-4">
       {!busy && (
         <>
-          <label className="flex min-h-14 w-full cursor-pointer items-center justify-center gap-2 rounded-xl bg-well-700 px-5 text-lg font-bold text-white hover:bg-well-900">
-            <span aria-hidden>📷</span> {file ? "Take a new photo" : "Take the photo"}
-            <input
-              ref={cameraRef}
-              data-testid="camera-input"
-              type="file"
-              accept="image/*"
-              capture="environment"
-              className="sr-only"
-              onChange={(e) => {
-                choose(e.target.files?.[0]);
-                e.target.value = "";
-              }}
-            />
-          </label>
+          <div className="grid gap-3 sm:grid-cols-2">
+            {pick("camera-input", true, file ? "Retake the photo" : "Take a photo", true)}
+            {pick("gallery-input", false, "Choose a photo", false)}
+          </div>
           <div
             {...getRootProps({
               className: cx(
@@ -134,41 +194,46 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
             data-testid="dropzone"
           >
             <input {...getInputProps()} data-testid="dropzone-input" />
-            <p className="font-bold">{isDragActive ? "Drop the photo here" : "Or drag the photo here, or click to pick a file"}</p>
+            <p className="font-bold">{isDragActive ? "Drop the photo here" : "Or drag the photo here"}</p>
             <p className="text-sm text-ink-soft">JPEG, PNG or WebP, up to {mb(maxBytes)}</p>
           </div>
         </>
       )}
 
+      <div ref={statusRef} className="space-y-4">
+        {phase.kind === "uploading" && (
+          <div className="space-y-2" data-testid="upload-progress">
+            <p className="font-bold" role="status">Sending the photo… {pct}%</p>
+            <div className="h-4 w-full overflow-hidden rounded-full bg-well-100" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} aria-label="Upload progress">
+              <div className="h-full rounded-full bg-well-700 transition-[width]" style={{ width: `${pct}%` }} />
+            </div>
+            <p className="text-sm text-ink-soft">
+              {mb(phase.loaded)} of {mb(phase.total)}. Keep this page open.
+            </p>
+            <Button type="button" variant="secondary" onClick={() => abortRef.current?.abort()} className="w-full sm:w-auto">
+              Cancel the upload
+            </Button>
+          </div>
+        )}
+        {phase.kind === "registering" && (
+          <Notice>
+            <span role="status" className="inline-block animate-pulse">Photo sent; handing it to the reader…</span>
+          </Notice>
+        )}
+        {phase.kind === "error" && (
+          <div className="space-y-3">
+            <Notice tone="alert">{phase.message}</Notice>
+            {phase.retry && file && (
+              <Button type="button" onClick={() => void upload(file)} className="w-full sm:w-auto">
+                Try the upload again
+              </Button>
+            )}
+          </div>
+        )}
+      </div>
+
       {preview && (
         <img src={preview} alt="The strip photo you chose" className="mx-auto max-h-56 rounded-xl border border-line object-contain" />
-      )}
-
-      {phase.kind === "uploading" && (
-        <div className="space-y-2" data-testid="upload-progress">
-          <p className="font-bold">Sending the photo… {pct}%</p>
-          <div className="h-4 w-full overflow-hidden rounded-full bg-well-100" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} aria-label="Upload progress">
-            <div className="h-full rounded-full bg-well-700 transition-[width]" style={{ width: `${pct}%` }} />
-          </div>
-          <p className="text-sm text-ink-soft">
-            {mb(phase.loaded)} of {mb(phase.total)}. Keep this page open.
-          </p>
-        </div>
-      )}
-      {phase.kind === "reading" && (
-        <Notice>
-          <span className="inline-block animate-pulse">Reading the pads…</span> this takes a few seconds.
-        </Notice>
-      )}
-      {phase.kind === "error" && (
-        <div className="space-y-3">
-          <Notice tone="alert">{phase.message}</Notice>
-          {phase.retry && file && (
-            <Button type="button" onClick={() => void upload(file)} className="w-full sm:w-auto">
-              Try the upload again
-            </Button>
-          )}
-        </div>
       )}
     </div>
   );

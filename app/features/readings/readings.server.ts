@@ -7,6 +7,9 @@ import { chartVersion, photo, reading, readingPad, treatment, tub as tubTable, u
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { PhotoError, presignPhoto, receivePhoto, thumbKey } from "~/features/photos/intake.server";
+import { appBoss } from "~/jobs/boss.server";
+import { queueRead } from "./read-job.server";
+import { READ_QUEUE } from "~/jobs/queues";
 import { headObject, putObject, readObject } from "~/lib/storage.server";
 import { csvCell } from "~/lib/csv";
 import { pageOf } from "~/lib/paging";
@@ -27,101 +30,45 @@ export type RegisterResult = { readingId: string; photoId: string; status: strin
 
 /**
  * Registers an uploaded strip photo: takes it in (size, real type, one decode, hash, the kept copy
- * under a key the browser never had), returns the existing reading for the same photo of this tub,
- * or reads it and stores the reading. The photo row is kept whatever the reader says.
+ * under a key the browser never had), then in one transaction the photo row, its reading (status
+ * "pending") and the job that reads it. Idempotent and resumable: the same photo (the same key
+ * again, or the same bytes in a new upload, at the same moment or after a crash) gives the same
+ * reading, and a reading still pending is queued again (a job already queued is not doubled).
  */
 export async function registerPhoto(user: SessionUser, t: Tub, key: string): Promise<RegisterResult> {
   const received = await receivePhoto({ tubId: t.id }, key);
-  const { sha256 } = received;
-
-  const existing = await findReadingForHash(t.id, sha256);
-  if (existing) return { ...existing, duplicate: true };
-
-  let photoRow;
-  try {
-    [photoRow] = await db
-      .insert(photo)
-      .values({ tubId: t.id, batchId: t.batchId, purpose: "strip", uploaderId: user.id, s3Key: received.s3Key, contentType: received.contentType, sizeBytes: received.sizeBytes, sha256, width: received.width, height: received.height })
-      .returning();
-  } catch (error) {
-    // The same photo registered at the same moment (a double submit): answer with that one.
-    if ((error as { code?: string; cause?: { code?: string } }).code === "23505" || (error as { cause?: { code?: string } }).cause?.code === "23505") {
-      const again = await waitForReading(t.id, sha256);
-      if (again) return { ...again, duplicate: true };
-    }
-    throw error;
-  }
-  return { ...(await readAndStore(user, t, photoRow.id, received.bytes)), duplicate: false };
-}
-
-async function findReadingForHash(tubId: string, sha256: string) {
-  const found = await db.query.photo.findFirst({ where: and(eq(photo.tubId, tubId), eq(photo.sha256, sha256)) });
-  if (!found) return null;
-  const r = await db.query.reading.findFirst({ where: eq(reading.photoId, found.id) });
-  if (!r) return null;
-  return { readingId: r.id, photoId: found.id, status: r.status };
-}
-
-async function waitForReading(tubId: string, sha256: string) {
-  for (let i = 0; i < 60; i++) {
-    const found = await findReadingForHash(tubId, sha256);
-    if (found) return found;
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  return null;
-}
-
-/** The reader's value at the precision a strip can tell apart (pH and small values to 0.1, larger to 1). */
-export function roundReading(analyte: string, v: number) {
-  const step = analyte === "ph" || Math.abs(v) < 10 ? 0.1 : 1;
-  return Math.max(0, Number((Math.round(v / step) * step).toFixed(step < 1 ? 1 : 0)));
-}
-
-async function readAndStore(user: SessionUser, t: Tub, photoId: string, bytes: Buffer) {
   const current = await currentChartFor(t);
-  const base = { tubId: t.id, photoId, batchId: t.batchId, chartVersionId: current?.version.id ?? null, createdBy: user.id };
-  if (!current) {
-    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: "This tub has no strip batch chosen, so there was no colour chart to read with. Enter the values by hand below, or choose the batch in the tub's settings." }).returning();
-    return { readingId: r.id, photoId, status: r.status };
-  }
-  let chart: StripChart;
+  const boss = await appBoss();
+  const client = await db.$client.connect();
   try {
-    chart = parseChart(current.version.definition);
-  } catch {
-    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: "The colour chart of this strip batch could not be used. Enter the values by hand below and ask your technician to check the chart." }).returning();
-    return { readingId: r.id, photoId, status: r.status };
-  }
-  try {
-    const result = await readStrip(bytes, chart, { crops: true });
-    return await db.transaction(async (tx) => {
-      const needsReview = result.pads.some((p) => p.needsReview);
-      const [r] = await tx
-        .insert(reading)
-        .values({ ...base, status: "read", needsReview, detail: { warnings: result.warnings, strip: result.strip, imageSize: result.imageSize } })
-        .returning();
-      const pads = [];
-      for (const p of result.pads) {
-        let cropKey: string | null = null;
-        if (p.crop) {
-          cropKey = `tubs/${t.id}/crops/${r.id}/${p.analyte}.webp`;
-          await putObject(cropKey, p.crop, "image/webp");
-        }
-        pads.push({
-          readingId: r.id, analyte: p.analyte, unit: p.unit, readValue: roundReading(p.analyte, p.value), confidence: p.confidence, needsReview: p.needsReview,
-          reviewReason: p.reason ?? null, lab: p.lab, swatchIndex: p.swatchIndex, cropKey, source: "auto",
-        });
-      }
-      if (pads.length) await tx.insert(readingPad).values(pads);
-      return { readingId: r.id, photoId, status: r.status };
-    });
+    await client.query("begin");
+    const inserted = await client.query<{ id: string }>(
+      `insert into photo (tub_id, batch_id, purpose, uploader_id, s3_key, content_type, size_bytes, sha256, width, height)
+       values ($1, $2, 'strip', $3, $4, $5, $6, $7, $8, $9)
+       on conflict do nothing returning id`,
+      [t.id, t.batchId, user.id, received.s3Key, received.contentType, received.sizeBytes, received.sha256, received.width, received.height],
+    );
+    const photoId =
+      inserted.rows[0]?.id ??
+      (await client.query<{ id: string }>(`select id from photo where tub_id = $1 and sha256 = $2`, [t.id, received.sha256])).rows[0]?.id;
+    if (!photoId) throw new Error("photo row neither inserted nor found");
+    const created = await client.query<{ id: string }>(
+      `insert into reading (tub_id, photo_id, batch_id, chart_version_id, status, created_by)
+       values ($1, $2, $3, $4, 'pending', $5)
+       on conflict (photo_id) do nothing returning id`,
+      [t.id, photoId, t.batchId, current?.version.id ?? null, user.id],
+    );
+    const row = created.rows[0]
+      ? { id: created.rows[0].id, status: "pending" }
+      : (await client.query<{ id: string; status: string }>(`select id, status from reading where photo_id = $1`, [photoId])).rows[0];
+    if (row.status === "pending") await queueRead(boss, row.id, (text, values) => client.query(text, values));
+    await client.query("commit");
+    return { readingId: row.id, photoId, status: row.status, duplicate: !created.rows[0] };
   } catch (error) {
-    const message =
-      error instanceof ReadingError
-        ? error.message
-        : "Something went wrong while reading the photo. Enter the values by hand below, or take a new photo.";
-    if (!(error instanceof ReadingError)) console.error("reading failed", error);
-    const [r] = await db.insert(reading).values({ ...base, status: "failed", error: message, detail: error instanceof ReadingError ? { code: error.code } : null }).returning();
-    return { readingId: r.id, photoId, status: r.status };
+    await client.query("rollback").catch(() => {});
+    throw error;
+  } finally {
+    client.release();
   }
 }
 
@@ -384,13 +331,41 @@ export async function thumbnailKey(p: { s3Key: string }) {
   }
 }
 
-export async function cropKeyFor(t: Tub, photoId: string, analyte: string) {
-  const p = await photoForTub(t, photoId);
-  if (!p) return null;
-  const r = await db.query.reading.findFirst({ where: eq(reading.photoId, p.id) });
+/** A pad's crop key, by the reading it belongs to (one query, the tub checked in it). */
+export async function cropKeyFor(t: Tub, readingId: string, analyte: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  const [row] = await db
+    .select({ key: readingPad.cropKey })
+    .from(readingPad)
+    .innerJoin(reading, eq(reading.id, readingPad.readingId))
+    .where(and(eq(readingPad.readingId, readingId), eq(reading.tubId, t.id), eq(readingPad.analyte, analyte)))
+    .limit(1);
+  return row?.key ?? null;
+}
+
+/** Where a reading stands, for the review screen while it waits: pending, then read or failed. */
+export async function readingStatus(t: Tub, readingId: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } });
   if (!r) return null;
-  const pad = await db.query.readingPad.findFirst({ where: and(eq(readingPad.readingId, r.id), eq(readingPad.analyte, analyte)) });
-  return pad?.cropKey ?? null;
+  let stage: "queued" | "reading" | "retrying" | "done" = "done";
+  let ahead = 0;
+  if (r.status === "pending") {
+    const job = await db.$client.query<{ state: string; created_on: Date }>(
+      `select state, created_on from pgboss.job where name = $1 and singleton_key = $2 order by created_on desc limit 1`,
+      [READ_QUEUE, r.id],
+    ).catch(() => ({ rows: [] as { state: string; created_on: Date }[] }));
+    const j = job.rows[0];
+    stage = j?.state === "active" ? "reading" : j?.state === "retry" || j?.state === "failed" ? "retrying" : "queued";
+    if (j && stage === "queued") {
+      const q = await db.$client.query<{ n: number }>(
+        `select count(*)::int as n from pgboss.job where name = $1 and state = 'created' and created_on < $2`,
+        [READ_QUEUE, j.created_on],
+      );
+      ahead = q.rows[0]?.n ?? 0;
+    }
+  }
+  return { id: r.id, status: r.status, stage, ahead };
 }
 
 /** The latest reading of a tub, for the tub page. */

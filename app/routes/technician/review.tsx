@@ -98,7 +98,7 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                 {r.pads.map((p) => (
                   <li key={p.id} className="flex flex-wrap items-center gap-3 py-2">
                     {p.hasCrop ? (
-                      <img src={`${base}/photos/${r.photoId}/crop/${p.analyte}`} alt={`${p.label} pad as photographed`} width={48} height={48} loading="lazy" className="h-12 w-12 rounded border border-line object-cover" />
+                      <img src={`${base}/readings/${r.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={48} height={48} loading="lazy" className="h-12 w-12 rounded border border-line object-cover" />
                     ) : (
                       <span className="h-12 w-12 rounded border border-dashed border-line" aria-hidden="true" />
                     )}

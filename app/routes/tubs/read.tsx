@@ -17,14 +17,15 @@ const WAIT_SECONDS = 15;
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub, relation } = await requireTub(user, params.tubId, "care");
-  return { tub: { id: tub.id, name: tub.name, hasBatch: Boolean(tub.batchId), archived: Boolean(tub.archivedAt) }, canEdit: relation !== "technician", maxBytes: maxPhotoBytes() };
+  return { tub: { id: tub.id, name: tub.name, hasBatch: Boolean(tub.batchId), archived: Boolean(tub.archivedAt) }, canEdit: relation !== "technician", maxBytes: maxPhotoBytes(), retake: new URL(request.url).searchParams.has("retake") };
 }
 
 type Step = "prepare" | "countdown" | "photo";
 
 export default function NewReading({ loaderData }: Route.ComponentProps) {
-  const { tub, maxBytes, canEdit } = loaderData;
-  const [step, setStep] = useState<Step>("prepare");
+  const { tub, maxBytes, canEdit, retake } = loaderData;
+  // "Retake the photo" after a failed read goes straight to the photo step.
+  const [step, setStep] = useState<Step>(retake ? "photo" : "prepare");
   const navigate = useNavigate();
   const onDone = useCallback(() => setStep("photo"), []);
   const onRead = useCallback(
@@ -73,7 +74,7 @@ export default function NewReading({ loaderData }: Route.ComponentProps) {
           )}
           {step === "photo" && (
             <Card className="space-y-4">
-              <Notice tone="ok">Time's up: photograph the strip now. Colours keep changing after a minute.</Notice>
+              {retake ? <Notice>Photograph the strip again: lay it flat in bright, even light. If more than a minute has passed since you dipped it, dip a new strip first.</Notice> : <Notice tone="ok">Time's up: photograph the strip now. Colours keep changing after a minute.</Notice>}
               <h2 className="text-xl font-bold">Photograph the strip</h2>
               <div className="grid grid-cols-[auto_1fr] items-center gap-4">
                 <StripGuide />

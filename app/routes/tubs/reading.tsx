@@ -1,7 +1,8 @@
 // Review: each pad's crop beside the chart's swatches, the read value and how sure the reader is.
 // The owner confirms, taps the right swatch or types a value; a failed read is entered by hand here.
-import { useState } from "react";
-import { data, Form, redirect, useNavigation } from "react-router";
+import { QueryClient, QueryClientProvider, useQuery } from "@tanstack/react-query";
+import { useEffect, useState } from "react";
+import { data, Form, redirect, useNavigation, useRevalidator } from "react-router";
 import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
@@ -41,7 +42,82 @@ export async function action({ context, request, params }: Route.ActionArgs) {
 
 const confidenceWords = (c: number | null) => (c === null ? "" : c >= 0.8 ? "sure" : c >= 0.6 ? "fairly sure" : "unsure");
 
-export default function ReviewReading({ loaderData, actionData }: Route.ComponentProps) {
+export default function ReviewReading(props: Route.ComponentProps) {
+  if (props.loaderData.reading.status === "pending") return <WaitForReading tubId={props.loaderData.tub.id} tubName={props.loaderData.tub.name} readingId={props.loaderData.reading.id} photoId={props.loaderData.reading.photoId} />;
+  return <Review {...props} />;
+}
+
+type ReadingState = { status: string; stage: "queued" | "reading" | "retrying" | "done"; ahead: number };
+
+/** While the worker reads the photo: the photo, where the reading stands, and the review once it is ready. */
+function WaitForReading(props: { tubId: string; tubName: string; readingId: string; photoId: string | null }) {
+  const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { retry: 3 } } }));
+  return (
+    <QueryClientProvider client={client}>
+      <ReadingProgress {...props} />
+    </QueryClientProvider>
+  );
+}
+
+function ReadingProgress({ tubId, tubName, readingId, photoId }: { tubId: string; tubName: string; readingId: string; photoId: string | null }) {
+  const revalidator = useRevalidator();
+  const [started] = useState(() => Date.now());
+  const q = useQuery({
+    queryKey: ["reading-status", tubId, readingId],
+    queryFn: async (): Promise<ReadingState> => {
+      const res = await fetch(`/api/tubs/${tubId}/readings/${readingId}`, { headers: { accept: "application/json" } });
+      if (!res.ok) throw new Error(String(res.status));
+      return res.json();
+    },
+    refetchInterval: (query) => (query.state.data && query.state.data.status !== "pending" ? false : 1000),
+  });
+  const done = q.data && q.data.status !== "pending";
+  useEffect(() => {
+    if (done && revalidator.state === "idle") void revalidator.revalidate();
+  }, [done, revalidator]);
+  const stage = q.data?.stage ?? "queued";
+  const steps = [
+    { key: "queued", label: "Photo received and kept" },
+    { key: "reading", label: "Finding the strip and reading each pad" },
+    { key: "done", label: "Ready for you to check" },
+  ];
+  const at = done ? 2 : stage === "reading" || stage === "retrying" ? 1 : 0;
+  const slow = Date.now() - started > 30_000;
+  return (
+    <div className="mx-auto max-w-2xl space-y-5">
+      <BackLink href={`/tubs/${tubId}`}>{tubName}</BackLink>
+      <PageTitle sub="Your photo is safe: Dipwell has it.">Reading your strip</PageTitle>
+      <Card className="space-y-4" data-testid="reading-progress">
+        <div role="status" aria-live="polite" className="font-bold">
+          {done
+            ? "Ready: opening the reading…"
+            : stage === "reading"
+              ? "Reading the pads…"
+              : stage === "retrying"
+                ? "The first try did not finish; Dipwell is reading it again…"
+                : q.data?.ahead
+                  ? `Waiting its turn: ${q.data.ahead} photo${q.data.ahead > 1 ? "s" : ""} ahead.`
+                  : "Waiting its turn…"}
+        </div>
+        <div className="h-3 w-full overflow-hidden rounded-full bg-well-100" role="progressbar" aria-label="Reading progress" aria-valuemin={0} aria-valuemax={2} aria-valuenow={at}>
+          <div className="h-full rounded-full bg-well-700 transition-[width]" style={{ width: `${[20, 60, 100][at]}%` }} />
+        </div>
+        <ol className="space-y-1 text-sm">
+          {steps.map((st, i) => (
+            <li key={st.key} className={cx(i <= at ? "font-bold text-ink" : "text-ink-soft")}>
+              {i < at || done ? "✓" : i === at ? "…" : "·"} {st.label}
+            </li>
+          ))}
+        </ol>
+        {q.isError && <Notice tone="caution">Dipwell could not check on the reading just now; it keeps trying. Your photo is kept.</Notice>}
+        {slow && !done && <p className="text-sm text-ink-soft">This is taking longer than usual. You can leave this page: the reading will be in the tub's history when it is ready.</p>}
+      </Card>
+      {photoId && <img src={`/tubs/${tubId}/photos/${photoId}`} alt="Your strip photo" className="mx-auto max-h-48 rounded-xl border border-line object-contain" />}
+    </div>
+  );
+}
+
+function Review({ loaderData, actionData }: Route.ComponentProps) {
   const { tub, reading, pads, duplicate, justConfirmed } = loaderData;
   const nav = useNavigation();
   const [values, setValues] = useState<Record<string, string>>(() =>
@@ -67,7 +143,8 @@ export default function ReviewReading({ loaderData, actionData }: Route.Componen
         <Notice tone="caution">
           <p className="font-bold">Dipwell could not read this photo.</p>
           <p>{reading.error}</p>
-          <p className="mt-1">Your photo is kept. Compare the strip with the colours below and tap the closest one, or <a href={`/tubs/${tub.id}/read`}>take a new photo</a>.</p>
+          <p className="mt-1">Your photo is kept. Compare the strip with the colours below and tap the closest one, or take a new photo.</p>
+          <ButtonLink variant="secondary" className="mt-2" href={`/tubs/${tub.id}/read?retake=1`}>Retake the photo</ButtonLink>
         </Notice>
       )}
       {!failed && !confirmed && (
@@ -92,7 +169,7 @@ export default function ReviewReading({ loaderData, actionData }: Route.Componen
             <Card key={p.analyte} className={cx("space-y-3", p.needsReview && p.readValue !== null && !confirmed && "border-caution")} data-testid={`pad-${p.analyte}`}>
               <div className="flex items-start gap-3">
                 {p.hasCrop && reading.photoId ? (
-                  <img src={`/tubs/${tub.id}/photos/${reading.photoId}/crop/${p.analyte}`} alt={`${p.label} pad as photographed`} width={64} height={64} className="size-16 rounded-lg border border-line" />
+                  <img src={`/tubs/${tub.id}/readings/${reading.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={64} height={64} className="size-16 rounded-lg border border-line" />
                 ) : (
                   <div className="grid size-16 place-items-center rounded-lg border border-dashed border-line text-xs text-ink-soft">no crop</div>
                 )}

@@ -1,14 +1,14 @@
-// GET /tubs/:tubId/photos/:photoId/crop/:analyte: one pad's crop as the reader saw it.
+// GET /tubs/:tubId/readings/:readingId/crops/:analyte: one pad's crop as the reader saw it.
 import { streamObject } from "~/lib/storage.server";
 import { cropKeyFor } from "~/features/readings/readings.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
-import type { Route } from "./+types/photo-crop";
+import type { Route } from "./+types/reading-crop";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const user = requireUser(context, request);
   const { tub } = await requireTub(user, params.tubId, "view");
-  const key = await cropKeyFor(tub, params.photoId, params.analyte);
+  const key = await cropKeyFor(tub, params.readingId, params.analyte);
   if (!key) return new Response("We could not find that pad.", { status: 404 });
   return streamObject(key, "image/webp");
 }

@@ -1,0 +1,110 @@
+// Reading a registered strip photo, off the request path. The registration queues one job per
+// reading (queueRead, in the registration's transaction); the worker runs readPendingReading,
+// which reads the photo with the chart version chosen at registration, writes the pad crops to
+// storage (outside any database transaction, under keys named by the reading), then in one short
+// transaction turns the reading from "pending" into "read" or "failed" and stores its pads.
+// Only a pending reading is ever written: a second run (a retried job whose first run was not
+// dead after all, a duplicate job) finds it done and writes nothing, so a photo is read into one
+// reading, once.
+import { and, eq } from "drizzle-orm";
+import type PgBoss from "pg-boss";
+import { chartVersion, photo, reading, readingPad } from "../../db/schema";
+import { READ_QUEUE } from "../../jobs/queues";
+import { db } from "../../lib/db.server";
+import { putObject, readObject } from "../../lib/storage.server";
+import { parseChart, readStrip, ReadingError, type StripChart, type StripReading } from "../../reading";
+import { cropKey } from "../photos/intake.server";
+
+export type ReadJob = { readingId: string };
+
+/** Reads a photo with a chart; the worker passes its thread pool, tests may read in process. */
+export type StripReader = (bytes: Buffer, chart: StripChart) => Promise<StripReading>;
+export const readInProcess: StripReader = (bytes, chart) => readStrip(bytes, chart, { crops: true });
+
+/** Queues the read of one reading; sent through the caller's transaction when `executeSql` is given. */
+export async function queueRead(boss: PgBoss, readingId: string, executeSql?: (text: string, values: unknown[]) => Promise<unknown>) {
+  return boss.send(READ_QUEUE, { readingId } satisfies ReadJob, {
+    singletonKey: readingId,
+    ...(executeSql ? { db: { executeSql: executeSql as never } } : {}),
+  });
+}
+
+/** The message shown when the reader itself could not run (after its retries). */
+export const COULD_NOT_READ = "We could not read this photo. Your photo is kept: type the values from the strip below, or take a new photo.";
+
+/** The reader's value at the precision a strip can tell apart (pH and small values to 0.1, larger to 1). */
+export function roundReading(analyte: string, v: number) {
+  const step = analyte === "ph" || Math.abs(v) < 10 ? 0.1 : 1;
+  return Math.max(0, Number((Math.round(v / step) * step).toFixed(step < 1 ? 1 : 0)));
+}
+
+async function fail(readingId: string, message: string, detail: object | null = null) {
+  const done = await db
+    .update(reading)
+    .set({ status: "failed", error: message, detail })
+    .where(and(eq(reading.id, readingId), eq(reading.status, "pending")))
+    .returning({ id: reading.id });
+  return done.length ? ("failed" as const) : ("already-done" as const);
+}
+
+/**
+ * Reads one pending reading's photo and stores the result. Throws on a failure worth retrying
+ * (storage down, the reader thread died); on the final attempt such a failure is stored as a
+ * failed reading instead, so the owner is never left waiting.
+ */
+export async function readPendingReading(
+  readingId: string,
+  opts: { reader?: StripReader; finalAttempt?: boolean } = {},
+): Promise<"read" | "failed" | "already-done"> {
+  const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
+  if (!r || r.status !== "pending") return "already-done";
+  try {
+    const p = r.photoId ? await db.query.photo.findFirst({ where: eq(photo.id, r.photoId) }) : null;
+    if (!p) return await fail(readingId, "The photo of this reading is no longer there. Enter the values by hand below, or take a new photo.");
+    const version = r.chartVersionId ? await db.query.chartVersion.findFirst({ where: eq(chartVersion.id, r.chartVersionId) }) : null;
+    if (!version) {
+      return await fail(readingId, "This tub has no strip batch chosen, so there was no colour chart to read with. Enter the values by hand below, or choose the batch in the tub's settings.");
+    }
+    let chart: StripChart;
+    try {
+      chart = parseChart(version.definition);
+    } catch {
+      return await fail(readingId, "The colour chart of this strip batch could not be used. Enter the values by hand below and ask your technician to check the chart.");
+    }
+    const bytes = await readObject(p.s3Key);
+    let result: StripReading;
+    try {
+      result = await (opts.reader ?? readInProcess)(bytes, chart);
+    } catch (error) {
+      if (error instanceof ReadingError) return await fail(readingId, error.message, { code: error.code });
+      throw error;
+    }
+    // Crops first, outside the transaction; their keys are the reading's, so a rerun overwrites them.
+    const pads: (typeof readingPad.$inferInsert)[] = [];
+    for (const pad of result.pads) {
+      let key: string | null = null;
+      if (pad.crop) {
+        key = cropKey(r.tubId, r.id, pad.analyte);
+        await putObject(key, pad.crop, "image/webp");
+      }
+      pads.push({
+        readingId: r.id, analyte: pad.analyte, unit: pad.unit, readValue: roundReading(pad.analyte, pad.value), confidence: pad.confidence,
+        needsReview: pad.needsReview, reviewReason: pad.reason ?? null, lab: pad.lab, swatchIndex: pad.swatchIndex, cropKey: key, source: "auto",
+      });
+    }
+    return await db.transaction(async (tx) => {
+      const done = await tx
+        .update(reading)
+        .set({ status: "read", needsReview: result.pads.some((x) => x.needsReview), detail: { warnings: result.warnings, strip: result.strip, imageSize: result.imageSize } })
+        .where(and(eq(reading.id, r.id), eq(reading.status, "pending")))
+        .returning({ id: reading.id });
+      if (!done.length) return "already-done" as const;
+      if (pads.length) await tx.insert(readingPad).values(pads).onConflictDoNothing();
+      return "read" as const;
+    });
+  } catch (error) {
+    if (!opts.finalAttempt) throw error;
+    console.error("reading failed for good", readingId, error);
+    return fail(readingId, COULD_NOT_READ, { code: "reader_failed" });
+  }
+}
