@@ -53,9 +53,7 @@ const register = (key: string) => fetch(`${APP_URL}/api/tubs/${tubId}/photos`, {
 const photos = () => db.select().from(s.photo).where(eq(s.photo.tubId, tubId));
 
 describe("the app killed mid-registration", () => {
-  // Waits for registration to become idempotent and resumable (a photo without a reading is read
-  // again on retry, or by the photo-reading job): today a retry after the kill answers 500.
-  it.skip("a retry gives one photo and one reading; nothing lost, nothing read twice", async () => {
+  it("a retry gives one photo and one reading; nothing lost, nothing read twice", async () => {
     const strip = await renderStripPhoto(asRenderChart(chartJson), { seed: 11, surface: "paper", cast: "daylight", values: { free_chlorine: 3, ph: 7.6, total_alkalinity: 80 } });
     const key = await upload(strip.jpeg);
 
@@ -64,8 +62,10 @@ describe("the app killed mid-registration", () => {
     const started = Date.now();
     while ((await photos()).length === 0 && Date.now() - started < 2_000) await sleep(10);
     const dead = await kill(stack.app);
+    // Registration is one short transaction (the reading itself is a background job), so the kill
+    // lands either while the request is in flight or just after it was answered: both must end well.
     const first = await inFlight;
-    expect(first).toBe("cut off"); // the kill came while the request was in flight
+    expect(["cut off", 200, 201]).toContain(first);
 
     // The supervisor starts the app again; the owner's retry with the same key is answered.
     await stack.app.nextStart(dead);
