@@ -8,14 +8,8 @@ import { GUIDANCE } from "./targets";
 import type { WaterInput, WaterPlan } from "./types";
 import { celsiusFromFahrenheit, displayAmount, kitchenMeasure, litresFromImperialGallons } from "./units";
 import { langelier } from "./lsi";
+import { base, doses } from "./test-water";
 
-const base: WaterInput = {
-  volumeLitres: 1500,
-  temperatureC: 38,
-  sanitiser: "chlorine",
-  readings: { free_chlorine: 3, ph: 7.5, total_alkalinity: 100, calcium_hardness: 200, cyanuric_acid: 0 },
-};
-const doses = (p: WaterPlan) => p.steps.filter((s) => s.kind === "dose");
 
 describe("units people use", () => {
   it("exact conversions (NIST Handbook 44 App. C; UK Weights and Measures Act 1985)", () => {

@@ -21,14 +21,7 @@ export interface Amount {
 export function productAmount(product: Product, gramsActive: number): Amount {
   if (!(product.strength > 0 && product.strength <= 1))
     throw new ProductError(`The product "${product.name}" needs a strength between 0 and 1 (a fraction, e.g. 0.56 for 56 %).`);
-  const gramsProduct = gramsActive / product.strength;
-  if (product.form === "liquid") {
-    const density = product.densityGPerMl ?? 1;
-    if (!(density > 0)) throw new ProductError(`The liquid "${product.name}" needs a density above 0 g/mL.`);
-    return { grams: null, millilitres: gramsProduct / density, tablets: null };
-  }
-  const tablets = product.form === "tablets" && product.tabletMassG && product.tabletMassG > 0 ? gramsProduct / product.tabletMassG : null;
-  return { grams: gramsProduct, millilitres: null, tablets };
+  return wholeProductAmount(product, gramsActive / product.strength);
 }
 
 /** Available chlorine (g Cl2) per gram of the pure active ingredient. */

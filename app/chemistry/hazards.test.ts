@@ -8,14 +8,8 @@ import { routineTopUp } from "./routines";
 import type { Product, WaterInput, WaterPlan } from "./types";
 import { validateWaterInput, WaterInputError } from "./validate";
 import { ProductError } from "./doses";
+import { base, doses } from "./test-water";
 
-const base: WaterInput = {
-  volumeLitres: 1500,
-  temperatureC: 38,
-  sanitiser: "chlorine",
-  readings: { free_chlorine: 3, ph: 7.5, total_alkalinity: 100, calcium_hardness: 200, cyanuric_acid: 0 },
-};
-const doses = (p: WaterPlan) => p.steps.filter((s) => s.kind === "dose");
 const ACID = ["sodium_bisulfate", "hydrochloric_acid"];
 const BASE = ["sodium_carbonate", "sodium_bicarbonate"];
 
