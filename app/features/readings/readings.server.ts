@@ -11,7 +11,7 @@ import { appBoss } from "~/jobs/boss.server";
 import { queueRead } from "./read-job.server";
 import { READ_QUEUE } from "~/jobs/queues";
 import { headObject, putObject, readObject } from "~/lib/storage.server";
-import { csvCell } from "~/lib/csv";
+import { csvLine } from "~/lib/csv";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tubs.server";
@@ -229,7 +229,7 @@ export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<U
         );
         analytes = found.rows.map((x) => x.analyte);
         const header = ["taken_at", "status", "confirmed_by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`])];
-        controller.enqueue(encoder.encode(header.map(csvCell).join(",") + "\r\n"));
+        controller.enqueue(encoder.encode(csvLine(header) + "\r\n"));
         return;
       }
       if (finished) return controller.close();
@@ -248,7 +248,7 @@ export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<U
           const p = r.pads?.[a];
           cells.push(p?.[0] ?? "", p?.[1] ?? "", p?.[2] ?? "");
         }
-        lines.push(cells.map(csvCell).join(","));
+        lines.push(csvLine(cells));
       }
       if (lines.length) controller.enqueue(encoder.encode(lines.join("\r\n") + "\r\n"));
       const last = batch.rows.at(-1);
