@@ -241,6 +241,8 @@ export const invitation = pgTable(
     acceptedBy: text("accepted_by").references(() => user.id, { onDelete: "set null" }),
     acceptedAt: timestamp("accepted_at", { withTimezone: true }),
     revokedAt: timestamp("revoked_at", { withTimezone: true }),
+    /** the invited technician said no */
+    declinedAt: timestamp("declined_at", { withTimezone: true }),
     expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
     createdAt: createdAt(),
   },

@@ -79,6 +79,18 @@ describe("calibrating a chart from a photo", () => {
     // A white area dragged onto a swatch is refused in plain words, and nothing is saved.
     const { corners, white } = photo.layout;
     for (let i = 0; i < 4; i++) await drag(page, `grid-corner-${i}`, corners[i], size);
+    // The same corners move with the keyboard: Tab to one, Shift+arrow moves it, the opposite arrow brings it back.
+    const gridValue = async () => (JSON.parse(await page.locator('input[name="grid"]').inputValue()) as { corners: [number, number][] }).corners[0];
+    const before = await gridValue();
+    const corner = page.getByTestId("grid-corner-0");
+    await corner.focus();
+    expect(await corner.getAttribute("aria-label")).toMatch(/Swatch grid corner 1 \(top-left\).*arrow keys/);
+    await page.keyboard.press("Shift+ArrowRight");
+    const moved = await gridValue();
+    expect(moved[0]).toBeGreaterThan(before[0]);
+    expect(moved[1]).toBe(before[1]);
+    await page.keyboard.press("Shift+ArrowLeft");
+    expect(await gridValue()).toEqual(before);
     // The centre of the pH pad's 7.6 swatch (row 2, column 4), by the grid's own corners.
     const bil = (u: number, v: number): [number, number] => {
       const top = [corners[0][0] + (corners[1][0] - corners[0][0]) * u, corners[0][1] + (corners[1][1] - corners[0][1]) * u];

@@ -222,7 +222,12 @@ describe("admin: users and roles", () => {
     expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: admin.id, role: "owner" } })).status).toBe(400);
     expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: target.id, role: "technician" } })).status).toBe(302);
     expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.role).toBe("technician");
-    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "ban", userId: target.id } })).status).toBe(302);
+    // A ban needs a reason and a confirmation; without them nothing changes.
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "ban", userId: target.id } })).status).toBe(400);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "ban", userId: target.id, reason: "Spam sign-ups" } })).status).toBe(400);
+    expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.banned).toBe(false);
+    expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "ban", userId: target.id, reason: "Spam sign-ups", confirm: "yes" } })).status).toBe(302);
+    expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.banReason).toBe("Spam sign-ups");
     expect(await auth.api.getSession({ headers: new Headers({ cookie: target.cookie }) })).toBeNull();
     expect((await db.query.user.findFirst({ where: eq(s.user.id, target.id) }))!.banned).toBe(true);
     expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "unban", userId: target.id } })).status).toBe(302);

@@ -4,6 +4,9 @@
 import { useEffect, useRef, useState } from "react";
 
 type Pt = [number, number];
+
+const CORNER_NAMES = ["top-left", "top-right", "bottom-right", "bottom-left"];
+const ARROWS: Record<string, Pt> = { ArrowLeft: [-1, 0], ArrowRight: [1, 0], ArrowUp: [0, -1], ArrowDown: [0, 1] };
 type Quad = [Pt, Pt, Pt, Pt];
 
 function lerp(a: Pt, b: Pt, t: number): Pt {
@@ -46,6 +49,17 @@ export function GridOverlay({ src, width, height, rows, cols, initialGrid, initi
         stroke={which === "grid" ? "#0f5c54" : "#a05a00"}
         strokeWidth={Math.max(width, height) * 0.003}
         style={{ cursor: "grab", touchAction: "none" }}
+        tabIndex={0}
+        role="button"
+        aria-roledescription="movable corner"
+        aria-label={`${which === "grid" ? "Swatch grid" : "White area"} corner ${i + 1} (${CORNER_NAMES[i]}), at ${Math.round(p[0])}, ${Math.round(p[1])}. Arrow keys move it; hold Shift for bigger steps.`}
+        onKeyDown={(e) => {
+          const dir = ARROWS[e.key];
+          if (!dir) return;
+          e.preventDefault();
+          const step = Math.max(1, Math.round(Math.max(width, height) / 400)) * (e.shiftKey ? 10 : 1);
+          (which === "grid" ? setGrid : setWhite)((q) => q.map((v, j) => (j === i ? [Math.min(width, Math.max(0, v[0] + dir[0] * step)), Math.min(height, Math.max(0, v[1] + dir[1] * step))] : v)) as Quad);
+        }}
         onPointerDown={(e) => {
           (e.target as Element).setPointerCapture?.(e.pointerId);
           drag.current = { which, i };
@@ -92,7 +106,7 @@ export function GridOverlay({ src, width, height, rows, cols, initialGrid, initi
         </svg>
       </div>
       <p className="text-sm text-ink-soft">
-        Drag the four green corners onto the outer corners of the swatch grid (top-left, top-right, bottom-right, bottom-left: first pad's first value at the top left). Drag the orange area onto blank white card: it is the light reference.
+        Drag the four green corners onto the outer corners of the swatch grid (top-left, top-right, bottom-right, bottom-left: first pad's first value at the top left). Drag the orange area onto blank white card: it is the light reference. With a keyboard, Tab to a corner and move it with the arrow keys (Shift for bigger steps).
       </p>
       {off && <p role="alert" className="text-sm font-bold text-alert">A corner lies outside the photo. Drag it back onto the photo.</p>}
     </div>

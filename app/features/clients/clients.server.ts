@@ -3,7 +3,7 @@
 import { randomBytes } from "node:crypto";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { resolveTargets, type Parameter, type Range } from "~/chemistry";
-import { chartVersion, invitation, reading, readingPad, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
+import { chartVersion, invitation, notification, reading, readingPad, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
@@ -38,7 +38,8 @@ export async function sharingFor(t: Tub) {
     .select()
     .from(invitation)
     .where(and(eq(invitation.tubId, t.id), isNull(invitation.revokedAt), isNull(invitation.acceptedAt)))
-    .orderBy(desc(invitation.createdAt));
+    .orderBy(desc(invitation.createdAt))
+    .limit(50);
   return { access, invites };
 }
 
@@ -46,7 +47,7 @@ export async function inviteTechnician(owner: SessionUser, t: Tub, emailIn: stri
   const email = emailIn.trim().toLowerCase();
   if (!/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(email)) throw new ClientInputError("Enter the technician's e-mail address, e.g. name@example.com.");
   if (email === owner.email.toLowerCase()) throw new ClientInputError("That is your own address. Enter the technician's e-mail address.");
-  const pending = await db.query.invitation.findFirst({ where: and(eq(invitation.tubId, t.id), eq(invitation.email, email), isNull(invitation.revokedAt), isNull(invitation.acceptedAt)) });
+  const pending = await db.query.invitation.findFirst({ where: and(eq(invitation.tubId, t.id), eq(invitation.email, email), isNull(invitation.revokedAt), isNull(invitation.acceptedAt), isNull(invitation.declinedAt)) });
   if (pending && pending.expiresAt > new Date()) throw new ClientInputError(`${email} has already been invited to this tub. Withdraw that invitation first to send a new one.`);
   const token = randomBytes(24).toString("base64url");
   const [row] = await db
@@ -77,7 +78,7 @@ export async function loadInvitation(token: string | undefined) {
   if (!inv) return null;
   const t = await db.query.tub.findFirst({ where: eq(tub.id, inv.tubId) });
   const owner = t ? await db.query.user.findFirst({ where: eq(userTable.id, t.ownerId) }) : null;
-  const state = inv.revokedAt ? "withdrawn" : inv.acceptedAt ? "accepted" : inv.expiresAt < new Date() ? "expired" : "open";
+  const state = inv.revokedAt ? "withdrawn" : inv.declinedAt ? "declined" : inv.acceptedAt ? "accepted" : inv.expiresAt < new Date() ? "expired" : "open";
   return { inv, tub: t, ownerName: owner?.name ?? "", state } as const;
 }
 
@@ -85,6 +86,7 @@ export async function acceptInvitation(user: SessionUser, token: string | undefi
   const found = await loadInvitation(token);
   if (!found || !found.tub) throw new ClientInputError("This invitation does not exist. Ask the tub's owner to invite you again.", 404);
   if (found.state === "withdrawn") throw new ClientInputError("The owner has withdrawn this invitation.");
+  if (found.state === "declined") throw new ClientInputError("This invitation was declined. Ask the tub's owner to invite you again.");
   if (found.state === "expired") throw new ClientInputError("This invitation has expired. Ask the tub's owner to invite you again.");
   if (found.state === "accepted") {
     if (found.inv.acceptedBy === user.id) return found.tub;
@@ -97,6 +99,33 @@ export async function acceptInvitation(user: SessionUser, token: string | undefi
     const active = await tx.query.tubAccess.findFirst({ where: and(eq(tubAccess.tubId, found.tub!.id), eq(tubAccess.technicianId, user.id), isNull(tubAccess.revokedAt)) });
     if (!active) await tx.insert(tubAccess).values({ tubId: found.tub!.id, technicianId: user.id, grantedBy: found.inv.invitedBy });
     await tx.update(invitation).set({ acceptedAt: new Date(), acceptedBy: user.id }).where(eq(invitation.id, found.inv.id));
+  });
+  return found.tub;
+}
+
+/**
+ * The invited person says no: the invitation closes, the owner finds it marked declined on the
+ * sharing page and gets a notification. Only the invited address may decline.
+ */
+export async function declineInvitation(user: SessionUser, token: string | undefined) {
+  const found = await loadInvitation(token);
+  if (!found || !found.tub) throw new ClientInputError("This invitation does not exist.", 404);
+  if (found.state === "declined") return found.tub;
+  if (found.state !== "open") throw new ClientInputError(found.state === "accepted" ? "This invitation has already been accepted; the tub's owner can end the access from the tub's sharing page." : found.state === "expired" ? "This invitation has expired, so there is nothing to decline." : "The owner has withdrawn this invitation, so there is nothing to decline.");
+  if (user.email.toLowerCase() !== found.inv.email.toLowerCase())
+    throw new ClientInputError(`This invitation was sent to ${found.inv.email}, but you are signed in as ${user.email}. Only the invited address can decline it.`, 403);
+  const now = new Date();
+  await db.transaction(async (tx) => {
+    await tx.update(invitation).set({ declinedAt: now }).where(and(eq(invitation.id, found.inv.id), isNull(invitation.declinedAt)));
+    await tx
+      .insert(notification)
+      .values({
+        userId: found.inv.invitedBy, tubId: found.tub!.id, kind: "invitation_declined",
+        title: `${found.inv.email} declined to look after “${found.tub!.name}”`,
+        body: "You can invite another technician from the tub's sharing page.",
+        link: `/tubs/${found.tub!.id}/sharing`, dedupeKey: `invitation-declined:${found.inv.id}`,
+      })
+      .onConflictDoNothing();
   });
   return found.tub;
 }
@@ -356,7 +385,7 @@ export async function markReviewed(user: SessionUser, readingId: string, correct
 
 export async function notesFor(t: Tub) {
   return db
-    .select({ id: visitNote.id, body: visitNote.body, visitedAt: visitNote.visitedAt, author: userTable.name })
+    .select({ id: visitNote.id, body: visitNote.body, visitedAt: visitNote.visitedAt, authorId: visitNote.authorId, author: userTable.name })
     .from(visitNote)
     .leftJoin(userTable, eq(userTable.id, visitNote.authorId))
     .where(eq(visitNote.tubId, t.id))
@@ -365,6 +394,25 @@ export async function notesFor(t: Tub) {
 
 export async function addNote(user: SessionUser, t: Tub, body: string, visitedAt: Date) {
   await db.insert(visitNote).values({ tubId: t.id, authorId: user.id, body, visitedAt });
+}
+
+/** A note of this tub that the user may change: their own, or any note for an admin. */
+async function changeableNote(user: SessionUser, t: Tub, noteId: string) {
+  if (!UUID.test(noteId)) throw new ClientInputError("We could not find that visit note.", 404);
+  const n = await db.query.visitNote.findFirst({ where: and(eq(visitNote.id, noteId), eq(visitNote.tubId, t.id)) });
+  if (!n) throw new ClientInputError("We could not find that visit note. It may have been deleted.", 404);
+  if (n.authorId !== user.id && !hasRole(user, "admin")) throw new ClientInputError("Only the person who wrote a visit note can change or delete it.", 403);
+  return n;
+}
+
+export async function updateNote(user: SessionUser, t: Tub, noteId: string, body: string, visitedAt: Date | null) {
+  const n = await changeableNote(user, t, noteId);
+  await db.update(visitNote).set({ body, visitedAt: visitedAt ?? n.visitedAt }).where(eq(visitNote.id, n.id));
+}
+
+export async function deleteNote(user: SessionUser, t: Tub, noteId: string) {
+  const n = await changeableNote(user, t, noteId);
+  await db.delete(visitNote).where(eq(visitNote.id, n.id));
 }
 
 

@@ -11,15 +11,32 @@ import type { Tub } from "~/lib/tubs.server";
 
 export const parameterLabel = parameterName;
 
-/** Strip batches an owner can choose from: every batch with a current chart version. */
-export async function listBatches() {
+/** Today's date (YYYY-MM-DD, UTC) for "use by" checks: a batch may be used through its use-by day. */
+export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
+
+export function batchExpired(expiresOn: string | null | undefined, now = new Date()) {
+  return Boolean(expiresOn && expiresOn < todayIso(now));
+}
+
+/**
+ * Strip batches an owner can choose from: every batch with a current chart version that is
+ * still in date. Expired batches are not offered, except the one the tub uses now (`keep`), which
+ * is listed flagged so the owner sees why to change it.
+ */
+export async function listBatches(opts: { keep?: string | null } = {}) {
   const rows = await db
     .select({ id: stripBatch.id, lot: stripBatch.lot, expiresOn: stripBatch.expiresOn, chartName: stripChart.name, currentVersionId: stripBatch.currentVersionId })
     .from(stripBatch)
     .innerJoin(stripChart, eq(stripChart.id, stripBatch.chartId))
     .where(isNull(stripChart.archivedAt))
     .orderBy(asc(stripChart.name), asc(stripBatch.lot));
-  return rows.filter((r) => r.currentVersionId).map((r) => ({ id: r.id, label: `${r.chartName} · lot ${r.lot}${r.expiresOn ? ` · use by ${r.expiresOn}` : ""}` }));
+  return rows
+    .filter((r) => r.currentVersionId && (!batchExpired(r.expiresOn) || r.id === opts.keep))
+    .map((r) => ({
+      id: r.id,
+      expired: batchExpired(r.expiresOn),
+      label: `${r.chartName} · lot ${r.lot}${r.expiresOn ? (batchExpired(r.expiresOn) ? ` · EXPIRED ${r.expiresOn}: choose a new batch` : ` · use by ${r.expiresOn}`) : ""}`,
+    }));
 }
 
 /** The chart version a tub's readings use now, or null when no batch is chosen. */
@@ -72,7 +89,7 @@ const tubForm = z.object({
 
 export type TubFormErrors = Partial<Record<string, string>>;
 
-export async function parseTubForm(form: FormData) {
+export async function parseTubForm(form: FormData, opts: { currentBatchId?: string | null } = {}) {
   const parsed = tubForm.safeParse(Object.fromEntries(form));
   if (!parsed.success) {
     const fields: TubFormErrors = {};
@@ -99,8 +116,11 @@ export async function parseTubForm(form: FormData) {
   }
   if (Object.keys(fields).length) return { ok: false as const, fields };
   if (v.batchId) {
-    const batches = await listBatches();
-    if (!batches.some((b) => b.id === v.batchId)) return { ok: false as const, fields: { batchId: "Choose a strip batch from the list." } };
+    const batches = await listBatches({ keep: opts.currentBatchId });
+    if (!batches.some((b) => b.id === v.batchId)) {
+      const expired = await db.query.stripBatch.findFirst({ where: eq(stripBatch.id, v.batchId) });
+      return { ok: false as const, fields: { batchId: expired && batchExpired(expired.expiresOn) ? "Those strips are past their use-by date, so their colours can no longer be trusted. Choose a batch that is in date." : "Choose a strip batch from the list." } };
+    }
   }
   let shape: Record<string, unknown> | null = null;
   if (v.shape && v.depth) {

@@ -1,5 +1,5 @@
 import { data, redirect } from "react-router";
-import { Button, Card, Notice, PageTitle, Select } from "~/components/ui";
+import { Button, Card, Field, Notice, PageTitle, Select, TextArea } from "~/components/ui";
 import { ClientInputError } from "~/features/clients/clients.server";
 import { listUsers, setBanned, setRole } from "~/features/clients/users.server";
 import { Pager, withParams } from "~/components/Pager";
@@ -25,7 +25,13 @@ export async function action({ context, request }: Route.ActionArgs) {
   const userId = String(fd.get("userId") ?? "");
   try {
     if (intent === "role") await setRole(admin, userId, String(fd.get("role") ?? ""));
-    else if (intent === "ban") await setBanned(admin, userId, true, String(fd.get("reason") ?? ""));
+    else if (intent === "ban") {
+      // A ban ends every session of the account at once: it needs a reason and a confirmation.
+      const reason = String(fd.get("reason") ?? "").trim();
+      if (reason.length < 3 || reason.length > 500) return data({ userId, intent, form: "Write why the account is banned (3 to 500 characters); the reason is kept with the ban." }, { status: 400 });
+      if (fd.get("confirm") !== "yes") return data({ userId, intent, reason, form: "Tick the box to confirm the ban: the person is signed out everywhere at once." }, { status: 400 });
+      await setBanned(admin, userId, true, reason);
+    }
     else if (intent === "unban") await setBanned(admin, userId, false);
     else return data({ userId, form: "Unknown action." }, { status: 400 });
   } catch (e) {
@@ -37,11 +43,11 @@ export async function action({ context, request }: Route.ActionArgs) {
 
 export default function AdminUsers({ loaderData, actionData }: Route.ComponentProps) {
   const { users, me, q, page } = loaderData;
-  const a = actionData as { userId?: string; form?: string } | undefined;
+  const a = actionData as { userId?: string; intent?: string; reason?: string; form?: string } | undefined;
   return (
     <div className="space-y-5">
       <PageTitle sub="Accounts, their roles, and bans.">Users</PageTitle>
-      {a?.form && <Notice tone="alert">{a.form}</Notice>}
+      {a?.form && a.intent !== "ban" && <Notice tone="alert">{a.form}</Notice>}
       <form method="get" role="search" className="flex flex-wrap items-end gap-2">
         <label className="flex min-w-56 flex-1 flex-col text-sm font-bold">
           Find a user by name or e-mail
@@ -73,11 +79,30 @@ export default function AdminUsers({ loaderData, actionData }: Route.ComponentPr
                     </Select>
                     <Button type="submit" variant="secondary">Set role</Button>
                   </form>
-                  <form method="post">
-                    <input type="hidden" name="intent" value={u.banned ? "unban" : "ban"} />
-                    <input type="hidden" name="userId" value={u.id} />
-                    <Button type="submit" variant={u.banned ? "secondary" : "danger"}>{u.banned ? "Lift ban" : "Ban"}</Button>
-                  </form>
+                  {u.banned ? (
+                    <form method="post">
+                      <input type="hidden" name="intent" value="unban" />
+                      <input type="hidden" name="userId" value={u.id} />
+                      <Button type="submit" variant="secondary">Lift ban</Button>
+                    </form>
+                  ) : (
+                    <details className="w-full" open={a?.userId === u.id && a?.intent === "ban"} data-testid="ban">
+                      <summary className="inline-flex min-h-12 cursor-pointer items-center rounded-full px-4 font-bold text-alert hover:bg-alert-soft">Ban…</summary>
+                      <form method="post" className="mt-3 space-y-3">
+                        <input type="hidden" name="intent" value="ban" />
+                        <input type="hidden" name="userId" value={u.id} />
+                        {a?.userId === u.id && a.form && <Notice tone="alert">{a.form}</Notice>}
+                        <Field label={`Why is ${u.email} banned?`} hint="Kept with the ban and shown to admins.">
+                          <TextArea name="reason" rows={2} required minLength={3} maxLength={500} defaultValue={a?.userId === u.id ? a.reason : undefined} />
+                        </Field>
+                        <label className="flex items-start gap-2">
+                          <input type="checkbox" name="confirm" value="yes" required className="mt-1 size-5 accent-alert" />
+                          <span>I understand: {u.name} is signed out everywhere at once and cannot sign in until the ban is lifted.</span>
+                        </label>
+                        <Button type="submit" variant="danger">Ban this account</Button>
+                      </form>
+                    </details>
+                  )}
                 </>
               )}
             </Card>

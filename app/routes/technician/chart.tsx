@@ -6,6 +6,7 @@ import { addBatch, ChartInputError, loadChart, saveVersion, SOURCES, updateBatch
 import { requireChartRole } from "~/features/charts/guard.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
+import { batchExpired } from "~/features/tubs/tubs.server";
 import type { Route } from "./+types/chart";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.chart.name ?? "Chart"} · Dipwell` }];
@@ -18,7 +19,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const current = versions.find((v) => v.id === batch?.currentVersionId) ?? versions[0] ?? null;
   return {
     chart: { id: chart.id, name: chart.name },
-    batches: batches.map((b) => ({ id: b.id, lot: b.lot, expiresOn: b.expiresOn, currentVersion: versions.find((v) => v.id === b.currentVersionId)?.version ?? null })),
+    batches: batches.map((b) => ({ id: b.id, lot: b.lot, expiresOn: b.expiresOn, expired: batchExpired(b.expiresOn), currentVersion: versions.find((v) => v.id === b.currentVersionId)?.version ?? null })),
     batchId: batch?.id ?? null,
     versions: versions.map((v) => ({ id: v.id, version: v.version, source: SOURCES[v.source as keyof typeof SOURCES] ?? v.source, note: v.note, createdAt: v.createdAt.toISOString(), when: timeWords(request).own(v.createdAt), batchLot: batches.find((b) => b.id === v.batchId)?.lot ?? null })),
     current: current ? { id: current.id, version: current.version, definition: current.definition as EditChart } : null,
@@ -100,6 +101,9 @@ export default function ChartPage({ loaderData, actionData }: Route.ComponentPro
                 version {b.currentVersion ?? "–"}
                 {b.expiresOn ? ` · expires ${b.expiresOn}` : " · no expiry date"}
               </span>
+              {b.expired && (
+                <span data-testid="batch-expired" className="rounded-full bg-alert-soft px-2 py-0.5 text-sm font-bold text-alert">Expired: no longer offered to owners</span>
+              )}
               <ButtonLink variant="quiet" href={`/charts/${chart.id}/batches/${b.id}/calibrate`}>Calibrate</ButtonLink>
             </li>
           ))}

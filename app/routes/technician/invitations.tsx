@@ -1,6 +1,6 @@
 import { data, redirect } from "react-router";
 import { Button, Card, Notice, PageTitle } from "~/components/ui";
-import { acceptInvitation, ClientInputError, loadInvitation } from "~/features/clients/clients.server";
+import { acceptInvitation, ClientInputError, declineInvitation, loadInvitation } from "~/features/clients/clients.server";
 import { requireUser } from "~/lib/session.server";
 import type { Route } from "./+types/invitations";
 
@@ -15,7 +15,12 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 
 export async function action({ context, request, params }: Route.ActionArgs) {
   const user = requireUser(context, request);
+  const intent = String((await request.formData()).get("intent") ?? "accept");
   try {
+    if (intent === "decline") {
+      await declineInvitation(user, params.token);
+      return redirect(`/invitations/${params.token}`);
+    }
     const t = await acceptInvitation(user, params.token);
     return redirect(`/tubs/${t.id}`);
   } catch (e) {
@@ -36,11 +41,15 @@ export default function Invitation({ loaderData, actionData }: Route.ComponentPr
           <form method="post" className="space-y-3">
             {a?.form && <Notice tone="alert">{a.form}</Notice>}
             <p className="text-sm text-ink-soft">You are signed in as {signedInAs}.</p>
-            <Button type="submit">Accept the invitation</Button>
+            <div className="flex flex-wrap gap-3">
+              <Button type="submit" name="intent" value="accept">Accept the invitation</Button>
+              <Button type="submit" name="intent" value="decline" variant="secondary">Decline</Button>
+            </div>
+            <p className="text-sm text-ink-soft">If you decline, {ownerName || "the owner"} is told, and can invite someone else.</p>
           </form>
         ) : (
           <Notice tone="caution">
-            {state === "accepted" ? "This invitation has already been accepted." : state === "expired" ? "This invitation has expired. Ask the owner to invite you again." : "The owner has withdrawn this invitation."}
+            {state === "accepted" ? "This invitation has already been accepted." : state === "declined" ? "You declined this invitation. The owner has been told." : state === "expired" ? "This invitation has expired. Ask the owner to invite you again." : "The owner has withdrawn this invitation."}
           </Notice>
         )}
       </Card>

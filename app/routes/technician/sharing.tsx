@@ -16,7 +16,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   return {
     tub: { id: tub.id, name: tub.name },
     access: access.map((x) => ({ id: x.id, name: x.name, email: x.email, since: x.createdAt.toISOString(), sinceWhen: timeWords(request).ownDate(x.createdAt) })),
-    invites: invites.map((i) => ({ id: i.id, email: i.email, expiresAt: i.expiresAt.toISOString(), expiresWhen: timeWords(request).ownDate(i.expiresAt), expired: i.expiresAt < new Date() })),
+    invites: invites.map((i) => ({ id: i.id, email: i.email, expiresAt: i.expiresAt.toISOString(), expiresWhen: timeWords(request).ownDate(i.expiresAt), expired: i.expiresAt < new Date(), declined: Boolean(i.declinedAt) })),
     sent: new URL(request.url).searchParams.get("sent"),
   };
 }
@@ -75,11 +75,11 @@ export default function Sharing({ loaderData, actionData }: Route.ComponentProps
             {invites.map((i) => (
               <li key={i.id} className="flex flex-wrap items-center gap-3 py-2">
                 <span>{i.email}</span>
-                <span className="text-sm text-ink-soft">{i.expired ? "expired" : <>until <LocalTime at={i.expiresAt} text={i.expiresWhen} date /></>}</span>
+                <span className={i.declined ? "text-sm font-bold text-caution" : "text-sm text-ink-soft"}>{i.declined ? "declined" : i.expired ? "expired" : <>until <LocalTime at={i.expiresAt} text={i.expiresWhen} date /></>}</span>
                 <form method="post" className="ml-auto">
                   <input type="hidden" name="intent" value="withdraw" />
                   <input type="hidden" name="id" value={i.id} />
-                  <Button variant="secondary" type="submit">Withdraw</Button>
+                  <Button variant="secondary" type="submit">{i.declined ? "Clear" : "Withdraw"}</Button>
                 </form>
               </li>
             ))}

@@ -1,7 +1,7 @@
 import { UnconfirmedMark, ValueTile } from "~/components/status";
 import { ButtonLink, Card, EmptyState, Notice, PageTitle, BackLink } from "~/components/ui";
 import { latestReading } from "~/features/readings/readings.server";
-import { currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
+import { batchExpired, currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
 import { db } from "~/lib/db.server";
 import { requireUser } from "~/lib/session.server";
 import { requireTub } from "~/lib/tubs.server";
@@ -24,6 +24,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
     tub: {
       id: tub.id, name: tub.name, volume: displayVolume(tub), sanitiser: tub.sanitiser, timeZone: tub.timeZone, archived: Boolean(tub.archivedAt),
       strips: current ? `${chart?.name ?? "Strip chart"} · lot ${current.batch.lot}` : null,
+      stripsExpiredOn: current && batchExpired(current.batch.expiresOn) ? current.batch.expiresOn : null,
     },
     targets: tubTargets(tub),
     latest: await latestReading(tub),
@@ -43,6 +44,12 @@ export default function TubDetail({ loaderData }: Route.ComponentProps) {
       {notice && <Notice tone="ok">{notice}</Notice>}
       {tub.archived && <Notice tone="caution">This tub is archived. Its history is kept; restore it from the settings to use it again.</Notice>}
       <PageTitle sub={`${tub.volume} · ${tub.sanitiser === "chlorine" ? "Chlorine" : "Bromine"}${tub.strips ? ` · ${tub.strips}` : ""}`}>{tub.name}</PageTitle>
+      {tub.stripsExpiredOn && (
+        <Notice tone="caution">
+          <span data-testid="strips-expired">The test strips in use (lot {tub.strips?.split(" · lot ")[1]}) passed their use-by date on {tub.stripsExpiredOn}. Old strips can read wrong, so Dipwell no longer offers that batch.</span>{" "}
+          {relation === "owner" || relation === "admin" ? <a href={`${base}/edit`}>Choose an in-date batch in the tub settings.</a> : "Ask the owner to choose an in-date batch."}
+        </Notice>
+      )}
       {!tub.strips && (
         <Notice tone="caution">
           Choose the test strips you use in the <a href={`${base}/edit`}>tub settings</a> so Dipwell can read your photos.

@@ -15,7 +15,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const units = await userUnits(user.id);
   const volume = tub.volumeUnit === "USgal" ? tub.volumeLitres / 3.785411784 : tub.volumeUnit === "UKgal" ? tub.volumeLitres / 4.54609 : tub.volumeLitres;
   return {
-    batches: await listBatches(),
+    batches: await listBatches({ keep: tub.batchId }),
     tub: {
       id: tub.id, archived: Boolean(tub.archivedAt),
       initial: { name: tub.name, volume: String(Math.round(volume)), volumeUnit: (tub.volumeUnit === "USgal" || tub.volumeUnit === "UKgal" ? tub.volumeUnit : "L") as "L" | "USgal" | "UKgal", sanitiser: tub.sanitiser, batchId: tub.batchId ?? "", timeZone: tub.timeZone, setTemperature: String(units === "us" ? Math.round((tub.temperatureC * 9) / 5 + 32) : tub.temperatureC), temperatureUnit: (units === "us" ? "F" : "C") as "C" | "F", bathersPerDay: String(tub.bathersPerDay), guidance: tub.guidance as "us_home" | "us_public" | "uk" },
@@ -32,7 +32,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
     await setArchived(tub.id, intent === "archive");
     return redirect(intent === "archive" ? "/tubs?archived=1" : `/tubs/${tub.id}`);
   }
-  const parsed = await parseTubForm(form);
+  const parsed = await parseTubForm(form, { currentBatchId: tub.batchId });
   if (!parsed.ok) return data({ fields: parsed.fields, form: "A few answers need another look: each one says what to change. Nothing is saved yet." }, { status: 400 });
   const { shape, ...rest } = parsed.values;
   await updateTub(tub.id, shape ? { ...rest, shape } : rest);
