@@ -84,7 +84,7 @@ describe("calibrating a chart from a photo", () => {
     const before = await gridValue();
     const corner = page.getByTestId("grid-corner-0");
     await corner.focus();
-    expect(await corner.getAttribute("aria-label")).toMatch(/Swatch grid corner 1 \(top-left\).*arrow keys/);
+    expect(await corner.getAttribute("aria-label")).toMatch(/Swatch grid corner 1 \(top-left\).*arrow keys/i);
     await page.keyboard.press("Shift+ArrowRight");
     const moved = await gridValue();
     expect(moved[0]).toBeGreaterThan(before[0]);

@@ -94,7 +94,7 @@ export default function Notes({ loaderData, actionData }: Route.ComponentProps) 
       {canWrite && (
         <Card>
           <h2 className="mb-3 text-lg font-bold">New note</h2>
-          <form method="post" className="space-y-4">
+          <form method="post" className="space-y-4" noValidate>
             <input type="hidden" name="intent" value="add" />
             <Field label="Note" error={adding ? a?.fields?.body : undefined}>
               <TextArea name="body" rows={4} defaultValue={adding ? a?.body : undefined} />
@@ -121,7 +121,7 @@ export default function Notes({ loaderData, actionData }: Route.ComponentProps) 
                     <div className="flex flex-wrap gap-2">
                       <details className="w-full" open={Boolean(mineFailed)}>
                         <summary className="inline-flex min-h-10 cursor-pointer items-center rounded-full px-3 font-bold text-well-700 hover:bg-well-50">Edit this note</summary>
-                        <form method="post" className="mt-2 space-y-3">
+                        <form method="post" className="mt-2 space-y-3" noValidate>
                           <input type="hidden" name="intent" value="edit" />
                           <input type="hidden" name="noteId" value={n.id} />
                           <Field label="Note" error={mineFailed?.fields?.body}>
