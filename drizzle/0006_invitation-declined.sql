@@ -1,0 +1,1 @@
+ALTER TABLE "invitation" ADD COLUMN "declined_at" timestamp with time zone;
