@@ -1,15 +1,15 @@
 // Strip reading: photo + colour chart -> one reading per analyte.
 //
 // decode once (EXIF orientation, pixel cap, shrink-on-load to the working size)
-// -> find the strip and place its pads (detect.ts)
+// -> find the strip and place its pads (locate.ts and the modules it calls; see README.md)
 // -> sample each pad's inner 60 % in linear light, glare and clipping rejected, white-corrected
-//    from the bare plastic on both sides of it (measure-pads.ts)
+//    from the bare plastic on both sides of it, von Kries per linear channel (measure-pads.ts)
 // -> CIELAB D65 -> CIEDE2000 match along the analyte's colour path; an analyte on several pads
 //    is matched jointly along their joint path (joint-match.ts) -> one value and one confidence.
 import type { ChartPad, StripChart } from "./chart";
 import { ChartError, parseChart } from "./chart";
-import { hexToRgb, labToHex, srgbToLinear, whiteCorrectionMatrix, type Lab } from "./colour";
-import { locateStrip } from "./detect";
+import { labToHex, type Lab } from "./colour";
+import { locateStrip } from "./locate";
 import { ReadingError, cropPad, cropStrip, decodePhoto } from "./image";
 import { analyteGroups, matchJoint } from "./joint-match";
 import { matchSwatches } from "./match";
@@ -81,16 +81,6 @@ export type ReadOptions = {
   /** Receives the engine's diagnostics, one line each (the read-strip command's --trace). */
   trace?: (line: string) => void;
 };
-
-/**
- * White-reference light correction: measured bare plastic (linear RGB) -> the chart's
- * strip colour. Returns a 3×3 matrix for linear RGB (Bradford / von Kries).
- */
-export function stripWhiteCorrection(measuredLinear: readonly number[], stripHex: string) {
-  const known = hexToRgb(stripHex).map(srgbToLinear);
-  return whiteCorrectionMatrix(measuredLinear, known);
-}
-
 
 /** Refuses a photo where no strip of this chart shows: bare plastic or alien colours where the pads should be. */
 function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boolean) {

@@ -58,11 +58,3 @@ export function matchSwatches(pad: ChartPad, x: Lab): SwatchMatch {
   }
   return { swatchIndex: idx, value, deltaE: best.d, halfStep, rivalDeltaE, rivalIndex };
 }
-
-/** Value at a fractional swatch position (piecewise linear between swatch values). */
-export function valueAtIndex(pad: ChartPad, index: number): number {
-  const s = pad.swatches;
-  const i = Math.max(0, Math.min(s.length - 2, Math.floor(index)));
-  const t = Math.max(0, Math.min(1, index - i));
-  return s[i].value + t * (s[i + 1].value - s[i].value);
-}

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { parseChart } from "./chart";
 import { deltaE2000, hexToRgb, linearToSrgb, srgbToLinear } from "./colour";
-import type { StripGeometry } from "./detect";
+import type { StripGeometry } from "./geometry";
 import type { RgbImage } from "./image";
 import { measurePads } from "./measure-pads";
 

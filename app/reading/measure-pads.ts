@@ -3,8 +3,9 @@
 // channel, mapping the plastic to the chart's strip colour), then CIELAB D65.
 import type { StripChart } from "./chart";
 import { correctLinear, deltaE2000, hexToRgb, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, type Lab, type Mat3, type Rgb } from "./colour";
-import type { StripGeometry } from "./detect";
+import type { StripGeometry } from "./geometry";
 import { ReadingError, sampleQuad, type RegionSample, type RgbImage } from "./image";
+import { median } from "./stats";
 
 export type PadMeasurement = {
   /** White-corrected colour of the pad. */
@@ -50,12 +51,6 @@ function bareSamples(img: RgbImage, g: StripGeometry): BareSample[] {
     if (s && s.kept >= 4) out.push({ t: (lo + hi) / 2, s });
   }
   return out;
-}
-
-export function median(a: readonly number[]): number {
-  const s = [...a].sort((x, y) => x - y);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 export const luminance = (c: readonly number[]) => 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2];

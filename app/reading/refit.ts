@@ -9,6 +9,7 @@ import { deltaE2000, labToHex, type Lab } from "./colour";
 import { ReadingError } from "./image";
 import { readStrip } from "./index";
 import { analyteGroups } from "./joint-match";
+import { median } from "./stats";
 
 export type SolutionSample = { photo: Buffer; known: Record<string, number>; name?: string };
 export type SwatchChange = { analyte: string; pad: number; value: number; from: string | null; to: string; deltaE: number | null; photos: number };
@@ -42,11 +43,6 @@ const mean = (labs: Lab[]): Lab => ({
   a: labs.reduce((s, x) => s + x.a, 0) / labs.length,
   b: labs.reduce((s, x) => s + x.b, 0) / labs.length,
 });
-const median = (a: number[]) => {
-  const s = [...a].sort((x, y) => x - y);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 /** Robust average of the colours measured on one pad at one known value: outliers (a misplaced pad) dropped. */
 export function robustMeanLab(labs: Lab[]): { lab: Lab; kept: number[] } {

@@ -1,0 +1,146 @@
+// Candidate strips from pairs of long, straight, parallel edges about one strip width apart, for a
+// strip whose bright blob merges with a pale surface, a grout line or another bright object.
+import type { StripChart } from "./chart";
+import type { StripCandidate } from "./geometry";
+import type { SearchCopy } from "./search-copy";
+import { median } from "./stats";
+
+/**
+ * Candidates from pairs of long, straight, parallel edges about one strip width apart: a coarse
+ * Hough transform (1° by 1 px) of the sharp edges of the search copy's log whiteness. This finds
+ * a strip whose bright blob merges with a pale surface, a grout line or another bright object,
+ * where the thresholded components cannot separate it. Each pair's extent along the lines is
+ * taken from where its edge pixels lie.
+ */
+export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8): StripCandidate[] {
+  const { w, h, whiteness } = s;
+  const L = new Float32Array(w * h);
+  for (let i = 0; i < L.length; i++) L[i] = Math.log(whiteness[i]);
+  // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
+  const mag = new Float32Array(w * h), ang = new Float32Array(w * h);
+  const hist = new Uint32Array(256);
+  for (let y = 1; y < h - 1; y++)
+    for (let x = 1; x < w - 1; x++) {
+      const i = y * w + x;
+      const gx = L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1];
+      const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
+      const m = Math.hypot(gx, gy) / 8;
+      mag[i] = m;
+      ang[i] = Math.atan2(gy, gx);
+      hist[Math.min(255, (m * 1000) | 0)]++;
+    }
+  let thr = 0;
+  for (let b = 255, acc = 0; b >= 0; b--) {
+    acc += hist[b];
+    if (acc >= w * h * 0.1) {
+      thr = b / 1000;
+      break;
+    }
+  }
+  thr = Math.max(thr, 0.008);
+  const nT = 180, diag = Math.ceil(Math.hypot(w, h)), nR = 2 * diag + 1;
+  const cosT = new Float32Array(nT), sinT = new Float32Array(nT);
+  for (let k = 0; k < nT; k++) (cosT[k] = Math.cos((k * Math.PI) / nT)), (sinT[k] = Math.sin((k * Math.PI) / nT));
+  const acc = new Float32Array(nT * nR);
+  const ex: number[] = [], ey: number[] = [], et: number[] = [];
+  for (let y = 1; y < h - 1; y++)
+    for (let x = 1; x < w - 1; x++) {
+      const i = y * w + x;
+      const m = mag[i];
+      if (!(m > thr)) continue;
+      // Thin edges: keep local maxima of the magnitude across the edge.
+      const a = ang[i], c = Math.cos(a), sn = Math.sin(a);
+      const dx = Math.round(c), dy = Math.round(sn);
+      if (mag[i + dy * w + dx] > m || mag[i - dy * w - dx] >= m) continue;
+      let th = a < 0 ? a + Math.PI : a;
+      if (th >= Math.PI) th -= Math.PI;
+      const k0 = Math.round((th * nT) / Math.PI);
+      ex.push(x), ey.push(y), et.push(k0 % nT);
+      for (let dk = -1; dk <= 1; dk++) {
+        let k = k0 + dk, sign = 1;
+        if (k < 0) (k += nT), (sign = -1);
+        else if (k >= nT) (k -= nT), (sign = -1);
+        const r = Math.round(sign * (x * cosT[k] + y * sinT[k])) + diag;
+        acc[k * nR + r] += dk === 0 ? 1 : 0.5;
+      }
+    }
+  const aspect = chart.strip.lengthMm / chart.strip.widthMm;
+  const wMin = 3, wMax = Math.max(6, (0.9 * Math.max(w, h)) / aspect * 1.4);
+  const minVotes = Math.max(8, Math.min(40, (0.1 * Math.max(w, h) * 0.35)));
+  type Pair = { k: number; r1: number; r2: number; score: number };
+  const pairs: Pair[] = [];
+  // Votes of a line, with its neighbours on either side (a line's votes spread over ±1 px).
+  const votes = (row: number, r: number) => acc[row + r] + 0.5 * (acc[row + r - 1] + acc[row + r + 1]);
+  const peaks: number[] = [];
+  for (let k = 0; k < nT; k++) {
+    const row = k * nR;
+    peaks.length = 0;
+    for (let r = 1; r < nR - 1; r++) {
+      const v = acc[row + r];
+      if (v >= minVotes && v >= acc[row + r - 1] && v > acc[row + r + 1]) peaks.push(r);
+    }
+    for (let a = 0; a < peaks.length; a++)
+      for (let b = a + 1; b < peaks.length; b++) {
+        const d = peaks[b] - peaks[a];
+        if (d < wMin) continue;
+        if (d > wMax) break;
+        pairs.push({ k, r1: peaks[a], r2: peaks[b], score: Math.sqrt(votes(row, peaks[a]) * votes(row, peaks[b])) });
+      }
+  }
+  pairs.sort((a, b) => b.score - a.score);
+  const out: StripCandidate[] = [];
+  const chosen: Pair[] = [];
+  const sAlong: number[] = [];
+  for (const p of pairs) {
+    if (out.length >= maxOut || chosen.length >= maxOut * 4) break;
+    if (chosen.some((q) => Math.min(Math.abs(q.k - p.k), nT - Math.abs(q.k - p.k)) <= 3 && Math.abs(q.r1 - p.r1) <= 3 && Math.abs(q.r2 - p.r2) <= 3)) continue;
+    chosen.push(p);
+    // Extent: where edge pixels of either line lie along the lines.
+    const c = cosT[p.k], sn = sinT[p.k];
+    sAlong.length = 0;
+    let n1 = 0, n2 = 0;
+    for (let j = 0; j < ex.length; j++) {
+      const dk = Math.abs(et[j] - p.k);
+      if (Math.min(dk, nT - dk) > 2) continue;
+      const r = ex[j] * c + ey[j] * sn + diag;
+      const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
+      if (!on1 && !on2) continue;
+      if (on1) n1++;
+      else n2++;
+      sAlong.push(-ex[j] * sn + ey[j] * c);
+    }
+    if (n1 < 5 || n2 < 5) continue;
+    sAlong.sort((a, b) => a - b);
+    // Longest run of edge pixels with no gap longer than two strip widths.
+    const gap = Math.max(4, 2 * (p.r2 - p.r1));
+    let bestA = 0, bestB = 0, a0 = 0;
+    for (let j = 1; j <= sAlong.length; j++) {
+      if (j === sAlong.length || sAlong[j] - sAlong[j - 1] > gap) {
+        if (sAlong[j - 1] - sAlong[a0] > sAlong[bestB] - sAlong[bestA]) (bestA = a0), (bestB = j - 1);
+        a0 = j;
+      }
+    }
+    const s0 = sAlong[bestA], s1 = sAlong[bestB];
+    const width = p.r2 - p.r1, length = s1 - s0;
+    if (length < 2.5 * width) continue;
+    const rm = (p.r1 + p.r2) / 2 - diag, sm = (s0 + s1) / 2;
+    // A strip is a bright plastic band: along most of its length its inside is not clearly darker
+    // than the surface on both sides. A grout line, a seam or a shadow's dark band is.
+    const Lat = (r: number, sa: number) => {
+      const x = Math.round(r * c - sa * sn), y = Math.round(r * sn + sa * c);
+      return x >= 0 && y >= 0 && x < w && y < h ? L[y * w + x] : NaN;
+    };
+    const dOut = width / 2 + Math.max(2, width / 2);
+    const contrast: number[] = [];
+    for (let k = 0; k <= 24; k++) {
+      const sa = s0 + ((s1 - s0) * k) / 24;
+      const inside = Lat(rm, sa), o1 = Lat(rm - dOut, sa), o2 = Lat(rm + dOut, sa);
+      if (Number.isNaN(inside)) continue;
+      const outs = [o1, o2].filter((v) => !Number.isNaN(v));
+      if (outs.length) contrast.push(inside - Math.max(...outs));
+    }
+    if (contrast.length >= 5 && median(contrast) < -0.15) continue;
+    out.push({ cx: rm * c - sm * sn, cy: rm * sn + sm * c, angle: Math.atan2(c, -sn), length, width, score: p.score, n: length * width });
+  }
+  return out;
+}

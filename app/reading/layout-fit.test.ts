@@ -1,0 +1,58 @@
+// The chart's layout fitted along a drawn strip's profile: offset, scale and which end is the tip.
+import { describe, expect, it } from "vitest";
+import { drawScene, sceneChart, type SceneStrip } from "../../tests/reading/strip-scene";
+import { alongProfile } from "./axis-profile";
+import { parseChart } from "./chart";
+import { chartLayout, colourTrust, placementColourCost, pxPerMm, searchLayout, tAt } from "./layout-fit";
+import { plasticDifference } from "./plastic-difference";
+
+const strip: SceneStrip = {
+  cx: 200, cy: 100, angleDeg: 180, pxPerMm: 3.5, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
+  pads: [
+    { centerMm: 4, sizeMm: 5, color: [220, 150, 90] },
+    { centerMm: 11, sizeMm: 5, color: [150, 170, 210] },
+    { centerMm: 18, sizeMm: 5, color: [200, 120, 160] },
+  ],
+};
+const chart = parseChart(sceneChart(strip));
+
+describe("chartLayout", () => {
+  it("lists the pads and the bare gaps before, between and after them", () => {
+    const l = chartLayout(chart);
+    expect(l.pads).toEqual([[1.5, 6.5], [8.5, 13.5], [15.5, 20.5]]);
+    expect(l.gaps).toEqual([[0, 1.5], [6.5, 8.5], [13.5, 15.5], [20.5, 24.5]]);
+  });
+});
+
+describe("searchLayout", () => {
+  // angle 180°: the tip lies towards +x, so towards +t on an axis along +x.
+  const img = drawScene(400, 200, [120, 118, 110], strip);
+  const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
+  const profile = alongProfile(img, axis, -190, 190);
+  const diff = plasticDifference(profile, axis.length, axis.width);
+  const layout = chartLayout(chart);
+  const ends = { plus: { end: 140, truncated: false }, minus: { end: -140, truncated: false } };
+  const { best, fits } = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+
+  it("puts the tip at the right end, at the right scale", () => {
+    expect(best).not.toBeNull();
+    expect(best!.dir).toBe(-1);
+    expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan(1.5);
+    expect(pxPerMm(best!)).toBeCloseTo(3.5, 1);
+    expect(best!.padScore).toBeGreaterThan(30);
+    expect(best!.gapScore).toBeLessThan(3);
+  });
+  it("prefers the true placement by colour over the reversed one", () => {
+    const reversed = fits.find((f) => f.dir === 1);
+    expect(reversed).toBeDefined();
+    const right = placementColourCost(chart, layout, profile, diff.bare, best!);
+    const wrong = placementColourCost(chart, layout, profile, diff.bare, reversed!);
+    expect(right).toBeLessThan(1);
+    expect(wrong).toBeGreaterThan(right + 5);
+  });
+  it("trusts a placement less as its colours lie further from the chart", () => {
+    expect(colourTrust(3)).toBe(1);
+    expect(colourTrust(13)).toBeCloseTo(0.5, 6);
+    expect(colourTrust(40)).toBe(0.1);
+  });
+});

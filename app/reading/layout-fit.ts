@@ -1,0 +1,170 @@
+// Fitting the chart's pad layout along the strip's axis: over offset and scale, from either end,
+// both ways round. A placement scores by how much its pads differ from bare plastic against how
+// much its gaps do. When several placements score alike, the one whose pads' colours lie closest
+// to the chart's swatches (white-corrected from its own gaps) wins.
+import type { Profile } from "./axis-profile";
+import type { StripChart } from "./chart";
+import { correctLinear, deltaE2000, hexToRgb, lerpLab, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix } from "./colour";
+import type { Interval } from "./geometry";
+import type { PlasticDifference } from "./plastic-difference";
+import { median } from "./stats";
+import type { StripEnd } from "./strip-ends";
+
+/** Pads and the bare gaps between them, in mm from the tip. */
+export type Layout = { pads: Interval[]; gaps: Interval[] };
+
+export function chartLayout(chart: StripChart): Layout {
+  const order = chart.pads.map((p, i) => ({ p, i })).sort((a, b) => a.p.centerMm - b.p.centerMm);
+  const pads: Interval[] = chart.pads.map((p) => [p.centerMm - p.sizeMm / 2, p.centerMm + p.sizeMm / 2]);
+  const gaps: Interval[] = [];
+  let prev = 0;
+  for (const { i } of order) {
+    const [s] = pads[i];
+    if (s - prev >= 0.6) gaps.push([prev, s]);
+    prev = pads[i][1];
+  }
+  gaps.push([prev, Math.min(chart.strip.lengthMm, prev + 4)]);
+  return { pads, gaps };
+}
+
+/**
+ * One placement: the tip at `tip + dir × offset`, `baseScale × scaleFactor` px per mm, t growing
+ * from the tip to the handle when dir is +1.
+ */
+export type LayoutFit = {
+  score: number;
+  tip: number;
+  dir: 1 | -1;
+  scaleFactor: number;
+  offset: number;
+  baseScale: number;
+  /** Mean difference from bare plastic over the pads' middles. */
+  padScore: number;
+  /** The same over the gaps' middles. */
+  gapScore: number;
+};
+
+export const pxPerMm = (f: LayoutFit) => f.baseScale * f.scaleFactor;
+/** t of a point `mm` from the tip. */
+export const tAt = (f: LayoutFit, mm: number) => f.tip + f.dir * (f.offset + mm * pxPerMm(f));
+
+export type LayoutSearch = {
+  /** The two walked ends: `plus` towards +t, `minus` towards −t. */
+  plus: StripEnd;
+  minus: StripEnd;
+  /** px per mm: from the ends' distance when the length is confirmed, else from the width. */
+  scale: number;
+  /** px per mm from the strip's width. */
+  scaleFromWidth: number;
+  lengthOk: boolean;
+  /** No end could be trusted: the layout is searched for anywhere along the profile. */
+  free: boolean;
+  padEndMm: number;
+};
+
+/** Every distinct best placement (one per anchor and direction), and the best of them. */
+export function searchLayout(chart: StripChart, layout: Layout, profile: Profile, diff: PlasticDifference, s: LayoutSearch): { fits: LayoutFit[]; best: LayoutFit | null } {
+  const { plus, minus, scale, scaleFromWidth, lengthOk, free } = s;
+  const scaleRange = lengthOk ? 0.05 : 0.12;
+  const fits: LayoutFit[] = [];
+  let best: LayoutFit | null = null;
+  for (const tipSide of [1, -1] as const) {
+    const dir = -tipSide as 1 | -1; // t direction from tip to handle
+    const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
+    const anchors: { tip: number; baseScale: number }[] = [];
+    let offMin = -(lengthOk ? 2 : 3) * scale, offMax = -offMin, offStep = 0.5;
+    if (free) {
+      let v0 = -1, v1 = -1;
+      for (let i = 0; i < profile.n; i++) if (profile.valid[i]) (v1 = i), v0 < 0 && (v0 = i);
+      if (v0 < 0) continue;
+      anchors.push({ tip: profile.t0 + (dir === 1 ? v0 : v1), baseScale: scale });
+      (offMin = 0), (offMax = v1 - v0 - s.padEndMm * scale), (offStep = 1);
+    } else {
+      if (!tipEnd.truncated || handleEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scale });
+      if (!lengthOk && !handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scale, baseScale: scale });
+      // One end may run on past the strip (a grain line, a seam or a shadow in line with it): the
+      // layout is also placed from the other end at the scale given by the width.
+      if (lengthOk) {
+        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scaleFromWidth, baseScale: scaleFromWidth });
+        if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scaleFromWidth });
+      }
+    }
+    for (const { tip, baseScale } of anchors) {
+      let bf: LayoutFit | null = null;
+      for (let k = 1 - scaleRange; k <= 1 + scaleRange + 1e-9; k += 0.01) {
+        const sc = baseScale * k;
+        for (let off = offMin; off <= offMax; off += offStep) {
+          const at = (mm: number) => tip + dir * (off + mm * sc);
+          let padScore = 0;
+          for (const [a, b] of layout.pads) {
+            const m = (a + b) / 2, h = ((b - a) / 2) * 0.7;
+            padScore += diff.meanBetween(at(m - h), at(m + h));
+          }
+          padScore /= layout.pads.length;
+          let gapScore = 0;
+          for (const [a, b] of layout.gaps) {
+            const m = (a + b) / 2, h = Math.max(0.15, ((b - a) / 2) * 0.6);
+            gapScore += diff.meanBetween(at(m - h), at(m + h));
+          }
+          gapScore /= layout.gaps.length;
+          const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
+          if (!bf || score > bf.score) bf = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
+        }
+      }
+      // Another anchor that lands on a placement already found adds nothing.
+      const f = bf;
+      if (f && !fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
+      if (f && (!best || f.score > best.score)) best = f;
+    }
+  }
+  return { fits, best };
+}
+
+/**
+ * Mean ΔE00 (each pad capped at 50) from a placement's pads to the nearest point of their swatch
+ * lists (swatches and the midpoints between neighbours), white-corrected with the bare plastic in
+ * the placement's own gaps (or `bare` when no gap is inside the photo).
+ */
+export function placementColourCost(chart: StripChart, layout: Layout, profile: Profile, bare: number[], f: LayoutFit): number {
+  const stripLin = hexToRgb(chart.strip.color).map(srgbToLinear);
+  let cost = 0;
+  const span = (a: number, b: number) => {
+    let i0 = Math.round(tAt(f, a) - profile.t0), i1 = Math.round(tAt(f, b) - profile.t0);
+    if (i1 < i0) [i0, i1] = [i1, i0];
+    return [Math.max(0, i0), Math.min(profile.n - 1, i1)];
+  };
+  const gapChannels: number[][] = [[], [], []];
+  for (const [a, b] of layout.gaps) {
+    const m = (a + b) / 2, h = ((b - a) / 2) * 0.6;
+    const [i0, i1] = span(m - h, m + h);
+    for (let i = i0; i <= i1; i++) if (profile.valid[i]) for (let ch = 0; ch < 3; ch++) gapChannels[ch].push(profile.inner[i * 3 + ch]);
+  }
+  const bareLin = gapChannels[0].length ? gapChannels.map((a) => srgbToLinear(median(a) / 255)) : bare.map((v) => srgbToLinear(v / 255));
+  const wm = whiteCorrectionMatrix(bareLin, stripLin);
+  chart.pads.forEach((p, pi) => {
+    const [a, b] = layout.pads[pi];
+    const m = (a + b) / 2, h = ((b - a) / 2) * 0.6;
+    const [i0, i1] = span(m - h, m + h);
+    const c = [0, 0, 0];
+    let n = 0;
+    for (let i = i0; i <= i1; i++) if (profile.valid[i]) for (let ch = 0; ch < 3; ch++) (c[ch] += profile.inner[i * 3 + ch]), ch === 0 && n++;
+    if (!n) return void (cost += 50);
+    const lin = correctLinear(wm, c.map((v) => srgbToLinear(v / n / 255)));
+    const lab = linearRgbToLab(lin[0], lin[1], lin[2]);
+    let best = Infinity;
+    for (let j = 0; j < p.swatches.length; j++) {
+      best = Math.min(best, deltaE2000(lab, p.swatches[j].lab));
+      if (j > 0) best = Math.min(best, deltaE2000(lab, lerpLab(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5)));
+    }
+    cost += Math.min(best, 50);
+  });
+  return cost / chart.pads.length;
+}
+
+/**
+ * Trust in a placement from how far its pads' colours lie from their swatch paths: pads of a real
+ * strip lie near their paths; a pattern of grout, grain or shadow placed as pads lies far off.
+ */
+export function colourTrust(cost: number): number {
+  return cost <= 8 ? 1 : Math.max(0.1, 1 - (cost - 8) / 10);
+}

@@ -1,0 +1,47 @@
+// The whole locator on drawn scenes whose true geometry is known: rotations (23° among them), a
+// strip along a dark grout line, and a photo with no strip.
+import { describe, expect, it } from "vitest";
+import { drawScene, sceneChart, scenePoint, type SceneStrip } from "../../tests/reading/strip-scene";
+import { parseChart } from "./chart";
+import { ReadingError } from "./image";
+import { locateStrip } from "./locate";
+
+const base: SceneStrip = {
+  cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
+  pads: [
+    { centerMm: 4, sizeMm: 5, color: [220, 150, 90] },
+    { centerMm: 11, sizeMm: 5, color: [150, 170, 210] },
+    { centerMm: 18, sizeMm: 5, color: [200, 120, 160] },
+  ],
+};
+const chart = parseChart(sceneChart(base));
+
+function expectPadsPlaced(strip: SceneStrip, surface: [number, number, number], lines: Parameters<typeof drawScene>[3] = []) {
+  const g = locateStrip(drawScene(480, 360, surface, strip, lines), chart);
+  strip.pads.forEach((p, i) => {
+    const [x, y] = scenePoint(strip, p.centerMm);
+    expect(Math.hypot(g.pads[i].centre[0] - x, g.pads[i].centre[1] - y)).toBeLessThan(2.5);
+  });
+  expect(g.pxPerMm).toBeCloseTo(strip.pxPerMm, 0);
+  return g;
+}
+
+describe("locateStrip", () => {
+  for (const angleDeg of [0, 23, 90, 180, -127])
+    it(`places the pads of a strip rotated ${angleDeg}° on a darker surface`, () => {
+      expectPadsPlaced({ ...base, angleDeg }, [110, 105, 98]);
+    });
+  it("places the pads of a strip lying along a dark grout line", () => {
+    expectPadsPlaced({ ...base, angleDeg: 0 }, [225, 222, 215], [{ y: 180, thickness: 6, color: [95, 92, 90] }]);
+  });
+  it("refuses a photo with no strip in plain words", () => {
+    const img = drawScene(480, 360, [110, 105, 98], { ...base, cx: -1000 });
+    expect(() => locateStrip(img, chart)).toThrow(ReadingError);
+    expect(() => locateStrip(img, chart)).toThrow(/No test strip was found/);
+  });
+  it("writes its diagnostics to the trace it is given", () => {
+    const lines: string[] = [];
+    locateStrip(drawScene(480, 360, [110, 105, 98], base), chart, (l) => lines.push(l));
+    expect(lines.some((l) => l.startsWith("walk"))).toBe(true);
+  });
+});

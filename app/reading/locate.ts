@@ -1,0 +1,86 @@
+// Finding the strip in a photo and placing its pads: candidates on the search copy (bright
+// components at a wide background scale, then a narrow one, then pairs of long parallel edges),
+// each fitted in the working image (strip-fit.ts); the most convincing placement wins.
+import type { StripChart } from "./chart";
+import { brightCandidates } from "./bright-components";
+import { edgePairCandidates } from "./edge-pairs";
+import { traceLine, type Axis, type StripCandidate, type StripGeometry, type Trace } from "./geometry";
+import { ReadingError, type RgbImage } from "./image";
+import { chartLayout } from "./layout-fit";
+import { makeSearchCopy, type SearchCopy } from "./search-copy";
+import { fitAnyLength, refitWholeStrip } from "./strip-fit";
+
+export type { StripGeometry, PadPlacement, Interval } from "./geometry";
+
+const NO_STRIP =
+  "No test strip was found in this photo. Lay the strip flat on a plain surface, keep the whole strip in the picture, and take the photo again.";
+
+/**
+ * The photo must show the strip at a readable size: a placement whose whole strip would span
+ * less than this share of the photo's long side is a pattern in the surface, not the strip
+ * (the capture screen asks for the strip to fill most of the frame).
+ */
+export const MIN_STRIP_SHARE = 0.2;
+
+/** Candidates tried per background scale. */
+const CANDIDATES_PER_SCALE = 5;
+
+/** A placement whose pads stand out from the bare plastic beats one whose gaps look as coloured as its pads, whatever their scores. */
+function better(g: StripGeometry, best: StripGeometry | null): boolean {
+  if (!best) return true;
+  if (g.convincing !== best.convincing) return g.convincing;
+  return g.rank > best.rank;
+}
+
+/** A candidate's axis in working-image pixels. */
+function axisOf(c: StripCandidate, s: SearchCopy): Axis {
+  const f = s.factor;
+  return { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
+}
+
+/** A strip of the chart's length with a clear pad pattern: no need to look further. */
+const settled = (g: StripGeometry | null) => !!g && g.lengthOk && g.convincing && g.rank > 15;
+
+export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): StripGeometry {
+  const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
+  const layout = chartLayout(chart);
+  const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
+  const fit = (axis0: Axis) => {
+    const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
+    if (g && g.pxPerMm < minPxPerMm) {
+      traceLine(trace, "too small", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
+      return null;
+    }
+    return g;
+  };
+  const search = makeSearchCopy(img);
+  let best: StripGeometry | null = null;
+  const tried: StripCandidate[] = [];
+  // First the wide background scale; the narrow one only if no convincing strip was found.
+  for (const div of [16, 40]) {
+    let n = 0;
+    for (const c of brightCandidates(search, chart, div)) {
+      if (n >= CANDIDATES_PER_SCALE) break;
+      if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
+      tried.push(c);
+      n++;
+      const g = fit(axisOf(c, search));
+      if (g && better(g, best)) best = g;
+      if (settled(best)) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
+    }
+  }
+  // Strips the bright components missed (merged with a pale surface or a line beside them):
+  // pairs of long parallel edges.
+  if (!best || !best.lengthOk || !best.convincing) {
+    for (const c of edgePairCandidates(search, chart)) {
+      traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
+      const g = fit(axisOf(c, search));
+      if (g && better(g, best)) best = g;
+      if (settled(best)) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
+    }
+  }
+  if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
+  // No candidate shows the chart's pads standing out from bare plastic between them.
+  if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
+  return refitWholeStrip(img, chart, layout, padEndMm, best, trace);
+}

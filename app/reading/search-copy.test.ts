@@ -1,0 +1,37 @@
+// The search copy on small synthetic arrays (values worked out by hand).
+import { describe, expect, it } from "vitest";
+import { boxMean, makeSearchCopy } from "./search-copy";
+
+function solid(width: number, height: number, rgb: [number, number, number]) {
+  const data = new Uint8Array(width * height * 3);
+  for (let i = 0; i < width * height; i++) data.set(rgb, i * 3);
+  return { width, height, data };
+}
+
+describe("makeSearchCopy", () => {
+  it("reduces by a whole factor towards the target long side", () => {
+    const s = makeSearchCopy(solid(1600, 1200, [128, 128, 128]), 400);
+    expect(s.factor).toBe(4);
+    expect([s.w, s.h]).toEqual([400, 300]);
+    expect(s.whiteness.length).toBe(400 * 300);
+  });
+  it("white is whiter than grey, and grey whiter than a saturated colour of the same luminance", () => {
+    const white = makeSearchCopy(solid(40, 40, [255, 255, 255]), 10).whiteness[0];
+    const grey = makeSearchCopy(solid(40, 40, [128, 128, 128]), 10).whiteness[0];
+    const orange = makeSearchCopy(solid(40, 40, [230, 110, 20]), 10).whiteness[0];
+    // Linear luminance of white is 1 (IEC 61966-2-1), plus the floor 0.002.
+    expect(white).toBeCloseTo(1.002, 2);
+    expect(grey).toBeGreaterThan(orange * 0.9);
+    expect(white).toBeGreaterThan(grey);
+  });
+});
+
+describe("boxMean", () => {
+  it("is the plain mean of the box, clipped at the borders", () => {
+    const src = Float32Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]);
+    const m = boxMean(src, 3, 3, 1);
+    expect(m[4]).toBeCloseTo(5, 6); // centre: all nine
+    expect(m[0]).toBeCloseTo((1 + 2 + 4 + 5) / 4, 6); // corner: four
+    expect(m[1]).toBeCloseTo((1 + 2 + 3 + 4 + 5 + 6) / 6, 6); // edge: six
+  });
+});

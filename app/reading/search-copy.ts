@@ -1,0 +1,86 @@
+// The search copy: a reduced image (long side about 400 px) holding each pixel's "whiteness",
+// on which candidate strips are searched before anything is sampled at the working size.
+import { srgbToLinear } from "./colour";
+import type { RgbImage } from "./image";
+
+export type SearchCopy = {
+  w: number;
+  h: number;
+  /** Working-image pixels per search-copy pixel (along each side). */
+  factor: number;
+  /** Per pixel: linear luminance × (1 − 0.6 × saturation), plus a small floor. */
+  whiteness: Float32Array;
+};
+
+/** Long side of the search copy, in pixels (approximately: the reduction is a whole factor). */
+export const SEARCH_LONG_SIDE = 400;
+
+const ENCODED_TO_LINEAR = (() => {
+  const lut = new Float32Array(4096);
+  for (let i = 0; i < 4096; i++) lut[i] = srgbToLinear(i / 4095);
+  return lut;
+})();
+
+/**
+ * Reduced copy with a per-pixel whiteness in linear light: luminance times (1 − 0.6 ×
+ * saturation). Both factors scale with the light, so a ratio against the local
+ * background is unchanged by shadows and light falloff.
+ */
+export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): SearchCopy {
+  const f = Math.max(1, Math.round(Math.max(img.width, img.height) / target));
+  const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
+  const acc = new Uint32Array(w * 3);
+  const whiteness = new Float32Array(w * h);
+  const data = img.data, W = img.width;
+  // For blocks of 4×4 and more, every other row and column is enough for searching.
+  const step = f >= 4 ? 2 : 1;
+  const per = Math.ceil(f / step);
+  const inv = 1 / (per * per);
+  // Block means of the encoded values, then the sRGB transfer function (a close enough
+  // approximation of the linear mean for searching).
+  const lut = ENCODED_TO_LINEAR;
+  const q = 4095 / 255;
+  for (let sy = 0; sy < h; sy++) {
+    acc.fill(0);
+    for (let dy = 0; dy < f; dy += step) {
+      const rowO = (sy * f + dy) * W * 3;
+      for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
+        let r = 0, g = 0, b = 0;
+        for (let dx = 0, o = rowO + sx * f * 3; dx < f; dx += step, o += 3 * step) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
+        acc[k] += r;
+        acc[k + 1] += g;
+        acc[k + 2] += b;
+      }
+    }
+    for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
+      const r = lut[(acc[k] * inv * q + 0.5) | 0], g = lut[(acc[k + 1] * inv * q + 0.5) | 0], b = lut[(acc[k + 2] * inv * q + 0.5) | 0];
+      const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
+      const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
+      const sat = mx > 1e-4 ? (mx - mn) / mx : 0;
+      whiteness[sy * w + sx] = (0.2126 * r + 0.7152 * g + 0.0722 * b) * (1 - 0.6 * sat) + 0.002;
+    }
+  }
+  return { w, h, factor: f, whiteness };
+}
+
+/** Mean over a (2r+1)² box around each pixel (clipped at the borders), from an integral image. */
+export function boxMean(src: Float32Array, w: number, h: number, r: number): Float32Array {
+  const I = new Float64Array((w + 1) * (h + 1));
+  for (let y = 0; y < h; y++) {
+    let row = 0;
+    for (let x = 0; x < w; x++) {
+      row += src[y * w + x];
+      I[(y + 1) * (w + 1) + x + 1] = I[y * (w + 1) + x + 1] + row;
+    }
+  }
+  const out = new Float32Array(w * h);
+  for (let y = 0; y < h; y++) {
+    const y0 = Math.max(0, y - r), y1 = Math.min(h, y + r + 1);
+    for (let x = 0; x < w; x++) {
+      const x0 = Math.max(0, x - r), x1 = Math.min(w, x + r + 1);
+      const s = I[y1 * (w + 1) + x1] - I[y0 * (w + 1) + x1] - I[y1 * (w + 1) + x0] + I[y0 * (w + 1) + x0];
+      out[y * w + x] = s / ((y1 - y0) * (x1 - x0));
+    }
+  }
+  return out;
+}

@@ -1,0 +1,135 @@
+// One candidate axis → a placed strip: the axis refined on both long edges, the profile along it,
+// the strip's ends, the pad layout fitted, the tip told from the handle, and the pads placed.
+import { alongProfile } from "./axis-profile";
+import type { StripChart } from "./chart";
+import { traceLine, type Axis, type Interval, type PadPlacement, type StripGeometry, type Trace } from "./geometry";
+import type { RgbImage } from "./image";
+import { colourTrust, placementColourCost, pxPerMm, searchLayout, tAt, type Layout, type LayoutFit } from "./layout-fit";
+import { plasticDifference } from "./plastic-difference";
+import { median } from "./stats";
+import { refineAxis } from "./strip-axis";
+import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
+
+/**
+ * Fits the chart's layout along one candidate axis. `edgeWalk`: when the colour difference does
+ * not give the strip's length, its ends are taken from its long edges alone, and failing that the
+ * layout is searched for anywhere along the axis at the scale given by the width.
+ */
+export function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, edgeWalk: boolean, trace: Trace): StripGeometry | null {
+  const axis = refineAxis(img, refineAxis(img, axis0));
+  const warnings: string[] = [];
+  const widthPx = axis.width;
+  if (!(widthPx > 5)) return null;
+  const scaleFromWidth = widthPx / chart.strip.widthMm;
+  const expectedLength = chart.strip.lengthMm * scaleFromWidth;
+  const reach = axis.length / 2 + expectedLength * 1.3;
+  const profile = alongProfile(img, axis, -reach, reach);
+  // Presence over the handle-like middle of the candidate.
+  const handlePresence = median(middleValues(profile, profile.presence, axis.length));
+  if (!(handlePresence > 4)) return null;
+  const threshold = Math.max(6, Math.min(0.4 * handlePresence, 30));
+  const maxPadMm = Math.max(...chart.pads.map((p) => p.sizeMm));
+  const maxGap = maxPadMm * scaleFromWidth * 1.3 + 2;
+  let plus = walkEnd(profile, profile.presence, threshold, maxGap, 1);
+  let minus = walkEnd(profile, profile.presence, threshold, maxGap, -1);
+  // Neither the colour nor the edges show the strip's ends (a pale strip on a pale surface): the
+  // chart's pads are searched for anywhere along the axis, at the scale given by the width.
+  let free = false;
+  if (edgeWalk) {
+    const ratio = (plus.end - minus.end) / expectedLength;
+    if (!(plus.truncated || minus.truncated || ratio > 1.18)) return null;
+    const ends = endsFromEdges(profile, axis.length, maxGap, expectedLength);
+    if (ends) [plus, minus] = ends;
+    else free = true;
+  }
+  traceLine(trace, "walk", { c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }, plus, minus, "pxPerMm(width)", scaleFromWidth, "length/chart", (plus.end - minus.end) / chart.strip.lengthMm);
+  let scale = (plus.end - minus.end) / chart.strip.lengthMm;
+  const ratio = scale / scaleFromWidth;
+  let lengthOk = true;
+  if (free || plus.truncated || minus.truncated || ratio < 0.85 || ratio > 1.18) {
+    lengthOk = false;
+    scale = scaleFromWidth;
+  }
+  const diff = plasticDifference(profile, axis.length, widthPx);
+  const { fits, best: fitted } = searchLayout(chart, layout, profile, diff, { plus, minus, scale, scaleFromWidth, lengthOk, free, padEndMm });
+  if (!fitted) return null;
+  let best: LayoutFit = fitted;
+  traceLine(trace, "fit", fits.map((f) => ({ s: +f.score.toFixed(1), pads: +f.padScore.toFixed(1), gaps: +f.gapScore.toFixed(1), d: f.dir, t: Math.round(tAt(f, 0)), k: +pxPerMm(f).toFixed(2) })), "lengthOk", lengthOk, "w", widthPx.toFixed(1));
+  // The pad pattern fits both ways round (or from either end): the placement whose colours lie
+  // closer to the chart's swatches (after a white correction from the bare plastic) wins.
+  const rivals = fits.filter((f) => best.score - f.score < Math.max(2, 0.15 * best.score));
+  let chosenCost: number;
+  if (rivals.length >= 2) {
+    const costs = rivals.map((f) => placementColourCost(chart, layout, profile, diff.bare, f));
+    traceLine(trace, "placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
+    const order = costs.map((_, i) => i).sort((a, b) => costs[a] - costs[b]);
+    const [i0, i1] = order;
+    if (costs[i1] - costs[i0] > 3) best = rivals[i0];
+    else if (rivals[i0].dir !== rivals[i1].dir) warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+    chosenCost = costs[rivals.indexOf(best)] ?? placementColourCost(chart, layout, profile, diff.bare, best);
+  } else chosenCost = placementColourCost(chart, layout, profile, diff.bare, best);
+  if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
+  const s = pxPerMm(best);
+  const widthMm = chart.strip.widthMm;
+  const pads: PadPlacement[] = chart.pads.map((p) => {
+    const t = tAt(best, p.centerMm);
+    return {
+      t,
+      centre: [axis.cx + t * axis.ux, axis.cy + t * axis.uy],
+      halfAlong: (p.sizeMm / 2) * s,
+      halfAcross: (Math.min(p.sizeMm, widthMm) / 2) * (widthPx / widthMm),
+    };
+  });
+  const bare: Interval[] = layout.gaps.map(([a, b]) => {
+    const t0 = tAt(best, a), t1 = tAt(best, b);
+    return t0 < t1 ? [t0, t1] : [t1, t0];
+  });
+  bare.sort((x, y) => x[0] - y[0]);
+  return {
+    centre: [axis.cx, axis.cy],
+    u: [axis.ux, axis.uy],
+    v: [-axis.uy, axis.ux],
+    dir: best.dir,
+    tipT: tAt(best, 0),
+    handleT: tAt(best, chart.strip.lengthMm),
+    widthPx,
+    pxPerMm: s,
+    pads,
+    bare,
+    fitScore: best.score,
+    rank: best.score * (lengthOk ? 1 : 0.6) * colourTrust(chosenCost),
+    colourCost: chosenCost,
+    axisSpan: axis.length,
+    lengthOk,
+    // Searched for anywhere along the axis, the best of many placements must stand out further.
+    convincing: free ? best.score >= Math.max(10, 2 * best.gapScore) : best.score >= Math.max(4, best.gapScore),
+    warnings,
+  };
+}
+
+/**
+ * Fits the chart's layout along a candidate axis. When the strip's length is not confirmed, the
+ * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
+ * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
+ */
+export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace): StripGeometry | null {
+  const g = fitStrip(img, chart, layout, padEndMm, axis0, false, trace);
+  if (g && g.lengthOk && g.convincing) return g;
+  const e = fitStrip(img, chart, layout, padEndMm, axis0, true, trace);
+  // The edges' ends win only with pads fitting at least as well: a confirmed length alone does not.
+  if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) return e;
+  return g;
+}
+
+/**
+ * The axis was fitted over the candidate's blob, often the handle alone; a small error of its
+ * angle moves the pads at the far end off the strip. Fitted again over the whole strip as placed.
+ */
+export function refitWholeStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, g: StripGeometry, trace: Trace): StripGeometry {
+  const tm = (g.tipT + g.handleT) / 2, len = Math.abs(g.handleT - g.tipT);
+  if (g.axisSpan >= 0.75 * len) return g;
+  const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
+  const again = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
+  if (again) traceLine(trace, "whole strip", { fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing });
+  return again && again.convincing && again.fitScore >= 0.9 * g.fitScore ? again : g;
+}

@@ -1,0 +1,59 @@
+// Where a read's time goes, per photo: decode, locate (with the number of candidate fits), measure.
+// The bench's photos are rendered once into a cache directory. Figures only, nothing asserted.
+//
+//   npx tsx tests/bench/reading-phases.ts [--cache /tmp/dipwell-bench-photos]
+import fs from "node:fs";
+import path from "node:path";
+import { parseChart } from "../../app/reading/chart";
+import { decodePhoto } from "../../app/reading/image";
+import { locateStrip } from "../../app/reading/locate";
+import { measurePads } from "../../app/reading/measure-pads";
+import { renderStripPhoto } from "../render/strip-photo";
+import { asRenderChart } from "../render/types";
+
+const argv = process.argv.slice(2);
+const cache = argv.includes("--cache") ? argv[argv.indexOf("--cache") + 1]! : "/tmp/dipwell-bench-photos";
+fs.mkdirSync(cache, { recursive: true });
+const load = (f: string) => JSON.parse(fs.readFileSync(f, "utf8"));
+const demo3 = load("calibration/demo-3pad.json"), demo6 = load("calibration/demo-6pad.json");
+const sizes: [number, number][] = [[4032, 3024], [3024, 4032], [4000, 3000], [2016, 1512], [1600, 1200], [1200, 1600], [1024, 768], [3264, 2448]];
+const surfaces = ["paper", "counter", "wood", "cloth", "tiles"] as const;
+const casts = ["daylight", "warm", "cool", "fluorescent"] as const;
+const cases: { name: string; file: string; chart: ReturnType<typeof parseChart> }[] = [];
+for (const [i, [width, height]] of sizes.entries()) {
+  const doc = i % 2 ? demo6 : demo3;
+  const file = path.join(cache, `bench-${i}.jpg`);
+  if (!fs.existsSync(file)) {
+    const r = await renderStripPhoto(asRenderChart(doc), { seed: 7100 + i, width, height, surface: surfaces[i % 5], cast: casts[i % 4], rotationDeg: (i * 67) % 360 });
+    fs.writeFileSync(file, r.jpeg);
+  }
+  cases.push({ name: `synthetic ${i} ${width}×${height}`, file, chart: parseChart(doc) });
+}
+const realDir = path.resolve("../shared/eval/real");
+if (fs.existsSync(path.join(realDir, "chart-base.json"))) {
+  const chart = parseChart(load(path.join(realDir, "chart-base.json")));
+  const real = fs.readdirSync(realDir).filter((f) => /\.jpe?g$/i.test(f)).sort();
+  for (const f of real.filter((_, k) => k % 5 === 2)) cases.push({ name: `real ${f}`, file: path.join(realDir, f), chart });
+}
+const ms = (t0: bigint) => Number(process.hrtime.bigint() - t0) / 1e6;
+for (let pass = 0; pass < 2; pass++)
+  for (const c of cases) {
+    const buf = fs.readFileSync(c.file);
+    let t = process.hrtime.bigint();
+    const { image } = await decodePhoto(buf);
+    const tDecode = ms(t);
+    let fits = 0;
+    t = process.hrtime.bigint();
+    let tLocate = 0, tMeasure = 0, note = "";
+    try {
+      const g = locateStrip(image, c.chart, (l) => l.startsWith("walk") && fits++);
+      tLocate = ms(t);
+      t = process.hrtime.bigint();
+      measurePads(image, c.chart, g);
+      tMeasure = ms(t);
+    } catch (e) {
+      tLocate = ms(t);
+      note = String((e as Error).message).slice(0, 40);
+    }
+    if (pass === 1) console.log(`${c.name.padEnd(28)} decode ${tDecode.toFixed(1).padStart(6)}  locate ${tLocate.toFixed(1).padStart(7)} (${fits} fits)  measure ${tMeasure.toFixed(1).padStart(5)} ${note}`);
+  }
