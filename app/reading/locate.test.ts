@@ -1,7 +1,7 @@
 // The whole locator on drawn scenes whose true geometry is known: rotations (23° among them), a
 // strip along a dark grout line, and a photo with no strip.
 import { describe, expect, it } from "vitest";
-import { drawScene, sceneChart, scenePoint, type SceneStrip } from "../../tests/reading/strip-scene";
+import { drawScene, sceneChart, scenePoint, type SceneLine, type SceneStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { ReadingError } from "./image";
 import { locateStrip } from "./locate";
@@ -16,7 +16,7 @@ const base: SceneStrip = {
 };
 const chart = parseChart(sceneChart(base));
 
-function expectPadsPlaced(strip: SceneStrip, surface: [number, number, number], lines: Parameters<typeof drawScene>[3] = []) {
+function expectPadsPlaced(strip: SceneStrip, surface: [number, number, number], lines: SceneLine[] = []) {
   const g = locateStrip(drawScene(480, 360, surface, strip, lines), chart);
   strip.pads.forEach((p, i) => {
     const [x, y] = scenePoint(strip, p.centerMm);

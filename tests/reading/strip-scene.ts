@@ -19,8 +19,11 @@ export type SceneStrip = {
   pads: { centerMm: number; sizeMm: number; color: [number, number, number] }[];
 };
 
+/** A horizontal line across the surface (grout, a seam), drawn under the strip. */
+export type SceneLine = { y: number; thickness: number; color: [number, number, number] };
+
 /** A scene of `width` × `height` px: the surface colour, optional horizontal lines, the strip. */
-export function drawScene(width: number, height: number, surface: [number, number, number], strip: SceneStrip, lines: { y: number; thickness: number; color: [number, number, number] }[] = []): RgbImage {
+export function drawScene(width: number, height: number, surface: [number, number, number], strip: SceneStrip, lines: SceneLine[] = []): RgbImage {
   const data = new Uint8Array(width * height * 3);
   const a = (strip.angleDeg * Math.PI) / 180, ux = Math.cos(a), uy = Math.sin(a);
   const halfL = (strip.lengthMm * strip.pxPerMm) / 2, halfW = (strip.widthMm * strip.pxPerMm) / 2;
