@@ -1,16 +1,17 @@
-// The main navigation. Each entry names the roles that see it; the pages
-// themselves check permissions again on the server.
-import type { Role } from "~/lib/permissions";
+// The main navigation. An entry with `need` is shown to accounts whose role grants that
+// permission (the vocabulary of app/lib/permissions.ts, which the pages check again on the
+// server); an entry without it is for every signed-in account.
+import type { Permission } from "~/lib/permissions";
 
-export type NavItem = { to: string; label: string; roles: Role[] };
+export type NavItem = { to: string; label: string; need?: Permission };
 
 export const NAV_ITEMS: NavItem[] = [
-  { to: "/tubs", label: "Tubs", roles: ["owner", "technician", "admin"] },
-  { to: "/products", label: "Products", roles: ["owner", "technician", "admin"] },
-  { to: "/notifications", label: "Notifications", roles: ["owner", "technician", "admin"] },
-  { to: "/clients", label: "Clients", roles: ["technician", "admin"] },
-  { to: "/charts", label: "Charts", roles: ["technician", "admin"] },
-  { to: "/admin/users", label: "Users", roles: ["admin"] },
-  { to: "/dev/inbox", label: "Mail inbox", roles: ["admin"] },
-  { to: "/admin/email", label: "E-mail log", roles: ["admin"] },
+  { to: "/tubs", label: "Tubs" },
+  { to: "/products", label: "Products" },
+  { to: "/notifications", label: "Notifications" },
+  { to: "/clients", label: "Clients", need: { client: ["look-after"] } },
+  { to: "/charts", label: "Charts", need: { chart: ["edit"] } },
+  { to: "/admin/users", label: "Users", need: { user: ["list"] } },
+  { to: "/dev/inbox", label: "Mail inbox", need: { mail: ["read"] } },
+  { to: "/admin/email", label: "E-mail log", need: { mail: ["read"] } },
 ];

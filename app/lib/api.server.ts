@@ -4,7 +4,7 @@
 import type { RouterContextProvider } from "react-router";
 import type { SessionUser } from "./auth.server";
 import { optionalUser } from "./session.server";
-import { requireTub, type TubNeed } from "./tubs.server";
+import { requireTub, type TubNeed } from "./tub-access.server";
 
 type Ctx = Readonly<RouterContextProvider>;
 type Body = (message: string) => object;

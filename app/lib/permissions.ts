@@ -1,43 +1,71 @@
-// Roles and what they may do, shared by the server (better-auth's admin plugin)
-// and the browser (to hide buttons). The server always checks again: a hidden
-// button is a courtesy, not a permission.
+// What each role may do: the one permission vocabulary. better-auth's admin plugin
+// reads it for its own endpoints (users, sessions); loaders and actions check it with
+// `can` / `requirePermission` (app/lib/session.server.ts); the navigation reads the
+// same statements to show a link (app/components/nav.ts). A hidden link is a courtesy,
+// not a permission: the server always checks again.
+// Access to one tub also depends on the tub (its owner, a technician with access):
+// that part is the tub guard's (app/lib/tub-access.server.ts).
 import { createAccessControl } from "better-auth/plugins/access";
 import { adminAc, defaultStatements } from "better-auth/plugins/admin/access";
 
 export const statement = {
   ...defaultStatements,
-  tub: ["create", "read", "update", "archive"],
-  chart: ["read", "create", "update"],
+  /** shared: the tubs whose owners gave this account access; all: every tub */
+  tub: ["shared", "all"],
+  /** the clients page and accepting an owner's invitation */
+  client: ["look-after"],
+  /** the review queue: read it, mark readings reviewed */
   review: ["read", "update"],
-  inbox: ["read"],
+  /** strip charts: create, edit, calibrate */
+  chart: ["edit"],
+  /** the mail catcher's inbox and the e-mail log */
+  mail: ["read"],
+  /** change or delete a visit note someone else wrote */
+  note: ["edit-any"],
 } as const;
 
 export const ac = createAccessControl(statement);
 
-export const owner = ac.newRole({
-  tub: ["create", "read", "update", "archive"],
-  chart: ["read"],
-});
+export const owner = ac.newRole({});
 
 export const technician = ac.newRole({
-  tub: ["read", "update"],
-  chart: ["read", "create", "update"],
+  tub: ["shared"],
+  client: ["look-after"],
   review: ["read", "update"],
+  chart: ["edit"],
 });
 
 export const admin = ac.newRole({
   ...adminAc.statements,
-  tub: ["create", "read", "update", "archive"],
-  chart: ["read", "create", "update"],
+  tub: ["shared", "all"],
+  client: ["look-after"],
   review: ["read", "update"],
-  inbox: ["read"],
+  chart: ["edit"],
+  mail: ["read"],
+  note: ["edit-any"],
 });
 
 export const roles = { owner, technician, admin };
 export type Role = keyof typeof roles;
 export const ROLE_NAMES: Role[] = ["owner", "technician", "admin"];
 
-export function hasRole(user: { role?: string | null } | null | undefined, ...wanted: Role[]) {
-  if (!user?.role) return false;
-  return user.role.split(",").some((r) => wanted.includes(r.trim() as Role));
+type Statement = typeof statement;
+/** One or more actions on one or more resources, all of which are needed: `{ chart: ["edit"] }`. */
+export type Permission = { [R in keyof Statement]?: Statement[R][number][] };
+
+function rolesOf(user: { role?: string | null } | null | undefined): Role[] {
+  if (!user?.role) return [];
+  return user.role.split(",").map((r) => r.trim()).filter((r): r is Role => r in roles);
+}
+
+const granted = (role: Role, permission: Permission) => roles[role].authorize(permission as never).success;
+
+/** Whether the user (any of their roles) may do all of `permission`. */
+export function can(user: { role?: string | null } | null | undefined, permission: Permission): boolean {
+  return rolesOf(user).some((r) => granted(r, permission));
+}
+
+/** The roles that may do `permission`, in ROLE_NAMES order (for messages such as "for technician or admin accounts"). */
+export function rolesThatCan(permission: Permission): Role[] {
+  return ROLE_NAMES.filter((r) => granted(r, permission));
 }

@@ -4,7 +4,7 @@ import { data, redirect, type MiddlewareFunction, type RouterContextProvider } f
 import { auth, type SessionUser } from "./auth.server";
 import { userContext } from "./context";
 import { env } from "./env.server";
-import { hasRole, type Role } from "./permissions";
+import { can, rolesThatCan, type Permission } from "./permissions";
 
 export const sessionMiddleware: MiddlewareFunction<Response> = async ({ request, context }, next) => {
   const found = await auth.api.getSession({ headers: request.headers });
@@ -29,11 +29,11 @@ export function requireUser(context: Ctx, request: Request): SessionUser {
   return user;
 }
 
-/** The signed-in user if they hold one of the roles; 403 otherwise. */
-export function requireRole(context: Ctx, request: Request, ...roles: Role[]): SessionUser {
+/** The signed-in user if their role grants `permission` (app/lib/permissions.ts); 403 otherwise. */
+export function requirePermission(context: Ctx, request: Request, permission: Permission): SessionUser {
   const user = requireUser(context, request);
-  if (!hasRole(user, ...roles)) {
-    throw data({ message: "This page is for " + roles.join(" or ") + " accounts." }, { status: 403 });
+  if (!can(user, permission)) {
+    throw data({ message: "This page is for " + rolesThatCan(permission).join(" or ") + " accounts." }, { status: 403 });
   }
   return user;
 }

@@ -2,7 +2,7 @@ import { Form, NavLink, Outlet } from "react-router";
 import { NAV_ITEMS } from "~/components/nav";
 import { cx } from "~/components/ui";
 import { unreadCount } from "~/features/notify/notifications.server";
-import { hasRole } from "~/lib/permissions";
+import { can } from "~/lib/permissions";
 import { requireUser } from "~/lib/session.server";
 import type { Route } from "./+types/signed-in-layout";
 
@@ -20,7 +20,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 
 export default function SignedInLayout({ loaderData }: Route.ComponentProps) {
   const { user, unread } = loaderData;
-  const items = NAV_ITEMS.filter((i) => hasRole(user, ...i.roles));
+  const items = NAV_ITEMS.filter((i) => !i.need || can(user, i.need));
   return (
     <div className="min-h-screen">
       <a href="#main" className="dw-skip">Skip to the page content</a>

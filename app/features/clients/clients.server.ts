@@ -10,9 +10,9 @@ import { env } from "~/lib/env.server";
 import { invitationEmail, reviewedEmail } from "~/features/notify/messages.server";
 import { enqueueEmail } from "~/features/notify/outbox.server";
 import { ensurePreferences } from "~/features/notify/preferences.server";
-import { hasRole } from "~/lib/permissions";
+import { can } from "~/lib/permissions";
 import { likePattern, pageOf, stopIfAborted } from "~/lib/paging";
-import type { Tub } from "~/lib/tubs.server";
+import type { Tub } from "~/lib/tub-access.server";
 import { parseChart } from "~/reading/chart";
 import { rangeStatus } from "~/lib/range-status";
 import { analyteLabel } from "./labels";
@@ -92,7 +92,7 @@ export async function acceptInvitation(user: SessionUser, token: string | undefi
     if (found.inv.acceptedBy === user.id) return found.tub;
     throw new ClientInputError("This invitation has already been accepted.");
   }
-  if (!hasRole(user, "technician", "admin")) throw new ClientInputError("Only a technician account can accept this invitation. Sign in with your technician account.", 403);
+  if (!can(user, { client: ["look-after"] })) throw new ClientInputError("Only a technician account can accept this invitation. Sign in with your technician account.", 403);
   if (user.email.toLowerCase() !== found.inv.email.toLowerCase())
     throw new ClientInputError(`This invitation was sent to ${found.inv.email}, but you are signed in as ${user.email}. Sign in with the invited address.`, 403);
   await db.transaction(async (tx) => {
@@ -139,7 +139,7 @@ export async function declineInvitation(user: SessionUser, token: string | undef
 const clientTubFilter = (alias: string) =>
   `${alias}.archived_at is null and ($1::text is null or exists (select 1 from tub_access a where a.tub_id = ${alias}.id and a.technician_id = $1 and a.revoked_at is null))`;
 
-const technicianParam = (user: SessionUser) => (hasRole(user, "admin") ? null : user.id);
+const technicianParam = (user: SessionUser) => (can(user, { tub: ["all"] }) ? null : user.id);
 
 /** Whether the user may review readings of this tub: an admin, or a technician with active access. */
 async function looksAfter(user: SessionUser, tubId: string) {
@@ -401,7 +401,7 @@ async function changeableNote(user: SessionUser, t: Tub, noteId: string) {
   if (!UUID.test(noteId)) throw new ClientInputError("We could not find that visit note.", 404);
   const n = await db.query.visitNote.findFirst({ where: and(eq(visitNote.id, noteId), eq(visitNote.tubId, t.id)) });
   if (!n) throw new ClientInputError("We could not find that visit note. It may have been deleted.", 404);
-  if (n.authorId !== user.id && !hasRole(user, "admin")) throw new ClientInputError("Only the person who wrote a visit note can change or delete it.", 403);
+  if (n.authorId !== user.id && !can(user, { note: ["edit-any"] })) throw new ClientInputError("Only the person who wrote a visit note can change or delete it.", 403);
   return n;
 }
 

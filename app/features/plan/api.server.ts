@@ -1,7 +1,7 @@
 // JSON answers for the plan API: errors as { error } with no caching.
 import type { RouterContextProvider } from "react-router";
 import { apiTub as tubFor, apiUser as userFor } from "~/lib/api.server";
-import type { TubNeed } from "~/lib/tubs.server";
+import type { TubNeed } from "~/lib/tub-access.server";
 
 const NO_STORE = { "cache-control": "no-store" };
 const asError = (error: string) => ({ error });

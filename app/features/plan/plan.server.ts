@@ -22,7 +22,7 @@ import { activeLock, waitHoursForLogged } from "~/chemistry/lock";
 import { GUIDANCE_IDS, type Guidance, type Units } from "~/chemistry";
 import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
-import type { Tub } from "~/lib/tubs.server";
+import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
 import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";
 export { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";

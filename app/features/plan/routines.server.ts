@@ -3,7 +3,7 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { drainIntervalDays, firstFillRoutine, foamTreatment, routineTopUp, type Readings, type RoutineStep, type Units } from "~/chemistry";
 import { routineRun, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
-import type { Tub } from "~/lib/tubs.server";
+import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
 import { activeTimer, latestReading, recentTreatments, runEngine, tubGuidance, type LatestReading } from "./plan.server";
 import { clock, safeZone } from "./time";

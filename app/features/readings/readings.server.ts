@@ -14,7 +14,7 @@ import { headObject, putObject, readObject } from "~/lib/storage.server";
 import { csvLine } from "~/lib/csv";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
-import type { Tub } from "~/lib/tubs.server";
+import type { Tub } from "~/lib/tub-access.server";
 import { daysAgo, rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
 

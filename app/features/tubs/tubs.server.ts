@@ -6,8 +6,8 @@ import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { likePattern, pageOf } from "~/lib/paging";
-import { hasRole } from "~/lib/permissions";
-import type { Tub } from "~/lib/tubs.server";
+import { can } from "~/lib/permissions";
+import type { Tub } from "~/lib/tub-access.server";
 
 export const parameterLabel = parameterName;
 
@@ -196,7 +196,7 @@ export async function tubListPage(user: SessionUser, opts: { page?: number; q?: 
      and (t.owner_id = $1 or $2::boolean
           or ($3::boolean and exists (select 1 from tub_access a where a.tub_id = t.id and a.technician_id = $1 and a.revoked_at is null)))
      and ($4::text is null or t.name ilike $4 or o.name ilike $4)`;
-  const params = [user.id, hasRole(user, "admin"), hasRole(user, "technician"), opts.q ? likePattern(opts.q) : null];
+  const params = [user.id, can(user, { tub: ["all"] }), can(user, { tub: ["shared"] }), opts.q ? likePattern(opts.q) : null];
   const [{ total, own }] = (
     await db.$client.query<{ total: number; own: number }>(
       `select count(*)::int as total, count(*) filter (where t.owner_id = $1)::int as own from tub t join "user" o on o.id = t.owner_id where ${where}`,

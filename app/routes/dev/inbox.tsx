@@ -3,7 +3,7 @@
 import { data } from "react-router";
 import { Card, EmptyState, PageTitle } from "~/components/ui";
 import { env } from "~/lib/env.server";
-import { requireRole } from "~/lib/session.server";
+import { requirePermission } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/inbox";
@@ -13,7 +13,7 @@ type CaughtMail = { id: string; subject: string; date: string; to: { address: st
 export const meta: Route.MetaFunction = () => [{ title: "Mail inbox · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  requireRole(context, request, "admin");
+  requirePermission(context, request, { mail: ["read"] });
   const base = env().MAIL_CATCHER_URL;
   if (!base) throw data({ message: "The mail inbox exists only on development machines." }, { status: 404 });
   const res = await fetch(`${base}/email`).catch(() => null);

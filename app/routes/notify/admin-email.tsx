@@ -5,7 +5,7 @@ import { emailLogRows } from "~/features/notify/notifications.server";
 import { EMAIL_STATUSES } from "~/features/notify/statuses";
 import { Pager, withParams } from "~/components/Pager";
 import { askedPage } from "~/lib/paging";
-import { requireRole } from "~/lib/session.server";
+import { requirePermission } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/admin-email";
@@ -13,7 +13,7 @@ import type { Route } from "./+types/admin-email";
 export const meta: Route.MetaFunction = () => [{ title: "E-mail log · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  requireRole(context, request, "admin");
+  requirePermission(context, request, { mail: ["read"] });
   const asked = new URL(request.url).searchParams.get("status");
   const status = asked && (EMAIL_STATUSES as readonly string[]).includes(asked) ? asked : null;
   const { rows, page } = await emailLogRows(status, askedPage(new URL(request.url)));

@@ -4,16 +4,14 @@ import { Cautions, RetestTimer, TubTabs } from "~/components/plan/plan-ui";
 import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
 import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
 import { dayAndClock, longDate } from "~/features/plan/time";
-import { requireUser } from "~/lib/session.server";
 import { userUnits } from "~/features/plan/units.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/setup";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Routines · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const view = await setupView(tub, new Date(), await userUnits(user.id));
   // Times as words from the server only (the browser's zone rules may differ).
   const finishedWords = view.tub.firstFillCompletedAt ? dayAndClock(view.tub.firstFillCompletedAt, view.tub.timeZone) : null;
@@ -21,8 +19,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "care");
+  const { user, tub } = await tubGuard({ context, request, params }, "care");
   const form = await request.formData();
   const intent = form.get("intent");
   let result;

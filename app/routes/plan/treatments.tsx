@@ -4,15 +4,14 @@ import { Button, Card, EmptyState, Field, Input, Notice, PageTitle, Select } fro
 import { ownerProducts } from "~/features/plan/catalogue.server";
 import { activeTimer, deleteTreatment, recentTreatments, recordTreatment } from "~/features/plan/plan.server";
 import { dayAndClock, safeZone, toLocalInput } from "~/features/plan/time";
-import { requireUser, safeRedirect } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { safeRedirect } from "~/lib/session.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/treatments";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Treatments · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const now = new Date();
   const zone = safeZone(tub.timeZone);
   const [rows, products] = await Promise.all([recentTreatments(tub.id, 100), ownerProducts(tub.ownerId)]);
@@ -41,8 +40,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "care");
+  const { user, tub } = await tubGuard({ context, request, params }, "care");
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "delete") {

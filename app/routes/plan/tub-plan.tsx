@@ -7,15 +7,13 @@ import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components
 import { parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
 import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "~/features/plan/shared";
 import { dayAndClock } from "~/features/plan/time";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/tub-plan";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Plan · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const url = new URL(request.url);
   const whatIf = parseWhatIf(url.searchParams);
   const view = await tubPlan(tub, { whatIf: whatIf.readings, units: await userUnits(user.id) });
@@ -28,8 +26,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "care");
+  const { user, tub } = await tubGuard({ context, request, params }, "care");
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "reset-targets") {

@@ -5,13 +5,13 @@ import { listUsers, setBanned, setRole } from "~/features/clients/users.server";
 import { Pager, withParams } from "~/components/Pager";
 import { askedPage, searchText } from "~/lib/paging";
 import { ROLE_NAMES } from "~/lib/permissions";
-import { requireRole } from "~/lib/session.server";
+import { requirePermission } from "~/lib/session.server";
 import type { Route } from "./+types/admin-users";
 
 export const meta: Route.MetaFunction = () => [{ title: "Users · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  const admin = requireRole(context, request, "admin");
+  const admin = requirePermission(context, request, { user: ["list"] });
   const url = new URL(request.url);
   const q = searchText(url);
   const { users, page } = await listUsers({ q, page: askedPage(url) });
@@ -19,7 +19,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
-  const admin = requireRole(context, request, "admin");
+  const admin = requirePermission(context, request, { user: ["list"] });
   const fd = await request.formData();
   const intent = String(fd.get("intent") ?? "");
   const userId = String(fd.get("userId") ?? "");

@@ -3,14 +3,14 @@ import { StatusBadge, UnconfirmedMark } from "~/components/status";
 import { Card, EmptyState, PageTitle, cx } from "~/components/ui";
 import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clients/clients.server";
 import { askedPage, searchText } from "~/lib/paging";
-import { requireRole } from "~/lib/session.server";
+import { requirePermission } from "~/lib/session.server";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/clients";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clients · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  const user = requireRole(context, request, "technician", "admin");
+  const user = requirePermission(context, request, { client: ["look-after"] });
   const url = new URL(request.url);
   const q = searchText(url);
   const asked = url.searchParams.get("show");

@@ -2,9 +2,8 @@ import { data, redirect } from "react-router";
 import { z } from "zod";
 import { Button, Card, EmptyState, Field, Input, Notice, PageTitle, TextArea } from "~/components/ui";
 import { addNote, ClientInputError, deleteNote, notesFor, updateNote } from "~/features/clients/clients.server";
-import { hasRole } from "~/lib/permissions";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { can } from "~/lib/permissions";
+import { tubGuard } from "~/lib/tub-access.server";
 import { Day } from "~/components/When";
 import type { Route } from "./+types/notes";
 
@@ -20,10 +19,9 @@ function todayAt(timeZone: string, now = new Date()) {
 }
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const notes = await notesFor(tub);
-  const admin = hasRole(user, "admin");
+  const admin = can(user, { note: ["edit-any"] });
   return {
     tub: { id: tub.id, name: tub.name },
     relation,
@@ -49,8 +47,7 @@ const noteForm = (today: string) =>
   });
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "care");
+  const { user, tub } = await tubGuard({ context, request, params }, "care");
   const fd = await request.formData();
   const intent = String(fd.get("intent") ?? "add");
   const noteId = String(fd.get("noteId") ?? "");

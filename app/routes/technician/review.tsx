@@ -3,14 +3,14 @@ import { Pager } from "~/components/Pager";
 import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
 import { askedPage } from "~/lib/paging";
-import { requireRole } from "~/lib/session.server";
+import { requirePermission } from "~/lib/session.server";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/review";
 
 export const meta: Route.MetaFunction = () => [{ title: "Review readings · Dipwell" }];
 
 export async function loader({ context, request }: Route.LoaderArgs) {
-  const user = requireRole(context, request, "technician", "admin");
+  const user = requirePermission(context, request, { review: ["read"] });
   const url = new URL(request.url);
   const queue = await reviewQueue(user, { page: askedPage(url), signal: request.signal });
   const words = timeWords(request);
@@ -33,7 +33,7 @@ function corrections(fd: FormData): Record<string, number> | string {
 }
 
 export async function action({ context, request }: Route.ActionArgs) {
-  const user = requireRole(context, request, "technician", "admin");
+  const user = requirePermission(context, request, { review: ["update"] });
   const fd = await request.formData();
   const readingId = String(fd.get("readingId") ?? "");
   const page = Math.max(1, Number.parseInt(String(fd.get("page") ?? "1"), 10) || 1);

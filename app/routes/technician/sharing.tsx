@@ -1,8 +1,7 @@
 import { data, redirect } from "react-router";
 import { Button, Card, EmptyState, Field, Input, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, inviteTechnician, revokeAccess, sharingFor, withdrawInvitation } from "~/features/clients/clients.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/sharing";
@@ -10,8 +9,7 @@ import type { Route } from "./+types/sharing";
 export const meta: Route.MetaFunction = () => [{ title: "Sharing · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "own");
+  const { user, tub } = await tubGuard({ context, request, params }, "own");
   const { access, invites } = await sharingFor(tub);
   return {
     tub: { id: tub.id, name: tub.name },
@@ -22,8 +20,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "own");
+  const { user, tub } = await tubGuard({ context, request, params }, "own");
   const fd = await request.formData();
   const intent = String(fd.get("intent") ?? "");
   try {

@@ -3,8 +3,7 @@ import { ButtonLink, Card, EmptyState, Notice, PageTitle, BackLink } from "~/com
 import { latestReading } from "~/features/readings/readings.server";
 import { batchExpired, currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
 import { db } from "~/lib/db.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import { stripChart } from "~/db/schema";
 import { eq } from "drizzle-orm";
 import { timeWords } from "~/lib/dates";
@@ -13,8 +12,7 @@ import type { Route } from "./+types/detail";
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const current = await currentChartFor(tub);
   const chart = current ? await db.query.stripChart.findFirst({ where: eq(stripChart.id, current.batch.chartId) }) : null;
   const url = new URL(request.url);

@@ -2,16 +2,14 @@ import { data, Form, redirect } from "react-router";
 import { BackLink, Button, Card, PageTitle } from "~/components/ui";
 import { TubForm } from "~/features/tubs/TubForm";
 import { listBatches, parseTubForm, setArchived, updateTub } from "~/features/tubs/tubs.server";
-import { requireUser } from "~/lib/session.server";
 import { userUnits } from "~/features/plan/units.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/edit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Tub settings · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "own");
+  const { user, tub } = await tubGuard({ context, request, params }, "own");
   const units = await userUnits(user.id);
   const volume = tub.volumeUnit === "USgal" ? tub.volumeLitres / 3.785411784 : tub.volumeUnit === "UKgal" ? tub.volumeLitres / 4.54609 : tub.volumeLitres;
   return {
@@ -24,8 +22,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "own");
+  const { user, tub } = await tubGuard({ context, request, params }, "own");
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "archive" || intent === "restore") {

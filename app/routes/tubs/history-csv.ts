@@ -1,12 +1,10 @@
 // GET /tubs/:tubId/history.csv: every reading of the tub as a spreadsheet, streamed.
 import { historyCsvStream } from "~/features/readings/readings.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/history-csv";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "view");
+  const { user, tub } = await tubGuard({ context, request, params }, "view");
   const name = tub.name.replace(/[^\w-]+/g, "-").replace(/^-|-$/g, "").toLowerCase() || "tub";
   return new Response(historyCsvStream(tub, request.signal), {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="dipwell-${name}-readings.csv"` },

@@ -2,16 +2,14 @@
 import { ButtonLink, Card, EmptyState, PageTitle, cx, BackLink } from "~/components/ui";
 import { historyPage, HISTORY_SORTS } from "~/features/readings/readings.server";
 import { askedPage } from "~/lib/paging";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/history";
 
 export const meta: Route.MetaFunction = () => [{ title: "History · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "view");
+  const { user, tub } = await tubGuard({ context, request, params }, "view");
   const url = new URL(request.url);
   const sortParam = url.searchParams.get("sort");
   // Only the table's own columns (never an inherited key such as "__proto__").

@@ -4,7 +4,7 @@ import { ButtonLink, Card, EmptyState, Notice, PageTitle } from "~/components/ui
 import { glanceByTub } from "~/features/readings/readings.server";
 import { archivedTubs, tubListPage } from "~/features/tubs/tubs.server";
 import { askedPage, searchText } from "~/lib/paging";
-import { hasRole } from "~/lib/permissions";
+import { can } from "~/lib/permissions";
 import { requireUser } from "~/lib/session.server";
 import type { Route } from "./+types/list";
 
@@ -20,7 +20,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
     verified: url.searchParams.has("verified"),
     justArchived: url.searchParams.has("archived"),
     archived: await archivedTubs(user),
-    isTechnician: hasRole(user, "technician", "admin"),
+    isTechnician: can(user, { client: ["look-after"] }),
     q, page, own,
     tubs: tubs.map((t) => ({ ...t, glance: glance.get(t.id) ?? null })),
   };

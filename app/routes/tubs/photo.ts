@@ -2,13 +2,11 @@
 // ?size=thumb gives a small WebP for lists.
 import { streamObject } from "~/lib/storage.server";
 import { photoForTub, thumbnailKey } from "~/features/readings/readings.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/photo";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "view");
+  const { user, tub } = await tubGuard({ context, request, params }, "view");
   const p = await photoForTub(tub, params.photoId);
   if (!p) return new Response("We could not find that photo.", { status: 404 });
   if (new URL(request.url).searchParams.get("size") === "thumb") {

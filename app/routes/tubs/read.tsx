@@ -6,8 +6,7 @@ import { Countdown } from "~/components/reading/Countdown";
 import { PhotoUpload } from "~/components/reading/PhotoUpload";
 import { BackLink, Button, ButtonLink, Card, Notice, PageTitle } from "~/components/ui";
 import { maxPhotoBytes } from "~/features/readings/readings.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/read";
 
 export const meta: Route.MetaFunction = () => [{ title: "New reading · Dipwell" }];
@@ -15,8 +14,7 @@ export const meta: Route.MetaFunction = () => [{ title: "New reading · Dipwell"
 const WAIT_SECONDS = 15;
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "care");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "care");
   return { tub: { id: tub.id, name: tub.name, hasBatch: Boolean(tub.batchId), archived: Boolean(tub.archivedAt) }, canEdit: relation !== "technician", maxBytes: maxPhotoBytes(), retake: new URL(request.url).searchParams.has("retake") };
 }
 

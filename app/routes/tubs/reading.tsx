@@ -5,16 +5,14 @@ import { useEffect, useState } from "react";
 import { data, Form, redirect, useNavigation, useRevalidator } from "react-router";
 import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/reading";
 
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub, relation } = await requireTub(user, params.tubId, "view");
+  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const review = await loadReview(tub, params.readingId);
   if (!review) throw data({ message: "We could not find that reading." }, { status: 404 });
   const url = new URL(request.url);
@@ -29,8 +27,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "care");
+  const { user, tub } = await tubGuard({ context, request, params }, "care");
   const form = await request.formData();
   const result = await confirmReading(user, tub, params.readingId, form);
   if (!result.ok) {

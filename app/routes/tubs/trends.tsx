@@ -4,15 +4,13 @@ import { useState } from "react";
 import { TrendCharts } from "~/components/reading/TrendCharts";
 import { BackLink, ButtonLink, PageTitle } from "~/components/ui";
 import { TREND_PERIODS } from "~/features/readings/periods";
-import { requireUser } from "~/lib/session.server";
-import { requireTub } from "~/lib/tubs.server";
+import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/trends";
 
 export const meta: Route.MetaFunction = () => [{ title: "Trends · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const user = requireUser(context, request);
-  const { tub } = await requireTub(user, params.tubId, "view");
+  const { user, tub } = await tubGuard({ context, request, params }, "view");
   const asked = Number(new URL(request.url).searchParams.get("days"));
   const days = (TREND_PERIODS as readonly number[]).includes(asked) ? asked : TREND_PERIODS[0];
   return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, days };

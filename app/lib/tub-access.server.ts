@@ -1,0 +1,53 @@
+// Every tub a request touches goes through here: who may see it, who may change
+// it. A tub the user may not see is "not found" (404), so its existence is not
+// revealed; an action the user may not take on a tub they can see is 403.
+import { and, eq, isNull } from "drizzle-orm";
+import { data, type RouterContextProvider } from "react-router";
+import { tub, tubAccess } from "../db/schema";
+import type { SessionUser } from "./auth.server";
+import { db } from "./db.server";
+import { can } from "./permissions";
+import { requireUser } from "./session.server";
+
+export type Tub = typeof tub.$inferSelect;
+/** view: read it; care: add readings, treatments, notes (owner, technician with access, admin); own: settings, sharing, archive */
+export type TubNeed = "view" | "care" | "own";
+export type TubRelation = "owner" | "technician" | "admin";
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | null> {
+  if (t.ownerId === user.id) return "owner";
+  if (can(user, { tub: ["all"] })) return "admin";
+  if (can(user, { tub: ["shared"] })) {
+    const access = await db.query.tubAccess.findFirst({
+      where: and(eq(tubAccess.tubId, t.id), eq(tubAccess.technicianId, user.id), isNull(tubAccess.revokedAt)),
+    });
+    if (access) return "technician";
+  }
+  return null;
+}
+
+export async function requireTub(user: SessionUser, tubId: string | undefined, need: TubNeed = "view") {
+  const notFound = () => data({ message: "We could not find that tub." }, { status: 404 });
+  if (!tubId || !UUID.test(tubId)) throw notFound();
+  const found = await db.query.tub.findFirst({ where: eq(tub.id, tubId) });
+  if (!found) throw notFound();
+  const relation = await tubRelation(user, found);
+  if (!relation) throw notFound();
+  if (need === "own" && relation !== "owner" && relation !== "admin") {
+    throw data({ message: "Only the tub's owner can do that." }, { status: 403 });
+  }
+  return { tub: found, relation };
+}
+
+type TubArgs = { context: Readonly<RouterContextProvider>; request: Request; params: { tubId?: string } };
+
+/**
+ * The tub guard of every page whose URL takes a tub id, before it reads the request body:
+ * the signed-in user (or a redirect to sign in), the tub they `need`, and how they relate to it.
+ */
+export async function tubGuard({ context, request, params }: TubArgs, need: TubNeed) {
+  const user = requireUser(context, request);
+  return { user, ...(await requireTub(user, params.tubId, need)) };
+}
