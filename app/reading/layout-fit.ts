@@ -68,6 +68,9 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   const scaleRange = lengthOk ? 0.05 : 0.12;
   const fits: LayoutFit[] = [];
   let best: LayoutFit | null = null;
+  // Middles and half-lengths (mm) of the spans scored: 70 % of each pad, 60 % of each gap.
+  const padMid = layout.pads.map(([a, b]) => (a + b) / 2), padHalf = layout.pads.map(([a, b]) => ((b - a) / 2) * 0.7);
+  const gapMid = layout.gaps.map(([a, b]) => (a + b) / 2), gapHalf = layout.gaps.map(([a, b]) => Math.max(0.15, ((b - a) / 2) * 0.6));
   for (const tipSide of [1, -1] as const) {
     const dir = -tipSide as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
@@ -94,19 +97,14 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
       for (let k = 1 - scaleRange; k <= 1 + scaleRange + 1e-9; k += 0.01) {
         const sc = baseScale * k;
         for (let off = offMin; off <= offMax; off += offStep) {
-          const at = (mm: number) => tip + dir * (off + mm * sc);
+          // t of a point mm from the tip: tip + dir × (off + mm × sc)
+          const t0 = tip + dir * off, dt = dir * sc;
           let padScore = 0;
-          for (const [a, b] of layout.pads) {
-            const m = (a + b) / 2, h = ((b - a) / 2) * 0.7;
-            padScore += diff.meanBetween(at(m - h), at(m + h));
-          }
-          padScore /= layout.pads.length;
+          for (let j = 0; j < padMid.length; j++) padScore += diff.meanBetween(t0 + dt * (padMid[j] - padHalf[j]), t0 + dt * (padMid[j] + padHalf[j]));
+          padScore /= padMid.length;
           let gapScore = 0;
-          for (const [a, b] of layout.gaps) {
-            const m = (a + b) / 2, h = Math.max(0.15, ((b - a) / 2) * 0.6);
-            gapScore += diff.meanBetween(at(m - h), at(m + h));
-          }
-          gapScore /= layout.gaps.length;
+          for (let j = 0; j < gapMid.length; j++) gapScore += diff.meanBetween(t0 + dt * (gapMid[j] - gapHalf[j]), t0 + dt * (gapMid[j] + gapHalf[j]));
+          gapScore /= gapMid.length;
           const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
           if (!bf || score > bf.score) bf = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
         }

@@ -38,14 +38,22 @@ function axisOf(c: StripCandidate, s: SearchCopy): Axis {
   return { cx: (c.cx + 0.5) * f, cy: (c.cy + 0.5) * f, ux: Math.cos(c.angle), uy: Math.sin(c.angle), width: c.width * f, length: c.length * f };
 }
 
-/** A strip of the chart's length with a clear pad pattern: no need to look further. */
-const settled = (g: StripGeometry | null) => !!g && g.lengthOk && g.convincing && g.rank > 15;
+/**
+ * No need to look further: a clear pad pattern on a strip of the chart's length, or one whose
+ * pads' colours lie close to the chart's swatches (a strip running out of the photo).
+ */
+const settled = (g: StripGeometry | null) => !!g && g.convincing && g.rank > 15 && (g.lengthOk || g.colourCost <= SETTLED_COLOUR_COST);
+/** Mean ΔE00 from the placed pads to their swatch paths below which a placement settles the search. */
+const SETTLED_COLOUR_COST = 5;
 
 export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): StripGeometry {
   const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
   const fit = (axis0: Axis) => {
+    // The fitted scale lies within about ±25 % of the one the width gives: a candidate far too
+    // narrow for a readable strip is not fitted at all.
+    if ((axis0.width / chart.strip.widthMm) * 1.5 < minPxPerMm) return null;
     const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
     if (g && g.pxPerMm < minPxPerMm) {
       traceLine(trace, "too small", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });

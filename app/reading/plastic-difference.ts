@@ -16,11 +16,18 @@ export type PlasticDifference = {
 export function localLight(profile: Profile, widthPx: number): Float32Array {
   const light = new Float32Array(profile.n);
   const reach = Math.max(3, Math.round(widthPx)), step = Math.max(1, Math.round(reach / 4));
-  const window: number[] = [];
+  const window = new Float32Array(Math.floor((2 * reach) / step) + 1);
   for (let i = 0; i < profile.n; i++) {
-    window.length = 0;
-    for (let j = i - reach; j <= i + reach; j += step) if (j >= 0 && j < profile.n && profile.valid[j]) window.push(profile.surface[j]);
-    light[i] = window.length ? median(window) : 0;
+    // Insertion sort into a small window, then its median.
+    let m = 0;
+    for (let j = i - reach; j <= i + reach; j += step) {
+      if (j < 0 || j >= profile.n || !profile.valid[j]) continue;
+      const v = profile.surface[j];
+      let k = m++;
+      while (k > 0 && window[k - 1] > v) (window[k] = window[k - 1]), k--;
+      window[k] = v;
+    }
+    light[i] = m === 0 ? 0 : m % 2 ? window[m >> 1] : (window[(m >> 1) - 1] + window[m >> 1]) / 2;
   }
   return light;
 }

@@ -1,23 +1,33 @@
 // One candidate axis → a placed strip: the axis refined on both long edges, the profile along it,
 // the strip's ends, the pad layout fitted, the tip told from the handle, and the pads placed.
-import { alongProfile } from "./axis-profile";
+import { alongProfile, type Profile } from "./axis-profile";
 import type { StripChart } from "./chart";
 import { traceLine, type Axis, type Interval, type PadPlacement, type StripGeometry, type Trace } from "./geometry";
 import type { RgbImage } from "./image";
 import { colourTrust, placementColourCost, pxPerMm, searchLayout, tAt, type Layout, type LayoutFit } from "./layout-fit";
-import { plasticDifference } from "./plastic-difference";
+import { plasticDifference, type PlasticDifference } from "./plastic-difference";
 import { median } from "./stats";
 import { refineAxis } from "./strip-axis";
 import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
 
-/**
- * Fits the chart's layout along one candidate axis. `edgeWalk`: when the colour difference does
- * not give the strip's length, its ends are taken from its long edges alone, and failing that the
- * layout is searched for anywhere along the axis at the scale given by the width.
- */
-export function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, edgeWalk: boolean, trace: Trace): StripGeometry | null {
+/** One candidate axis, refined, with its profile: what both ways of finding the ends share. */
+export type PreparedAxis = {
+  axis: Axis;
+  axis0: Axis;
+  profile: Profile;
+  diff: PlasticDifference;
+  /** px per mm from the strip's width. */
+  scaleFromWidth: number;
+  /** The chart's strip length in px at that scale. */
+  expectedLength: number;
+  /** Presence threshold for walking the ends, and the longest run below it bridged (px). */
+  threshold: number;
+  maxGap: number;
+};
+
+/** Refines a candidate axis on both long edges and profiles along it; null when nothing strip-like is there. */
+export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis): PreparedAxis | null {
   const axis = refineAxis(img, refineAxis(img, axis0));
-  const warnings: string[] = [];
   const widthPx = axis.width;
   if (!(widthPx > 5)) return null;
   const scaleFromWidth = widthPx / chart.strip.widthMm;
@@ -30,6 +40,19 @@ export function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEn
   const threshold = Math.max(6, Math.min(0.4 * handlePresence, 30));
   const maxPadMm = Math.max(...chart.pads.map((p) => p.sizeMm));
   const maxGap = maxPadMm * scaleFromWidth * 1.3 + 2;
+  const diff = plasticDifference(profile, axis.length, widthPx);
+  return { axis, axis0, profile, diff, scaleFromWidth, expectedLength, threshold, maxGap };
+}
+
+/**
+ * Fits the chart's layout along a prepared axis. `edgeWalk`: when the colour difference does
+ * not give the strip's length, its ends are taken from its long edges alone, and failing that the
+ * layout is searched for anywhere along the axis at the scale given by the width.
+ */
+export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layout, padEndMm: number, edgeWalk: boolean, trace: Trace): StripGeometry | null {
+  const { axis, axis0, profile, diff, scaleFromWidth, expectedLength, threshold, maxGap } = prepared;
+  const warnings: string[] = [];
+  const widthPx = axis.width;
   let plus = walkEnd(profile, profile.presence, threshold, maxGap, 1);
   let minus = walkEnd(profile, profile.presence, threshold, maxGap, -1);
   // Neither the colour nor the edges show the strip's ends (a pale strip on a pale surface): the
@@ -50,7 +73,6 @@ export function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEn
     lengthOk = false;
     scale = scaleFromWidth;
   }
-  const diff = plasticDifference(profile, axis.length, widthPx);
   const { fits, best: fitted } = searchLayout(chart, layout, profile, diff, { plus, minus, scale, scaleFromWidth, lengthOk, free, padEndMm });
   if (!fitted) return null;
   let best: LayoutFit = fitted;
@@ -113,9 +135,11 @@ export function fitStrip(img: RgbImage, chart: StripChart, layout: Layout, padEn
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
 export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace): StripGeometry | null {
-  const g = fitStrip(img, chart, layout, padEndMm, axis0, false, trace);
+  const prepared = prepareAxis(img, chart, axis0);
+  if (!prepared) return null;
+  const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;
-  const e = fitStrip(img, chart, layout, padEndMm, axis0, true, trace);
+  const e = fitStrip(prepared, chart, layout, padEndMm, true, trace);
   // The edges' ends win only with pads fitting at least as well: a confirmed length alone does not.
   if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) return e;
   return g;

@@ -1,4 +1,5 @@
-// Where a read's time goes, per photo: decode, locate (with the number of candidate fits), measure.
+// Where a read's time goes, per photo: decode, locate (with the number of candidate fits), measure,
+// in CPU milliseconds (decode's include libvips' worker threads).
 // The bench's photos are rendered once into a cache directory. Figures only, nothing asserted.
 //
 //   npx tsx tests/bench/reading-phases.ts [--cache /tmp/dipwell-bench-photos]
@@ -35,20 +36,22 @@ if (fs.existsSync(path.join(realDir, "chart-base.json"))) {
   const real = fs.readdirSync(realDir).filter((f) => /\.jpe?g$/i.test(f)).sort();
   for (const f of real.filter((_, k) => k % 5 === 2)) cases.push({ name: `real ${f}`, file: path.join(realDir, f), chart });
 }
-const ms = (t0: bigint) => Number(process.hrtime.bigint() - t0) / 1e6;
+// CPU time of this process (user + system), less disturbed than wall time on a busy machine.
+const now = () => { const u = process.cpuUsage(); return u.user + u.system; };
+const ms = (t0: number) => (now() - t0) / 1e3;
 for (let pass = 0; pass < 2; pass++)
   for (const c of cases) {
     const buf = fs.readFileSync(c.file);
-    let t = process.hrtime.bigint();
+    let t = now();
     const { image } = await decodePhoto(buf);
     const tDecode = ms(t);
     let fits = 0;
-    t = process.hrtime.bigint();
+    t = now();
     let tLocate = 0, tMeasure = 0, note = "";
     try {
       const g = locateStrip(image, c.chart, (l) => l.startsWith("walk") && fits++);
       tLocate = ms(t);
-      t = process.hrtime.bigint();
+      t = now();
       measurePads(image, c.chart, g);
       tMeasure = ms(t);
     } catch (e) {
