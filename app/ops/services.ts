@@ -3,7 +3,7 @@
 // 127.0.0.1. Used by `npm start` (start.ts) and `npm test` (test.ts).
 import { type ChildProcess, execFileSync, spawn, spawnSync } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
+import { appendFileSync, closeSync, existsSync, mkdirSync, openSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import net from "node:net";
 import path from "node:path";
 import pg from "pg";
@@ -184,14 +184,22 @@ export async function createDatabase(adminUrl: string, name: string, opts: { fre
 const children = new Set<ChildProcess>();
 let stoppingAll = false;
 
-export function spawnService(name: string, command: string, args: string[], opts: { cwd: string; env?: NodeJS.ProcessEnv; quiet?: boolean }) {
+export function spawnService(
+  name: string, command: string, args: string[],
+  opts: { cwd: string; env?: NodeJS.ProcessEnv; quiet?: boolean; /** appends the child's output here (with `quiet`) */ logFile?: string },
+) {
+  const log = opts.quiet && opts.logFile ? openSync(opts.logFile, "a") : undefined;
   const child = spawn(command, args, {
     cwd: opts.cwd,
     env: { ...process.env, ...opts.env },
-    stdio: opts.quiet ? ["ignore", "ignore", "pipe"] : ["ignore", "inherit", "inherit"],
+    stdio: opts.quiet ? ["ignore", log ?? "ignore", "pipe"] : ["ignore", "inherit", "inherit"],
   });
+  if (log !== undefined) closeSync(log);
   let stderr = "";
-  child.stderr?.on("data", (d) => (stderr = (stderr + d).slice(-4000)));
+  child.stderr?.on("data", (d) => {
+    stderr = (stderr + d).slice(-4000);
+    if (opts.logFile) appendFileSync(opts.logFile, d);
+  });
   child.on("exit", (code, signal) => {
     children.delete(child);
     if (code && !signal) console.error(`${name} stopped (exit ${code}). ${stderr.trim().split("\n").slice(-3).join(" ")}`);

@@ -13,7 +13,7 @@
 import { type ChildProcess } from "node:child_process";
 import { spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
-import { existsSync, readFileSync, rmSync } from "node:fs";
+import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { migrateDatabase } from "../../app/ops/migrate";
@@ -29,6 +29,8 @@ const folder = ".bench";
 const dataDir = path.join(root, folder);
 const buildDir = "build-bench";
 const base = `http://127.0.0.1:${P.app}`;
+/** The app's and the worker's output, kept for a failed run. */
+const logs = { app: path.join(dataDir, "app.log"), worker: path.join(dataDir, "worker.log") };
 const args = process.argv.slice(2);
 const num = (name: string, fallback: number) => {
   const i = args.indexOf(`--${name}`);
@@ -95,7 +97,8 @@ async function main() {
   try {
     const dbName = "dipwell_bench";
     const databaseUrl = postgres.url(dbName);
-    await createDatabase(postgres.url("postgres"), dbName);
+    // A new database each run (migrated by the seed), unless --reuse keeps an earlier seed.
+    await createDatabase(postgres.url("postgres"), dbName, { fresh: !args.includes("--reuse") });
     const sql = new pg.Pool({ connectionString: databaseUrl, max: 4 });
     const seeded = await sql
       .query(`select (select count(*)::int from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test') as tubs,
@@ -107,7 +110,7 @@ async function main() {
       console.log(`Reusing the seeded data (${seeded.tubs} tubs, ${seeded.readings} readings).`);
     } else {
       console.log("Seeding with SQL…");
-      const r = await seedScale({ tubs: TUBS, readings: READINGS, databaseUrl });
+      const r = await seedScale({ tubs: TUBS, readings: READINGS, databaseUrl, log: console.log });
       console.log(`Seeded in ${r.seconds.toFixed(1)} s: ${r.tubs} tubs, ${r.readings} readings, ${r.waiting} waiting for review.`);
     }
 
@@ -128,8 +131,9 @@ async function main() {
       const b = spawnSync(path.join(root, "node_modules", ".bin", "react-router"), ["build"], { cwd: root, stdio: ["ignore", "ignore", "inherit"], env });
       if (b.status !== 0) throw new Error("The app did not build.");
     }
-    spawnService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env, quiet: true });
-    worker = spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env, quiet: true });
+    for (const f of Object.values(logs)) writeFileSync(f, "");
+    spawnService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env, quiet: true, logFile: logs.app });
+    worker = spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env, quiet: true, logFile: logs.worker });
     await waitForPort(P.app, "the app", 60_000);
     // Let the worker create its queues before the outbox is used.
     await sleep(3000);
@@ -314,6 +318,10 @@ async function main() {
 
 main().catch((error) => {
   console.error(error instanceof Error ? error.message : error);
+  for (const [what, file] of Object.entries(logs)) {
+    const lines = existsSync(file) ? readFileSync(file, "utf8").trim().split("\n").filter((l) => !/^(GET|POST|PUT|HEAD) \//.test(l)) : [];
+    if (lines.length) console.error(`\nThe ${what}'s last output (${path.relative(root, file)}):\n${lines.slice(-15).join("\n")}`);
+  }
   stopChildren();
   process.exit(1);
 });
