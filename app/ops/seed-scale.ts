@@ -45,12 +45,14 @@ export async function seedScale(opts: ScaleOptions) {
     // per-row trigger that keeps that true for the app is not needed during the load.
     await client.query("set synchronous_commit = off");
     await client.query("begin");
-    // (with the cascades on: every row of an earlier scale seed goes with its user or chart)
-    // Tubs first (their readings, pads and treatments go with them), then the people: deleting
-    // both in one cascade would null a reading's author while its tub is already gone.
-    // Treatments point at readings (set null on delete, no index on that column): remove them first.
-    await step("earlier scale treatments removed", `delete from treatment where tub_id in (select t.id from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test')`);
-    await step("earlier scale tubs removed", `delete from tub where owner_id in (select id from "user" where email like '%@scale.lanternbay.test')`);
+    // An earlier scale seed goes first, child tables before parents and each in one set-based
+    // delete, so the cascades find nothing left to do row by row (with the foreign-key triggers
+    // on: rows of other tables that point at these go with them as usual).
+    const scaleTubs = `select t.id from tub t join "user" u on u.id = t.owner_id where u.email like '%@scale.lanternbay.test'`;
+    await step("earlier scale pads removed", `delete from reading_pad p using reading r where r.id = p.reading_id and r.tub_id in (${scaleTubs})`);
+    await step("earlier scale treatments removed", `delete from treatment where tub_id in (${scaleTubs})`);
+    await step("earlier scale readings removed", `delete from reading where tub_id in (${scaleTubs})`);
+    await step("earlier scale tubs removed", `delete from tub where id in (${scaleTubs})`);
     await step("earlier scale users removed", `delete from "user" where email like '%@scale.lanternbay.test'`);
     await step("earlier scale chart removed", `delete from strip_chart where name = 'Scale test chart (invented colours)'`);
     await client.query("set local session_replication_role = replica").catch(() => log("  (not a superuser: triggers stay on, the load is slower)"));
