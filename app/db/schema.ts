@@ -334,6 +334,8 @@ export const reading = pgTable(
       .where(sql`status in ('read', 'confirmed', 'manual') and (not needs_review or reviewed_at is not null)`),
     // Readings waiting for a technician: unsure and not yet reviewed (the review queue, the dashboard's counts).
     index("reading_waiting_idx").on(t.tubId, t.takenAt).where(sql`reviewed_at is null and needs_review`),
+    // The same readings oldest first across every tub: the review queue's pages without a sort.
+    index("reading_waiting_taken_idx").on(t.takenAt, t.id).where(sql`reviewed_at is null and needs_review`),
   ],
 );
 
@@ -408,7 +410,8 @@ export const treatment = pgTable(
     note: text("note"),
     createdAt: createdAt(),
   },
-  (t) => [index("treatment_tub_added_idx").on(t.tubId, t.addedAt)],
+  // by reading: removing a reading (or its tub) finds the treatments that point at it
+  (t) => [index("treatment_tub_added_idx").on(t.tubId, t.addedAt), index("treatment_reading_idx").on(t.readingId)],
 );
 
 /** A guided routine in progress, e.g. first-fill setup. */

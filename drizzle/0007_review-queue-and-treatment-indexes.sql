@@ -1,0 +1,2 @@
+CREATE INDEX "reading_waiting_taken_idx" ON "reading" USING btree ("taken_at","id") WHERE reviewed_at is null and needs_review;--> statement-breakpoint
+CREATE INDEX "treatment_reading_idx" ON "treatment" USING btree ("reading_id");
