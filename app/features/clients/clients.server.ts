@@ -2,7 +2,8 @@
 // dashboard of client tubs, the review queue of unsure readings, visit notes.
 import { randomBytes } from "node:crypto";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
-import { resolveTargets, type Parameter, type Range } from "~/chemistry";
+import type { Range } from "~/chemistry";
+import { tubTargets } from "~/features/plan/plan.server";
 import { chartVersion, invitation, notification, reading, readingPad, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
@@ -154,72 +155,129 @@ export const DASHBOARD_VIEWS = ["attention", "all"] as const;
 export type DashboardView = (typeof DASHBOARD_VIEWS)[number];
 
 type DashboardSqlRow = {
-  id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; everyDays: number; ownerName: string; timeZone: string;
+  id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string; everyDays: number; ownerName: string; timeZone: string;
   latestAt: Date | null; pads: { a: string; u: string | null; v: number | null }[] | null;
-  waiting: number; waitingNewest: Date | null;
+  waiting: number; waitingNewest: Date | null; overdue: boolean;
   trName: string | null; trAmount: number | null; trUnit: string | null; trAt: Date | null;
 };
 
-/**
- * One row per client tub, computed in PostgreSQL: the current water (the latest reading that is
- * sure: read without doubts, confirmed, entered by hand, or reviewed), the readings waiting for
- * review (count and newest), the last treatment. Each lookup is an index probe per tub
- * (reading_current_idx, reading_waiting_idx, treatment_tub_added_idx), so the cost grows with
- * the number of tubs, not with their history.
- */
-async function dashboardRows(user: SessionUser, q: string) {
-  // A named statement: planned once per connection, not on every visit to the dashboard.
-  const r = await db.$client.query<DashboardSqlRow>({
-    name: "dipwell-dashboard",
-    text: `select t.id, t.name, t.sanitiser, t.targets, t.test_every_days as "everyDays", o.name as "ownerName", t.time_zone as "timeZone",
-            cur.taken_at as "latestAt", cur.pads, w.n as waiting, w.newest as "waitingNewest",
-            tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
-       from tub t
-       join "user" o on o.id = t.owner_id
-       left join lateral (
-         select r.taken_at,
-                (select json_agg(json_build_object('a', p.analyte, 'u', p.unit, 'v', coalesce(p.confirmed_value, p.read_value)) order by p.analyte)
-                   from reading_pad p where p.reading_id = r.id) as pads
-           from reading r
-          where r.tub_id = t.id and r.status in ('read', 'confirmed', 'manual') and (not r.needs_review or r.reviewed_at is not null)
-          order by r.taken_at desc limit 1
-       ) cur on true
-       left join lateral (
-         select count(*)::int as n, max(r.taken_at) as newest
-           from reading r where r.tub_id = t.id and r.reviewed_at is null and r.needs_review
-       ) w on true
-       left join lateral (
-         select x.product_name, x.amount, x.unit, x.added_at from treatment x where x.tub_id = t.id order by x.added_at desc limit 1
-       ) tr on true
-      where ${clientTubFilter("t")}
-        and ($2::text is null or t.name ilike $2 or o.name ilike $2)`,
-    values: [technicianParam(user), q ? likePattern(q) : null],
-  });
-  return r.rows;
+type DashboardTotals = { tubs: number; attention: number; waiting: number; outOfRange: number; overdue: number; listed: number };
+type DashboardTotalsSql = { allTubs: number; allAttention: number; allWaiting: number; allOutOfRange: number; allOverdue: number; allListed: number };
+
+/** A tub's target bands as its own pages show them (its guidance and overrides; broken overrides ignored). */
+function bandsOf(t: { sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }): Partial<Record<string, Range>> {
+  return tubTargets({ sanitiser: t.sanitiser, targets: t.targets as Tub["targets"], guidance: t.guidance }) as unknown as Record<string, Range>;
 }
 
-function targetsOf(sanitiser: "chlorine" | "bromine", overrides: unknown): Partial<Record<string, Range>> {
-  try {
-    return resolveTargets(sanitiser, (overrides ?? {}) as Partial<Record<Parameter, Partial<Range>>>) as unknown as Record<string, Range>;
-  } catch {
-    return resolveTargets(sanitiser) as unknown as Record<string, Range>;
-  }
+/**
+ * The dashboard in PostgreSQL, ordered and paged there: per client tub the current water (the
+ * latest sure reading: read without doubts, confirmed, entered by hand, or reviewed), the readings
+ * waiting for review (count and newest) and whether a value of the current water is outside the
+ * tub's target bands; tubs needing attention first (readings to review 4, out of range 2, test
+ * overdue 1), then by name. Totals over every client tub come from the same pass. Each lookup is
+ * an index probe per tub (reading_current_idx, reading_waiting_idx, the pads of one reading), so
+ * the cost grows with the number of tubs, not with their history; the pads, owner and last
+ * treatment are fetched for the rows of the page only.
+ *
+ * The bands come from the chemistry code, once per distinct sanitiser, guidance and overrides
+ * among the tubs (usually a handful), passed in as one JSON value.
+ */
+async function dashboardPage(user: SessionUser, opts: { q: string; view: DashboardView; offset: number; signal?: AbortSignal }, now: Date) {
+  const scope = [technicianParam(user), opts.q ? likePattern(opts.q) : null];
+  const inScope = `${clientTubFilter("t")} and ($2::text is null or t.name ilike $2 or exists (select 1 from "user" o where o.id = t.owner_id and o.name ilike $2))`;
+  const kinds = (
+    await db.$client.query<{ sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }>(
+      `select distinct t.sanitiser, coalesce(t.targets, 'null'::jsonb) as targets, t.guidance from tub t where ${inScope}`,
+      scope,
+    )
+  ).rows;
+  stopIfAborted(opts.signal);
+  const bands = kinds.flatMap((k, i) =>
+    Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ i, a: analyte, min: r.min, max: r.max }] : [])),
+  );
+  const kindJson = kinds.map((k, i) => ({ i, s: k.sanitiser, t: k.targets, g: k.guidance }));
+  const r = await db.$client.query<DashboardSqlRow & DashboardTotalsSql & { score: number | null }>({
+    // A named statement: planned once per connection, not on every visit to the dashboard.
+    name: "dipwell-dashboard-page",
+    text: `with kind as (
+        select (k->>'i')::int as i, k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance from jsonb_array_elements($3::jsonb) k
+      ), band as (
+        select (b->>'i')::int as i, b->>'a' as analyte, (b->>'min')::float8 as min, (b->>'max')::float8 as max from jsonb_array_elements($4::jsonb) b
+      ), scored as materialized (
+        select x.*, (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
+          from (
+            select t.id, t.name, t.owner_id, t.test_every_days, t.time_zone, t.sanitiser, t.targets, t.guidance, cur.id as cur_id, cur.taken_at as latest_at,
+                   w.n as waiting, w.newest as waiting_newest,
+                   (cur.taken_at is null or cur.taken_at + t.test_every_days * interval '24 hours' < $5::timestamptz) as overdue,
+                   exists (
+                     select 1 from reading_pad p join band b on b.i = k.i and b.analyte = p.analyte
+                      where p.reading_id = cur.id
+                        and (coalesce(p.confirmed_value, p.read_value) < b.min or coalesce(p.confirmed_value, p.read_value) > b.max)
+                   ) as out_of_range
+              from tub t
+              join kind k on k.sanitiser = t.sanitiser::text and k.targets = coalesce(t.targets, 'null'::jsonb) and k.guidance = t.guidance
+              left join lateral (
+                select r.id, r.taken_at from reading r
+                 where r.tub_id = t.id and r.status in ('read', 'confirmed', 'manual') and (not r.needs_review or r.reviewed_at is not null)
+                 order by r.taken_at desc limit 1
+              ) cur on true
+              left join lateral (
+                select count(*)::int as n, max(r.taken_at) as newest
+                  from reading r where r.tub_id = t.id and r.reviewed_at is null and r.needs_review
+              ) w on true
+             where ${inScope}
+            offset 0
+          ) x
+      ), totals as (
+        select count(*)::int as "allTubs", count(*) filter (where score > 0)::int as "allAttention", coalesce(sum(waiting), 0)::int as "allWaiting",
+               count(*) filter (where out_of_range)::int as "allOutOfRange", count(*) filter (where overdue)::int as "allOverdue",
+               (case when $6::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed"
+          from scored
+      )
+      select totals.*, p.score, p.id, p.name, p.sanitiser, p.targets, p.guidance, p.test_every_days as "everyDays", p.time_zone as "timeZone",
+             o.name as "ownerName", p.latest_at as "latestAt", p.waiting, p.waiting_newest as "waitingNewest", p.overdue,
+             (select json_agg(json_build_object('a', x.analyte, 'u', x.unit, 'v', coalesce(x.confirmed_value, x.read_value)) order by x.analyte)
+                from reading_pad x where x.reading_id = p.cur_id) as pads,
+             tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
+        from totals
+        left join lateral (
+          select * from scored
+           where $6::text <> 'attention' or score > 0
+           order by score desc, name collate "und-x-icu", id
+           limit $7 offset (case when $8::int < totals."allListed" then $8::int else 0 end)
+        ) p on true
+        left join "user" o on o.id = p.owner_id
+        left join lateral (
+          select x.product_name, x.amount, x.unit, x.added_at from treatment x where x.tub_id = p.id order by x.added_at desc limit 1
+        ) tr on true
+       order by p.score desc, p.name collate "und-x-icu", p.id`,
+    values: [...scope, JSON.stringify(kindJson), JSON.stringify(bands), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
+  });
+  const [first] = r.rows;
+  const totals: DashboardTotals = first
+    ? { tubs: first.allTubs, attention: first.allAttention, waiting: first.allWaiting, outOfRange: first.allOutOfRange, overdue: first.allOverdue, listed: first.allListed }
+    : { tubs: 0, attention: 0, waiting: 0, outOfRange: 0, overdue: 0, listed: 0 };
+  return { totals, rows: r.rows.filter((x) => x.id !== null) };
 }
 
 /**
  * The technicians' dashboard: every client tub's state, those needing attention first
  * (readings to review, water out of range, test overdue), one page at a time, with totals.
- * `q` searches tub and owner names.
+ * `q` searches tub and owner names. A page past the end gives the first page.
  */
 export async function dashboard(
   user: SessionUser,
   opts: { page?: number; q?: string; view?: DashboardView; signal?: AbortSignal } = {},
   now = new Date(),
 ) {
-  const found = await dashboardRows(user, opts.q ?? "");
+  const view = opts.view ?? "all";
+  const asked = Number.isInteger(opts.page) && opts.page! >= 1 && opts.page! <= 1_000_000 ? opts.page! : 1;
+  const found = await dashboardPage(user, { q: opts.q ?? "", view, offset: (asked - 1) * DASHBOARD_PAGE_SIZE, signal: opts.signal }, now);
   stopIfAborted(opts.signal);
-  const all = found.map((t) => {
-    const targets = targetsOf(t.sanitiser, t.targets);
+  const { listed, ...totals } = found.totals;
+  const page = pageOf(listed, DASHBOARD_PAGE_SIZE, asked);
+  const rows = found.rows.map((t) => {
+    const targets = bandsOf(t);
     const outOfRange = (t.pads ?? []).flatMap((p) => {
       const r = targets[p.a];
       if (p.v === null || !r || (r.min === 0 && r.max === 0)) return [];
@@ -239,7 +297,7 @@ export async function dashboard(
       outOfRange,
       /** each value of the current water with its status, for words and icons on the card */
       statuses,
-      overdue: !dueAt || dueAt < now,
+      overdue: t.overdue,
       dueAt: dueAt?.toISOString() ?? null,
       waiting: t.waiting,
       /** a reading newer than the current water that is unsure and not yet reviewed */
@@ -247,24 +305,7 @@ export async function dashboard(
       lastTreatment: t.trName && t.trAt ? { name: t.trName, amount: t.trAmount, unit: t.trUnit, at: t.trAt.toISOString() } : null,
     };
   });
-  // Tubs that need attention first: readings to review, water out of range, test overdue.
-  const score = (r: (typeof all)[number]) => (r.waiting ? 4 : 0) + (r.outOfRange.length ? 2 : 0) + (r.overdue ? 1 : 0);
-  const scored = all.map((r) => ({ r, s: score(r) }));
-  scored.sort((a, b) => b.s - a.s || a.r.name.localeCompare(b.r.name) || a.r.id.localeCompare(b.r.id));
-  const view = opts.view ?? "all";
-  const listed = view === "attention" ? scored.filter((x) => x.s > 0) : scored;
-  const page = pageOf(listed.length, DASHBOARD_PAGE_SIZE, opts.page ?? 1);
-  return {
-    rows: listed.slice(page.offset, page.offset + page.size).map((x) => x.r),
-    page,
-    totals: {
-      tubs: all.length,
-      attention: scored.filter((x) => x.s > 0).length,
-      waiting: all.reduce((n, r) => n + r.waiting, 0),
-      outOfRange: all.filter((r) => r.outOfRange.length).length,
-      overdue: all.filter((r) => r.overdue).length,
-    },
-  };
+  return { rows, page, totals };
 }
 
 // ---------------------------------------------------------------- review
