@@ -403,18 +403,29 @@ export async function glanceByTub(tubIds: string[], now = new Date()) {
   const out = new Map<string, TubGlance>();
   if (!tubIds.length) return out;
   const tubs = await db.select().from(tubTable).where(inArray(tubTable.id, tubIds));
-  const latest = await db
-    .selectDistinctOn([reading.tubId], { id: reading.id, tubId: reading.tubId, takenAt: reading.takenAt, status: reading.status, reviewedAt: reading.reviewedAt })
-    .from(reading)
-    .where(and(inArray(reading.tubId, tubs.map((t) => t.id)), ne(reading.status, "failed")))
-    .orderBy(reading.tubId, desc(reading.takenAt));
+  // Each tub's newest reading (not a failed one): one index probe per tub (reading_tub_taken_idx),
+  // however long its history. The list is one page of tubs, so it stays short.
+  const latest = (
+    await db.$client.query<{ id: string; tubId: string; takenAt: Date; status: string; reviewedAt: Date | null }>(
+      `select r.id, t.id as "tubId", r.taken_at as "takenAt", r.status, r.reviewed_at as "reviewedAt"
+         from unnest($1::uuid[]) as t(id)
+         cross join lateral (
+           select r.id, r.taken_at, r.status, r.reviewed_at from reading r
+            where r.tub_id = t.id and r.status <> 'failed' order by r.taken_at desc limit 1
+         ) r`,
+      [tubs.map((t) => t.id)],
+    )
+  ).rows;
   if (!latest.length) return out;
   const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, latest.map((r) => r.id)));
+  const tubById = new Map(tubs.map((t) => [t.id, t]));
+  const padsByReading = new Map<string, (typeof pads)[number][]>();
+  for (const p of pads) padsByReading.set(p.readingId, [...(padsByReading.get(p.readingId) ?? []), p]);
   for (const r of latest) {
-    const t = tubs.find((x) => x.id === r.tubId)!;
+    const t = tubById.get(r.tubId)!;
     const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
-    const values = pads
-      .filter((p) => p.readingId === r.id && (p.confirmedValue ?? p.readValue) !== null)
+    const values = (padsByReading.get(r.id) ?? [])
+      .filter((p) => (p.confirmedValue ?? p.readValue) !== null)
       .map((p) => {
         const value = (p.confirmedValue ?? p.readValue)!;
         return { analyte: p.analyte, label: parameterLabel(p.analyte), value, unit: p.unit ?? "", status: rangeStatus(value, targets.get(p.analyte)) };
