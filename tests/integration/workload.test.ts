@@ -235,3 +235,88 @@ describe("lists an admin works through", () => {
     expect((e.data as { page: { page: number } }).page.page).toBe(1);
   });
 });
+
+describe("every list that grows with the business pages, and a bad page number is never a 500", () => {
+  let tech: TestUser, owner: TestUser, admin: TestUser;
+  let firstTub: string;
+  const BAD = ["page=abc", "page=0", "page=-2", "page=2.5", "page=1e9", "page=99999", "page=%00", "page=" + "9".repeat(40)];
+
+  beforeAll(async () => {
+    [tech, owner, admin] = await Promise.all([createUser("technician"), createUser("owner"), createUser("admin")]);
+    // 30 client tubs: two pages of the tub list and the dashboard (24 a page).
+    const ids: string[] = [];
+    for (let i = 0; i < 30; i++) {
+      const t = await createTub(owner.id, { name: `Paged tub ${String(i).padStart(2, "0")}` });
+      await shareTub(t.id, tech.id, owner.id);
+      ids.push(t.id);
+    }
+    firstTub = ids[0];
+  });
+
+  it("the tub list: 24 a page, the rest on page 2, a bad page gives page 1", async () => {
+    const mod = await importRoute("routes/tubs/list.tsx");
+    const get = async (q: string) => {
+      const r = await callRoute(mod.loader!, { url: `/tubs?${q}`, user: tech });
+      expect(r.status, q).toBe(200);
+      return r.data as { page: { page: number; total: number }; tubs: { id: string; name: string }[] };
+    };
+    const one = await get("page=1");
+    const two = await get("page=2");
+    expect(one.page.total).toBe(30);
+    expect(one.tubs).toHaveLength(24);
+    expect(two.tubs).toHaveLength(6);
+    expect(new Set([...one.tubs, ...two.tubs].map((t) => t.id)).size).toBe(30);
+    for (const q of BAD) {
+      const d = await get(q);
+      expect(d.page.page, q).toBe(1);
+      expect(d.tubs.map((t) => t.id), q).toEqual(one.tubs.map((t) => t.id));
+    }
+  });
+
+  it("the dashboard: the same pages in SQL order, a bad page or view gives the first page", async () => {
+    const mod = await importRoute("routes/technician/clients.tsx");
+    const get = async (q: string) => {
+      const r = await callRoute(mod.loader!, { url: `/clients?${q}`, user: tech });
+      expect(r.status, q).toBe(200);
+      return r.data as { page: { page: number; pages: number }; rows: { id: string; name: string }[]; totals: { tubs: number; overdue: number } };
+    };
+    const one = await get("page=1");
+    const two = await get("page=2");
+    expect(one.totals).toMatchObject({ tubs: 30, overdue: 30 });
+    expect(one.page.pages).toBe(2);
+    // Every tub is untested (overdue), so the order is by name.
+    const names = [...one.rows, ...two.rows].map((r) => r.name);
+    expect(names).toEqual(Array.from({ length: 30 }, (_, i) => `Paged tub ${String(i).padStart(2, "0")}`));
+    for (const q of [...BAD, "show=%27;drop", "show=attention&page=7"]) {
+      const d = await get(q);
+      expect(d.page.page, q).toBe(1);
+      expect(d.rows.map((r) => r.id), q).toEqual(one.rows.map((r) => r.id));
+    }
+  });
+
+  it("the review queue, a tub's history, the e-mail log and the users list answer bad pages with page 1", async () => {
+    const checks: [string, string, TestUser, (d: unknown) => number][] = [
+      ["routes/technician/review.tsx", "/clients/review", tech, (d) => (d as { page: { page: number } }).page.page],
+      ["routes/tubs/history.tsx", `/tubs/${firstTub}/history`, owner, (d) => (d as { page: number }).page],
+      ["routes/notify/admin-email.tsx", "/admin/email", admin, (d) => (d as { page: { page: number } }).page.page],
+      ["routes/technician/admin-users.tsx", "/admin/users", admin, (d) => (d as { page: { page: number } }).page.page],
+    ];
+    for (const [file, path, user, pageOfData] of checks) {
+      const mod = await importRoute(file);
+      for (const q of [...BAD, "sort=__proto__&dir=sideways", "status=nonsense&page=3"]) {
+        const r = await callRoute(mod.loader!, { url: `${path}?${q}`, params: { tubId: firstTub }, user });
+        expect(r.status, `${path}?${q}`).toBe(200);
+        expect(pageOfData(r.data), `${path}?${q}`).toBe(1);
+      }
+    }
+  });
+
+  it("the dashboard and the review queue stop once the browser has gone away", async () => {
+    const gone = AbortSignal.abort();
+    for (const work of [dashboard(asTech(tech), { signal: gone }), reviewQueue(asTech(tech), { signal: gone })]) {
+      const stopped = await work.then(() => null, (e: unknown) => e);
+      expect(stopped).toBeInstanceOf(Response);
+      expect((stopped as Response).status).toBe(499);
+    }
+  });
+});
