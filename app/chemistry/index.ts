@@ -1,7 +1,7 @@
 // Water-chemistry engine: pure functions, no database, no HTTP.
 
 export * from "./types";
-export { PARAMETER_NAMES, parameterName } from "./names";
+export { ANALYTES, analyteLabel, analyteName, analyteWord, type KnownAnalyte } from "./analytes";
 export { planTreatment, AUTHORITY_NOTE, DEFAULT_TEMPERATURE_C, type PlanOptions } from "./plan";
 export { langelier, BALANCED_BAND, type LangelierInput, type LangelierResult } from "./lsi";
 export { DEFAULT_TARGETS, GUIDANCE, GUIDANCE_IDS, guidanceProfile, resolveTargets } from "./targets";

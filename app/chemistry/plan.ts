@@ -25,6 +25,7 @@ import {
   type AcidBaseEffect,
   type WaterState,
 } from "./carbonate";
+import { analyteName, analyteWord } from "./analytes";
 import { CH_PER_FC_FROM_CAL_HYPO, CYA_PER_FC_FROM_DICHLOR, MOLAR_MASS } from "./constants";
 import { alkalinityDose, bromideDose, bromineDose, chlorineDose, hardnessDose, labelDose, molarDose, type Amount } from "./doses";
 import { activeLock } from "./lock";
@@ -85,21 +86,12 @@ export const TDS_RISE_DRAIN = 1500;
 export const AUTHORITY_NOTE =
   "Product labels, local codes and, for public or commercial spas, licensed operators decide; this plan is guidance for a private tub.";
 
-const PARAMETER_WORDS: Record<Parameter, string> = {
-  free_chlorine: "free chlorine",
-  bromine: "bromine",
-  ph: "pH",
-  total_alkalinity: "total alkalinity",
-  calcium_hardness: "calcium hardness",
-  cyanuric_acid: "cyanuric acid",
-};
 
 const finite = (x: number | null | undefined): x is number => typeof x === "number" && Number.isFinite(x);
 const r1 = (x: number) => Math.round(x * 10) / 10;
 const r2 = (x: number) => Math.round(x * 100) / 100;
 const unitOf = (p: Parameter) => (p === "ph" ? "" : " mg/L");
 const fmt = (p: Parameter, x: number) => (p === "ph" ? r2(x).toFixed(1) : String(r1(x)));
-const cap = (s: string) => (s.startsWith("pH") ? s : s.charAt(0).toUpperCase() + s.slice(1));
 
 function timeWords(d: Date, timeZone: string): string {
   try {
@@ -159,7 +151,7 @@ function doseStep(
 ) {
   const hours = waitHoursFor(product, { shock: opts.shock });
   const shown = displayAmount(product, amount, ctx.units);
-  const lead = opts.lead ?? `${direction === "raise" ? "Raise" : "Lower"} ${PARAMETER_WORDS[parameter]} from ${fmt(parameter, from)} to about ${fmt(parameter, to)}${unitOf(parameter)}`;
+  const lead = opts.lead ?? `${direction === "raise" ? "Raise" : "Lower"} ${analyteWord(parameter)} from ${fmt(parameter, from)} to about ${fmt(parameter, to)}${unitOf(parameter)}`;
   const words =
     `${lead}: add ${shown.text} of ${product.name}. ${extraWords}` +
     (opts.shock
@@ -274,7 +266,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
     judgements.push({ parameter: "combined_chlorine", value: combined, min: 0, max: guidance.combinedChlorineMax, status: combined > guidance.combinedChlorineMax ? "high" : "in_range" });
   for (const j of judgements)
     if (j.status === "not_measured" && j.parameter !== "cyanuric_acid" && j.parameter !== "combined_chlorine")
-      notes.push(`${cap(PARAMETER_WORDS[j.parameter as Parameter])} was not measured, so the plan could not judge it.`);
+      notes.push(`${analyteName(j.parameter)} was not measured, so the plan could not judge it.`);
 
   const drain = finite(input.bathersPerDay) && input.bathersPerDay > 0 ? drainIntervalDays(input.volumeLitres, input.bathersPerDay) : null;
   if (drain !== null)
@@ -467,7 +459,7 @@ function sanitiserStage(ctx: Ctx, san: number | null, cya: number | null, combin
   if (san === null) return;
   if (san > range.max) {
     ctx.notes.push(
-      `${cap(PARAMETER_WORDS[param])} is ${san} mg/L, above ${range.max}: add no sanitiser and keep everyone out until it falls into range (cover off, jets on).` +
+      `${analyteName(param)} is ${san} mg/L, above ${range.max}: add no sanitiser and keep everyone out until it falls into range (cover off, jets on).` +
         (san > 10 ? " Above 10 mg/L with bathers present is an imminent health hazard in the Model Aquatic Health Code." : ""),
     );
     return;
@@ -826,7 +818,7 @@ function predict(
   const shockStep = [...ctx.steps].reverse().find((x) => x.shock && x.kind === "dose");
   const phOk = s.ph !== null && s.ph >= ctx.targets.ph.min && s.ph <= ctx.targets.ph.max;
   const sanOk = s.san !== null && s.san >= sanRange.min && (s.san <= sanRange.max || Boolean(shockStep));
-  const sanName = ctx.sanitiser === "chlorine" ? "free chlorine" : "bromine";
+  const sanName = analyteWord(ctx.sanitiser === "chlorine" ? "free_chlorine" : "bromine");
   const totalHours = ctx.steps.reduce((h, x) => h + (x.kind === "wait" ? 0 : x.retestAfterHours), 0);
   let usableAfter: string | null = null;
   let usableWords: string;
@@ -926,7 +918,7 @@ function makeHeadline(
   o: { judgements: Judgement[]; lockUntil: Date | null; timeZone: string; predicted: PredictedWater; san: number | null; combined: number | null; guidanceMax: number; mode: Mode },
 ): Headline {
   const sanParam = ctx.sanitiser === "chlorine" ? "free_chlorine" : "bromine";
-  const sanName = ctx.sanitiser === "chlorine" ? "Free chlorine" : "Bromine";
+  const sanName = analyteName(sanParam);
   const range = ctx.targets[sanParam];
   const first = ctx.steps[0];
   const todo = first ? (first.kind === "dose" ? `First: ${first.words.split(":")[0]}: ${first.amountText ?? ""}.`.replace(/: \./, ".") : first.words.split(". ")[0] + ".") : "";

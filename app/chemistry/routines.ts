@@ -1,5 +1,6 @@
 // Guided routines with timers: first fill, routine top-ups, foam treatment.
 
+import { analyteWord } from "./analytes";
 import { bromineDose, chlorineDose, labelDose, type Amount } from "./doses";
 import { planTreatment } from "./plan";
 import { DEFAULT_PRODUCTS, WAIT_HOURS, cautionsFor, pickProduct } from "./products";
@@ -96,7 +97,7 @@ export function firstFillRoutine(o: RoutineOptions & { fillReadings?: Readings; 
     );
   items.push(
     plain(
-      `The tub is ready when every pad is in range (${sanParam === "free_chlorine" ? "free chlorine" : "bromine"} ${t[sanParam].min}–${t[sanParam].max} mg/L after the start-up shock has fallen back, pH, alkalinity). If not, make a new plan from the new reading.`,
+      `The tub is ready when every pad is in range (${analyteWord(sanParam)} ${t[sanParam].min}–${t[sanParam].max} mg/L after the start-up shock has fallen back, pH, alkalinity). If not, make a new plan from the new reading.`,
       null,
     ),
   );
@@ -111,7 +112,7 @@ export function routineTopUp(o: RoutineOptions & { bathersPerDay?: number }): Ro
   const per1 = sanitiserDose(o, 1);
   if (per1)
     items.push(
-      dosed(`Top up: ${amountText(per1.amount, per1.product, o.units)} raises ${o.sanitiser === "chlorine" ? "free chlorine" : "bromine"} by 1 mg/L in this tub; add it for each 1 mg/L below the aim, after use or at least an hour before the next.`, WAIT_HOURS.sanitiser * 60, per1.product, per1.amount, o.units),
+      dosed(`Top up: ${amountText(per1.amount, per1.product, o.units)} raises ${analyteWord(o.sanitiser === "chlorine" ? "free_chlorine" : "bromine")} by 1 mg/L in this tub; add it for each 1 mg/L below the aim, after use or at least an hour before the next.`, WAIT_HOURS.sanitiser * 60, per1.product, per1.amount, o.units),
     );
   if (o.sanitiser === "chlorine") {
     const shock = sanitiserDose(o, 10);

@@ -2,7 +2,7 @@
 
 import { z } from "zod";
 import { AVAILABLE_CHLORINE, LITRES_PER_US_GALLON } from "./constants";
-import { PARAMETER_NAMES } from "./names";
+import { ANALYTES } from "./analytes";
 import { GUIDANCE_IDS } from "./targets";
 import type { WaterInput } from "./types";
 
@@ -32,7 +32,7 @@ const LABELS: Record<string, string> = {
   targets: "The target ranges",
   treatmentLog: "The treatment log",
   now: "The time now",
-  ...PARAMETER_NAMES,
+  ...Object.fromEntries(Object.entries(ANALYTES).map(([k, w]) => [k, w.name])),
 };
 
 function label(path: PropertyKey[]): string {

@@ -1,11 +1,10 @@
 // Pieces of the plan, treatment and setup pages.
 import { useEffect, useState } from "react";
 import { Form } from "react-router";
-import { PARAMETER_NAMES, type Headline, type PlanStep, type WaterBalance } from "~/chemistry";
+import { analyteWord, type Headline, type PlanStep, type WaterBalance } from "~/chemistry";
 import { Button, ButtonLink, Card, Notice, cx } from "~/components/ui";
 import { remainingWords } from "~/features/plan/time";
 
-export { PARAMETER_NAMES };
 
 export const CHEMICAL_NAMES: Record<string, string> = {
   sodium_dichloroisocyanurate_dihydrate: "sodium dichloroisocyanurate dihydrate",
@@ -98,7 +97,7 @@ export function StepCard({ step, tubId, readingId, canLog, current, redirectTo, 
               ? "Wait, then retest"
               : step.kind === "replace_water"
                 ? "Replace water"
-                : `${step.direction === "raise" ? "Raise" : "Lower"} ${PARAMETER_NAMES[step.parameter ?? ""]?.toLowerCase().replace(/^ph$/, "pH") ?? ""}`}
+                : `${step.direction === "raise" ? "Raise" : "Lower"} ${step.parameter ? analyteWord(step.parameter) : ""}`}
             {step.shock && <span className="ml-2 rounded bg-alert-soft px-2 py-0.5 text-xs font-bold text-alert">shock</span>}
             {step.provisional && <span className="ml-2 rounded bg-sand px-2 py-0.5 text-xs font-bold text-ink-soft">estimate: retest first</span>}
           </p>

@@ -16,7 +16,7 @@ import { likePattern, pageOf, stopIfAborted } from "~/lib/paging";
 import type { Tub } from "~/lib/tub-access.server";
 import { parseChart } from "~/reading/chart";
 import { rangeStatus } from "~/lib/range-status";
-import { analyteLabel } from "./labels";
+import { analyteName } from "~/chemistry";
 
 export class ClientInputError extends Error {
   constructor(message: string, public status = 400) {
@@ -148,7 +148,6 @@ async function looksAfter(user: SessionUser, tubId: string) {
   return (r.rowCount ?? 0) > 0;
 }
 
-const label = analyteLabel;
 
 export const DASHBOARD_PAGE_SIZE = 24;
 export const DASHBOARD_VIEWS = ["attention", "all"] as const;
@@ -282,11 +281,11 @@ export async function dashboard(
       const r = targets[p.a];
       if (p.v === null || !r || (r.min === 0 && r.max === 0)) return [];
       const unit = p.u ? ` ${p.u}` : "";
-      if (p.v < r.min) return [`${label(p.a)} low (${p.v}${unit}; aim ${r.min}–${r.max})`];
-      if (p.v > r.max) return [`${label(p.a)} high (${p.v}${unit}; aim ${r.min}–${r.max})`];
+      if (p.v < r.min) return [`${analyteName(p.a)} low (${p.v}${unit}; aim ${r.min}–${r.max})`];
+      if (p.v > r.max) return [`${analyteName(p.a)} high (${p.v}${unit}; aim ${r.min}–${r.max})`];
       return [];
     });
-    const statuses = (t.pads ?? []).flatMap((p) => (p.v === null ? [] : [{ analyte: p.a, label: label(p.a), value: p.v, unit: p.u ?? "", status: rangeStatus(p.v, targets[p.a]) }]));
+    const statuses = (t.pads ?? []).flatMap((p) => (p.v === null ? [] : [{ analyte: p.a, label: analyteName(p.a), value: p.v, unit: p.u ?? "", status: rangeStatus(p.v, targets[p.a]) }]));
     const dueAt = t.latestAt ? new Date(t.latestAt.getTime() + t.everyDays * 86_400_000) : null;
     return {
       id: t.id,
@@ -368,7 +367,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
         pads: (padsByReading.get(r.id) ?? [])
           .sort((a, b) => a.analyte.localeCompare(b.analyte))
           .map((p) => ({
-            id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? label(p.analyte), unit: p.unit,
+            id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? analyteName(p.analyte), unit: p.unit,
             readValue: p.readValue, confirmedValue: p.confirmedValue, needsReview: p.needsReview, reason: p.reviewReason,
             confidence: p.confidence, hasCrop: Boolean(p.cropKey && r.photoId), swatches: chartPads?.get(p.analyte)?.swatches ?? [],
           })),
@@ -396,7 +395,7 @@ export async function markReviewed(user: SessionUser, readingId: string, correct
       const corrected = corrections[p.id];
       if (corrected !== undefined && corrected !== p.readValue) {
         await tx.update(readingPad).set({ confirmedValue: corrected, source: "corrected" }).where(eq(readingPad.id, p.id));
-        changes.push(`${label(p.analyte)}: ${p.readValue ?? "no value"} → ${corrected}${p.unit ? ` ${p.unit}` : ""}`);
+        changes.push(`${analyteName(p.analyte)}: ${p.readValue ?? "no value"} → ${corrected}${p.unit ? ` ${p.unit}` : ""}`);
       } else if (p.confirmedValue === null && p.readValue !== null) {
         await tx.update(readingPad).set({ confirmedValue: p.readValue, source: "confirmed" }).where(eq(readingPad.id, p.id));
       }

@@ -3,6 +3,7 @@
 // one-click way to stop that kind of message (List-Unsubscribe headers, RFC
 // 2369 and RFC 8058, plus a link in the footer).
 import sharp from "sharp";
+import { analyteWord } from "../../chemistry/analytes";
 import { formatDateTime, formatDay } from "../../lib/dates";
 import { layout, type MailContent } from "../../lib/emails";
 import { env } from "../../lib/env.server";
@@ -68,7 +69,6 @@ ${lines.join("\n")}</svg>`;
   return sharp(Buffer.from(svg)).png().toBuffer();
 }
 
-const LABEL: Record<string, string> = { free_chlorine: "free chlorine", bromine: "bromine", ph: "pH", total_alkalinity: "total alkalinity" };
 
 /** The e-mail (and in-app notification) for one due reminder. */
 export async function reminderEmail(r: DueReminder, to: Recipient, week: WeekReading[] = []): Promise<OutgoingEmail> {
@@ -118,7 +118,7 @@ export async function reminderEmail(r: DueReminder, to: Recipient, week: WeekRea
       const tests = new Set(week.map((w) => w.takenAt.getTime())).size;
       const latest = (names: string[]) => week.filter((w) => names.includes(w.analyte)).sort((a, b) => b.takenAt.getTime() - a.takenAt.getTime())[0];
       const san = latest(["free_chlorine", "bromine"]), ph = latest(["ph"]);
-      const latestLine = [san && `${LABEL[san.analyte]} ${san.value} ppm`, ph && `pH ${ph.value}`].filter(Boolean).join(", ");
+      const latestLine = [san && `${analyteWord(san.analyte)} ${san.value} ppm`, ph && `pH ${ph.value}`].filter(Boolean).join(", ");
       const summary = tests === 0
         ? "There were no water tests this week."
         : `${tests} water test${tests === 1 ? "" : "s"} this week.${latestLine ? ` Latest: ${latestLine}.` : ""}`;

@@ -6,7 +6,8 @@ import {
   DEFAULT_TARGETS,
   ProductError,
   WaterInputError,
-  parameterName,
+  analyteLabel,
+  analyteName,
   planTreatment,
   resolveTargets,
   validateWaterInput,
@@ -24,8 +25,8 @@ import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
-import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";
-export { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "./shared";
+import { READING_KEYS, TARGET_PARAMETERS } from "./shared";
+export { READING_KEYS, TARGET_PARAMETERS } from "./shared";
 import { clock, dayOnly, fromLocalInput, safeZone } from "./time";
 
 export interface LatestReading {
@@ -162,7 +163,7 @@ export function parseTargets(t: Pick<Tub, "sanitiser">, form: FormData): { ok: t
     const raw = { min: String(form.get(`${p}.min`) ?? "").trim(), max: String(form.get(`${p}.max`) ?? "").trim() };
     const min = raw.min === "" ? def.min : Number(raw.min.replace(",", "."));
     const max = raw.max === "" ? def.max : Number(raw.max.replace(",", "."));
-    const name = parameterName(p);
+    const name = analyteName(p);
     if (!Number.isFinite(min) || !Number.isFinite(max)) fields[p] = `${name}: the lowest and highest values must be numbers.`;
     else if (min < 0 || max < 0) fields[p] = `${name}: the range cannot be negative.`;
     else if (min >= max) fields[p] = `${name}: the lowest value must be below the highest.`;
@@ -249,7 +250,7 @@ export function parseWhatIf(params: URLSearchParams): { readings: Readings | nul
     const raw = (params.get(key) ?? "").trim().replace(",", ".");
     if (raw === "") continue;
     const n = Number(raw);
-    if (!Number.isFinite(n)) return { readings: null, error: `${READING_LABELS[key]} must be a number (got "${raw}").` };
+    if (!Number.isFinite(n)) return { readings: null, error: `${analyteLabel(key)} must be a number (got "${raw}").` };
     readings[key] = n;
   }
   if (Object.keys(readings).length === 0) return { readings: null, error: "Enter at least one reading for a what-if plan." };

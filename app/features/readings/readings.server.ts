@@ -16,7 +16,8 @@ import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tub-access.server";
 import { daysAgo, rangeStatus, type RangeStatus } from "~/lib/range-status";
-import { currentChartFor, parameterLabel, tubTargets } from "../tubs/tubs.server";
+import { currentChartFor, tubTargets } from "../tubs/tubs.server";
+import { analyteName } from "~/chemistry";
 
 export { PhotoError, maxPhotoBytes } from "~/features/photos/intake.server";
 
@@ -106,7 +107,7 @@ export async function loadReview(t: Tub, readingId: string | undefined) {
       const target = targets.get(analyte);
       return {
         analyte,
-        label: cp?.label ?? parameterLabel(analyte),
+        label: cp?.label ?? analyteName(analyte),
         unit: cp?.unit ?? p?.unit ?? "",
         swatches: cp?.swatches.map((s) => ({ value: s.value, color: s.color })) ?? [],
         readValue: p?.readValue ?? null,
@@ -199,7 +200,7 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
       /** unsure and neither confirmed nor reviewed: not to be taken as the water */
       needsReview: r.needsReview && !r.reviewedAt && r.status !== "confirmed",
       pads: (padsOf.get(r.id) ?? [])
-        .map((p) => ({ analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, source: p.source })),
+        .map((p) => ({ analyte: p.analyte, label: analyteName(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, source: p.source })),
     })),
   };
 }
@@ -299,7 +300,7 @@ export async function trends(t: Tub, opts: { days?: number; now?: Date } = {}) {
     parameters: [...byAnalyte.entries()].map(([analyte, s]) => {
       const target = targets.get(analyte);
       return {
-        analyte, label: parameterLabel(analyte), unit: s.unit,
+        analyte, label: analyteName(analyte), unit: s.unit,
         target: target ? { min: target.min, max: target.max } : null,
         points: s.points,
       };
@@ -381,7 +382,7 @@ export async function latestReading(t: Tub) {
       const value = p.confirmedValue ?? p.readValue;
       const target = targets.get(p.analyte);
       return {
-        analyte: p.analyte, label: parameterLabel(p.analyte), unit: p.unit ?? "", value, needsReview: p.needsReview && p.confirmedValue === null,
+        analyte: p.analyte, label: analyteName(p.analyte), unit: p.unit ?? "", value, needsReview: p.needsReview && p.confirmedValue === null,
         target: target ? { min: target.min, max: target.max } : null, status: rangeStatus(value, target),
       };
     }),
@@ -428,7 +429,7 @@ export async function glanceByTub(tubIds: string[], now = new Date()) {
       .filter((p) => (p.confirmedValue ?? p.readValue) !== null)
       .map((p) => {
         const value = (p.confirmedValue ?? p.readValue)!;
-        return { analyte: p.analyte, label: parameterLabel(p.analyte), value, unit: p.unit ?? "", status: rangeStatus(value, targets.get(p.analyte)) };
+        return { analyte: p.analyte, label: analyteName(p.analyte), value, unit: p.unit ?? "", status: rangeStatus(value, targets.get(p.analyte)) };
       })
       .sort((a, b) => a.label.localeCompare(b.label));
     out.set(r.tubId, { ago: daysAgo(r.takenAt, now, t.timeZone), confirmed: r.status === "confirmed" || r.reviewedAt !== null, values });

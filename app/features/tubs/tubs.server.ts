@@ -1,7 +1,7 @@
 // Tub settings: create, edit, archive, with the volume helper and the strip batch in use.
 import { and, asc, desc, eq, isNotNull, isNull } from "drizzle-orm";
 import { z } from "zod";
-import { celsiusFromFahrenheit, estimateVolumeLitres, litresFromImperialGallons, litresFromUsGallons, parameterName, resolveTargets, type Guidance, type Parameter, type Range } from "~/chemistry";
+import { analyteName, celsiusFromFahrenheit, estimateVolumeLitres, litresFromImperialGallons, litresFromUsGallons, resolveTargets, type Guidance, type Parameter, type Range } from "~/chemistry";
 import { chartVersion, stripBatch, stripChart, tub } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
@@ -9,7 +9,6 @@ import { likePattern, pageOf } from "~/lib/paging";
 import { can } from "~/lib/permissions";
 import type { Tub } from "~/lib/tub-access.server";
 
-export const parameterLabel = parameterName;
 
 /** Today's date (YYYY-MM-DD, UTC) for "use by" checks: a batch may be used through its use-by day. */
 export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
@@ -176,7 +175,7 @@ export function tubTargets(t: Pick<Tub, "sanitiser" | "targets"> & Partial<Pick<
   }
   return (Object.entries(ranges) as [Parameter, Range][])
     .filter(([, r]) => r.max > 0)
-    .map(([p, r]) => ({ parameter: p, label: parameterLabel(p), min: r.min, max: r.max, aim: r.aim, source: r.source }));
+    .map(([p, r]) => ({ parameter: p, label: analyteName(p), min: r.min, max: r.max, aim: r.aim, source: r.source }));
 }
 
 export function displayVolume(t: Pick<Tub, "volumeLitres" | "volumeUnit">) {

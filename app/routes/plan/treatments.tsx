@@ -11,7 +11,7 @@ import type { Route } from "./+types/treatments";
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Treatments · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
+  const { tub, relation } = await tubGuard({ context, request, params }, "view");
   const now = new Date();
   const zone = safeZone(tub.timeZone);
   const [rows, products] = await Promise.all([recentTreatments(tub.id, 100), ownerProducts(tub.ownerId)]);

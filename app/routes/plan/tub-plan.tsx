@@ -1,11 +1,12 @@
 import { Form, data, redirect, useNavigation } from "react-router";
 import { AUTHORITY_NOTE, DEFAULT_TARGETS } from "~/chemistry";
-import { BalanceCard, FirstFillPrompt, PARAMETER_NAMES, PlanHeadline, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
+import { BalanceCard, FirstFillPrompt, PlanHeadline, RetestTimer, StepCard, TubTabs } from "~/components/plan/plan-ui";
 import { temperatureWords, volumeWords, type PlanStep } from "~/chemistry";
 import { userUnits } from "~/features/plan/units.server";
 import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components/ui";
 import { parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
-import { READING_KEYS, READING_LABELS, TARGET_PARAMETERS } from "~/features/plan/shared";
+import { READING_KEYS, TARGET_PARAMETERS } from "~/features/plan/shared";
+import { analyteLabel, analyteName } from "~/chemistry";
 import { dayAndClock } from "~/features/plan/time";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/tub-plan";
@@ -26,7 +27,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "care");
+  const { tub } = await tubGuard({ context, request, params }, "care");
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "reset-targets") {
@@ -74,7 +75,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
             <ul className="mt-2 flex flex-wrap gap-2 text-sm">
               {reading.pads.map((p) => (
                 <li key={p.analyte} className="rounded-lg bg-sand px-2 py-1">
-                  {PARAMETER_NAMES[p.analyte] ?? p.analyte} <strong>{fmtValue(p.analyte, p.value)}</strong>
+                  {analyteName(p.analyte)} <strong>{fmtValue(p.analyte, p.value)}</strong>
                 </li>
               ))}
             </ul>
@@ -107,7 +108,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
                 .filter((k) => plan.predicted[k] !== null)
                 .map((k) => (
                   <li key={k}>
-                    {k === "combined_chlorine" ? "Combined chlorine" : PARAMETER_NAMES[k]} <strong>{k === "ph" ? plan.predicted[k]!.toFixed(1) : plan.predicted[k]}</strong>
+                    {analyteName(k)} <strong>{k === "ph" ? plan.predicted[k]!.toFixed(1) : plan.predicted[k]}</strong>
                   </li>
                 ))}
               {plan.predicted.lsi !== null && (
@@ -154,7 +155,7 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
           <input type="hidden" name="whatif" value="1" />
           {READING_KEYS.filter((k) => (tub.sanitiser === "chlorine" ? k !== "bromine" : k !== "free_chlorine" && k !== "total_chlorine" && k !== "cyanuric_acid")).map((k) => (
             <label key={k} className="block text-sm">
-              <span className="block font-bold">{READING_LABELS[k]}</span>
+              <span className="block font-bold">{analyteLabel(k)}</span>
               <Input name={k} inputMode="decimal" defaultValue={whatIfValues?.[k] ?? (reading?.readings as Record<string, number | undefined> | undefined)?.[k]?.toString() ?? ""} />
             </label>
           ))}
@@ -176,15 +177,15 @@ export default function TubPlanPage({ loaderData, actionData }: Route.ComponentP
             const err = actionData?.fields?.[p];
             return (
               <fieldset key={p} className="rounded-xl border border-line p-3">
-                <legend className="px-1 font-bold">{PARAMETER_NAMES[p]}{p === "ph" ? "" : " (mg/L)"}</legend>
+                <legend className="px-1 font-bold">{analyteLabel(p)}</legend>
                 <div className="grid grid-cols-2 gap-3">
                   <label className="text-sm">
                     <span className="block">Lowest</span>
-                    <Input name={`${p}.min`} inputMode="decimal" defaultValue={String(r.min)} aria-label={`${PARAMETER_NAMES[p]} lowest`} />
+                    <Input name={`${p}.min`} inputMode="decimal" defaultValue={String(r.min)} aria-label={`${analyteName(p)} lowest`} />
                   </label>
                   <label className="text-sm">
                     <span className="block">Highest</span>
-                    <Input name={`${p}.max`} inputMode="decimal" defaultValue={String(r.max)} aria-label={`${PARAMETER_NAMES[p]} highest`} />
+                    <Input name={`${p}.max`} inputMode="decimal" defaultValue={String(r.max)} aria-label={`${analyteName(p)} highest`} />
                   </label>
                 </div>
                 <p className="mt-1 text-xs text-ink-soft">

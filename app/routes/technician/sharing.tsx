@@ -9,7 +9,7 @@ import type { Route } from "./+types/sharing";
 export const meta: Route.MetaFunction = () => [{ title: "Sharing · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "own");
+  const { tub } = await tubGuard({ context, request, params }, "own");
   const { access, invites } = await sharingFor(tub);
   return {
     tub: { id: tub.id, name: tub.name },

@@ -12,7 +12,7 @@ import type { Route } from "./+types/detail";
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
+  const { tub, relation } = await tubGuard({ context, request, params }, "view");
   const current = await currentChartFor(tub);
   const chart = current ? await db.query.stripChart.findFirst({ where: eq(stripChart.id, current.batch.chartId) }) : null;
   const url = new URL(request.url);

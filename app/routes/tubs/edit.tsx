@@ -22,7 +22,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ context, request, params }: Route.ActionArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "own");
+  const { tub } = await tubGuard({ context, request, params }, "own");
   const form = await request.formData();
   const intent = form.get("intent");
   if (intent === "archive" || intent === "restore") {

@@ -4,7 +4,7 @@ import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/history-csv";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const name = tub.name.replace(/[^\w-]+/g, "-").replace(/^-|-$/g, "").toLowerCase() || "tub";
   return new Response(historyCsvStream(tub, request.signal), {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="dipwell-${name}-readings.csv"` },

@@ -9,7 +9,7 @@ import type { Route } from "./+types/history";
 export const meta: Route.MetaFunction = () => [{ title: "History · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const url = new URL(request.url);
   const sortParam = url.searchParams.get("sort");
   // Only the table's own columns (never an inherited key such as "__proto__").

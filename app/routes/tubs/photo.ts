@@ -6,7 +6,7 @@ import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/photo";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const p = await photoForTub(tub, params.photoId);
   if (!p) return new Response("We could not find that photo.", { status: 404 });
   if (new URL(request.url).searchParams.get("size") === "thumb") {

@@ -14,7 +14,7 @@ export const meta: Route.MetaFunction = () => [{ title: "New reading · Dipwell"
 const WAIT_SECONDS = 15;
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub, relation } = await tubGuard({ context, request, params }, "care");
+  const { tub, relation } = await tubGuard({ context, request, params }, "care");
   return { tub: { id: tub.id, name: tub.name, hasBatch: Boolean(tub.batchId), archived: Boolean(tub.archivedAt) }, canEdit: relation !== "technician", maxBytes: maxPhotoBytes(), retake: new URL(request.url).searchParams.has("retake") };
 }
 

@@ -5,7 +5,7 @@ import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/reading-crop";
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const key = await cropKeyFor(tub, params.readingId, params.analyte);
   if (!key) return new Response("We could not find that pad.", { status: 404 });
   return streamObject(key, "image/webp");

@@ -12,7 +12,7 @@ import type { Route } from "./+types/reading";
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
+  const { tub, relation } = await tubGuard({ context, request, params }, "view");
   const review = await loadReview(tub, params.readingId);
   if (!review) throw data({ message: "We could not find that reading." }, { status: 404 });
   const url = new URL(request.url);

@@ -10,7 +10,7 @@ import type { Route } from "./+types/trends";
 export const meta: Route.MetaFunction = () => [{ title: "Trends · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { user, tub } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const asked = Number(new URL(request.url).searchParams.get("days"));
   const days = (TREND_PERIODS as readonly number[]).includes(asked) ? asked : TREND_PERIODS[0];
   return { tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone }, days };
