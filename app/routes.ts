@@ -11,6 +11,8 @@ export default [
   route("api/auth/*", "routes/api/auth.ts"),
   route("api/chart-versions/:versionId", "routes/technician/api-chart-version.ts"),
   route("api/chart-photos/:photoId", "routes/technician/api-chart-photo.ts"),
+  route("api/chart-batches/:batchId/uploads", "routes/technician/api-batch-uploads.ts"),
+  route("api/chart-batches/:batchId/photos", "routes/technician/api-batch-photos.ts"),
   route("api/tubs/:tubId/uploads", "routes/api/tubs.uploads.ts"),
   route("api/tubs/:tubId/photos", "routes/api/tubs.photos.ts"),
   route("api/tubs/:tubId/readings/:readingId", "routes/api/tubs.reading-status.ts"),

@@ -70,8 +70,8 @@ describe("calibrating a chart from a photo", () => {
     await screenshot(page, "20-chart-editor");
 
     await page.goto(`/charts/${created.chartId}/batches/${created.batchId}/calibrate`);
-    await page.locator('input[name="photo"]').setInputFiles({ name: "chart-card.jpg", mimeType: "image/jpeg", buffer: photo.jpeg });
-    await page.getByRole("button", { name: "Upload photo" }).click();
+    // Sent like every photo: presigned upload with a progress bar, then registered; the grid appears.
+    await page.getByTestId("chart-photo-input").setInputFiles({ name: "chart-card.jpg", mimeType: "image/jpeg", buffer: photo.jpeg });
     await page.locator('[data-testid="grid-photo"] svg[data-ready="yes"]').waitFor();
     await page.locator('[data-testid="grid-photo"] img').evaluate((img: HTMLImageElement) => (img.complete ? null : new Promise((r) => (img.onload = r))));
     await screenshot(page, "21-calibrate-photo-uploaded");

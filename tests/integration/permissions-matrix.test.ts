@@ -5,12 +5,13 @@
 import { randomUUID } from "node:crypto";
 import sharp from "sharp";
 import { beforeAll, describe, expect, it } from "vitest";
-import { createChart, uploadChartPhoto } from "~/features/charts/charts.server";
+import { createChart } from "~/features/charts/charts.server";
 import { db } from "~/lib/db.server";
 import * as s from "~/db/schema";
 import { eq } from "drizzle-orm";
 import { callRoute, createTub, createUser, shareTub, type TestUser } from "../support/fixtures";
 import { flatRoutes, importRoute, type FlatRoute } from "../support/routes";
+import { presignBatchUpload, registerBatchPhoto, sendChartPhoto, uploadBatchPhoto } from "../support/batch-photos";
 
 type Who = "owner" | "techWith" | "techWithout" | "stranger" | "admin" | "anon";
 const WHO: Who[] = ["owner", "techWith", "techWithout", "stranger", "admin", "anon"];
@@ -30,7 +31,7 @@ beforeAll(async () => {
   const tub = await createTub(users.owner.id, { batchId: chart.batchId });
   await shareTub(tub.id, users.techWith.id, users.owner.id);
   const jpeg = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#f0f0f0" } }).jpeg().toBuffer();
-  const photo = await uploadChartPhoto(users.techWith, chart.batchId, new File([new Uint8Array(jpeg)], "chart.jpg", { type: "image/jpeg" }));
+  const photo = { id: await sendChartPhoto(users.techWith, chart.batchId, jpeg) };
   const token = randomUUID();
   await db.insert(s.invitation).values({ tubId: tub.id, email: users.techWithout.email, token, invitedBy: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   ids = { tubId: tub.id, chartId: chart.chartId, batchId: chart.batchId, versionId: chart.versionId, chartPhotoId: photo.id, token };
@@ -126,5 +127,73 @@ describe("actions refuse those who may not act", () => {
     const mod = await importRoute("routes/technician/invitations.tsx");
     const result = await callRoute(mod.action!, { url: `/invitations/${ids.token}`, params: { token: ids.token }, user: users.stranger, form: {} });
     expect(result.status).toBe(403);
+  });
+});
+
+describe("chart-photo and reference-solution uploads", () => {
+  const calibrateUrl = () => `/charts/${ids.chartId}/batches/${ids.batchId}/calibrate`;
+  let jpeg: Buffer;
+  beforeAll(async () => {
+    jpeg = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#e8e4dc" } }).jpeg().toBuffer();
+  });
+
+  it("a presigned upload for a batch's photos: technicians and admins only", async () => {
+    for (const who of WHO) {
+      const r = await presignBatchUpload(who === "anon" ? null : users[who], ids.batchId, "image/jpeg", jpeg.length);
+      const want = who === "anon" ? 401 : who === "owner" || who === "stranger" ? 403 : 200;
+      expect(r.status, `presign as ${who}`).toBe(want);
+    }
+  });
+
+  it("an owner cannot register a chart photo, even with a technician's upload key", async () => {
+    const key = await uploadBatchPhoto(users.techWith, ids.batchId, jpeg);
+    for (const who of ["owner", "stranger", "anon"] as const) {
+      const r = await registerBatchPhoto(who === "anon" ? null : users[who], ids.batchId, key);
+      expect(r.status, `register as ${who}`).toBe(who === "anon" ? 401 : 403);
+    }
+    // Every technician may edit every chart (the product's rule), so one without the owner's tub may register it.
+    const r = await registerBatchPhoto(users.techWithout, ids.batchId, key);
+    expect(r.status).toBe(201);
+  });
+
+  it("an owner can never read a technician's chart photo", async () => {
+    const mod = await importRoute("routes/technician/api-chart-photo.ts");
+    const params = { photoId: ids.chartPhotoId };
+    for (const who of WHO) {
+      const r = await callRoute(mod.loader!, { url: `/api/chart-photos/${ids.chartPhotoId}`, params, user: who === "anon" ? null : users[who] });
+      const want = who === "anon" ? 401 : who === "owner" || who === "stranger" ? 403 : 200;
+      expect(r.status, `chart photo as ${who}`).toBe(want);
+      await r.response?.body?.cancel();
+    }
+  });
+
+  it("an owner cannot run the reference-solution refit, even with a technician's upload key", async () => {
+    const key = await uploadBatchPhoto(users.techWith, ids.batchId, jpeg);
+    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const params = { chartId: ids.chartId, batchId: ids.batchId };
+    for (const who of ["owner", "stranger", "anon"] as const) {
+      const r = await callRoute(mod.action!, { url: calibrateUrl(), params, user: who === "anon" ? null : users[who], form: { intent: "solutions", key_0: key, value_0_ph: "7.2" } });
+      expect(who === "anon" ? [302] : [403], `refit as ${who} answered ${r.status}`).toContain(r.status);
+    }
+  });
+
+  it("an upload key belongs to its tub or batch: it cannot be registered anywhere else", async () => {
+    // A batch's key is not a tub's strip photo (for the tub's owner).
+    const batchKey = await uploadBatchPhoto(users.techWith, ids.batchId, jpeg);
+    const tubPhotos = await importRoute("routes/api/tubs.photos.ts");
+    const asStrip = await callRoute(tubPhotos.action!, { url: `/api/tubs/${ids.tubId}/photos`, params: { tubId: ids.tubId }, user: users.owner, json: { key: batchKey } });
+    expect(asStrip.status).toBe(400);
+    expect((asStrip.data as { code: string }).code).toBe("bad_key");
+    // A tub's key is not a chart photo, and one batch's key is not another's.
+    const tubKey = `uploads/tubs/${ids.tubId}/${randomUUID()}.jpg`;
+    const other = await createChart(users.techWith, { name: `Other chart ${randomUUID().slice(0, 6)}`, lot: "M-2", expiresOn: null, definition: undefined });
+    for (const [batchId, key] of [[ids.batchId, tubKey], [other.batchId, batchKey]] as const) {
+      const r = await registerBatchPhoto(users.techWith, batchId, key);
+      expect(r.status).toBe(400);
+      expect((r.data as { code: string }).code).toBe("bad_key");
+    }
+    // An unknown batch is 404 for a technician, 403 for an owner.
+    expect((await presignBatchUpload(users.techWith, randomUUID(), "image/jpeg", 10)).status).toBe(404);
+    expect((await presignBatchUpload(users.owner, randomUUID(), "image/jpeg", 10)).status).toBe(403);
   });
 });

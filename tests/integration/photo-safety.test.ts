@@ -2,8 +2,9 @@
 // the length, the server keeps its own copy of the checked bytes under a key the browser never had
 // a URL for, and the photo, thumbnail and crop routes serve only the registered image type with
 // nosniff and a sandboxing Content-Security-Policy, whatever storage says the object is.
-// Also: refused uploads leave nothing in storage, a storage outage is a plain 503, and the chart
-// photo is checked on its bytes (real type, truncation).
+// Also: refused uploads leave nothing in storage, and chart-card and reference-solution photos go
+// through the same intake as strip photos (presigned upload, the limit refused before any byte is
+// sent, the real type and truncation checked on the bytes, refused objects deleted, abandoned ones swept).
 import { readFileSync } from "node:fs";
 import { HeadObjectCommand, PutObjectCommand } from "@aws-sdk/client-s3";
 import { eq } from "drizzle-orm";
@@ -17,6 +18,9 @@ import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
 import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
+import { presignBatchUpload, registerBatchPhoto, uploadBatchPhoto } from "../support/batch-photos";
+import { createChart } from "~/features/charts/charts.server";
+import { env } from "~/lib/env.server";
 import { importRoute } from "../support/routes";
 
 const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
@@ -137,5 +141,86 @@ describe("abandoned uploads are swept", () => {
     expect(await exists(key)).toBe(false);
     const kept = await db.select().from(s.photo).where(eq(s.photo.tubId, tubId));
     for (const k of kept) expect(await exists(k.s3Key)).toBe(true);
+  });
+});
+
+describe("chart-card and reference-solution photos: the same intake", () => {
+  let tech: TestUser;
+  let chart: { chartId: string; batchId: string };
+  beforeAll(async () => {
+    tech = await createUser("technician");
+    chart = await createChart(tech, { name: `Intake chart ${tech.id.slice(0, 6)}`, lot: "I-1", expiresOn: null, definition: chartJson });
+  });
+
+  it("refuses a file over the limit or of another type before any byte is sent, and signs type and length", async () => {
+    const max = env().MAX_PHOTO_BYTES;
+    const big = await presignBatchUpload(tech, chart.batchId, "image/jpeg", max + 1);
+    expect(big.status).toBe(400);
+    expect((big.data as { code: string }).code).toBe("too_large");
+    const svg = await presignBatchUpload(tech, chart.batchId, "image/svg+xml", 2_000);
+    expect((svg.data as { code: string }).code).toBe("wrong_type");
+    const ok = await presignBatchUpload(tech, chart.batchId, "image/png", 2_000);
+    expect(ok.status).toBe(200);
+    const url = new URL((ok.data as { url: string }).url);
+    expect((url.searchParams.get("X-Amz-SignedHeaders") ?? "").split(";")).toEqual(expect.arrayContaining(["content-length", "content-type"]));
+    expect((ok.data as { key: string }).key).toMatch(new RegExp(`^uploads/batches/${chart.batchId}/[0-9a-f-]{36}\\.png$`));
+  });
+
+  it("a chart photo is checked on its bytes; each refused upload is deleted and no photo recorded", async () => {
+    const svgScript = Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="600" height="400"><script>alert(1)</script><rect width="600" height="400"/></svg>');
+    const small = await sharp({ create: { width: 200, height: 120, channels: 3, background: "#ddd" } }).jpeg().toBuffer();
+    for (const [bytes, type, code] of [
+      [svgScript, "image/png", "wrong_type"], // SVG with a script, called a PNG (sharp decodes SVG: refused as not a photo type)
+      [await sharp(jpeg).png().toBuffer(), "image/jpeg", "wrong_type"], // PNG bytes called a JPEG
+      [jpeg.subarray(0, Math.floor(jpeg.length * 0.6)), "image/jpeg", "truncated"],
+      [small, "image/jpeg", "too_small"],
+    ] as const) {
+      const key = await uploadBatchPhoto(tech, chart.batchId, bytes, type);
+      const r = await registerBatchPhoto(tech, chart.batchId, key);
+      expect(r.status, code).toBe(400);
+      expect((r.data as { code: string }).code, JSON.stringify(r.data)).toBe(code);
+      expect(await exists(key)).toBe(false);
+    }
+    expect(await db.select().from(s.photo).where(eq(s.photo.batchId, chart.batchId))).toEqual([]);
+  });
+
+  it("a registered chart photo is kept under the batch's key by content, once, and served only as its type", async () => {
+    const card = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#f3f1ea" } }).jpeg().toBuffer();
+    const first = await registerBatchPhoto(tech, chart.batchId, await uploadBatchPhoto(tech, chart.batchId, card));
+    const again = await registerBatchPhoto(tech, chart.batchId, await uploadBatchPhoto(tech, chart.batchId, card));
+    expect(first.status).toBe(201);
+    const { photoId } = first.data as { photoId: string };
+    expect((again.data as { photoId: string }).photoId).toBe(photoId);
+    const row = (await db.query.photo.findFirst({ where: eq(s.photo.id, photoId) }))!;
+    expect(row.purpose).toBe("chart");
+    expect(row.s3Key).toBe(`batches/${chart.batchId}/photos/${row.sha256}.jpg`);
+    const route = await importRoute("routes/technician/api-chart-photo.ts");
+    const served = await callRoute(route.loader!, { url: "/x", params: { photoId }, user: tech });
+    expect(served.response!.headers.get("content-type")).toBe("image/jpeg");
+    expect(served.response!.headers.get("x-content-type-options")).toBe("nosniff");
+    expect(served.response!.headers.get("content-security-policy")).toMatch(/sandbox/);
+    await served.response!.arrayBuffer();
+  });
+
+  it("reference-solution photos: read through the intake, named when refused, never kept; abandoned uploads swept", async () => {
+    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const params = { chartId: chart.chartId, batchId: chart.batchId };
+    const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
+    const bad = await uploadBatchPhoto(tech, chart.batchId, jpeg.subarray(0, Math.floor(jpeg.length * 0.5)));
+    const good = await uploadBatchPhoto(tech, chart.batchId, jpeg);
+    const r = await callRoute(mod.action!, { url, params, user: tech, form: { intent: "solutions", key_0: good, value_0_ph: "7.6", key_1: bad, value_1_ph: "7.2" } });
+    expect(r.status).toBe(400);
+    expect((r.data as { form: string }).form).toMatch(/^Photo 2: Only part of that photo is there/);
+    expect(await exists(bad)).toBe(false);
+    const forged = await callRoute(mod.action!, { url, params, user: tech, form: { intent: "solutions", key_0: `uploads/tubs/${tubId}/${crypto.randomUUID()}.jpg`, value_0_ph: "7.6" } });
+    expect((forged.data as { form: string }).form).toMatch(/^Photo 1: That upload does not belong here/);
+    const ok = await callRoute(mod.action!, { url, params, user: tech, form: { intent: "solutions", key_0: good, value_0_ph: "7.6" } });
+    expect(ok.status, JSON.stringify(ok.data)).toBe(200);
+    expect((ok.data as { proposal: { changes: unknown[] } }).proposal.changes.length).toBeGreaterThan(0);
+    // Transient: no photo row, no kept copy; the upload stays for a second refit until the sweep.
+    expect(await db.select().from(s.photo).where(eq(s.photo.batchId, chart.batchId))).toHaveLength(1); // the chart card above
+    expect(await exists(good)).toBe(true);
+    expect(await sweepUploads(new Date(Date.now() + 61 * 60 * 1000), { scope: { batchId: chart.batchId } })).toBeGreaterThanOrEqual(1);
+    expect(await exists(good)).toBe(false);
   });
 });

@@ -15,6 +15,7 @@ import { renderChartPhoto } from "../render/chart-photo";
 import { renderStripPhoto } from "../render/strip-photo";
 import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
 import { importRoute } from "../support/routes";
+import { sendChartPhoto, uploadBatchPhoto } from "../support/batch-photos";
 
 const demo = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
 let tech: TestUser, owner: TestUser;
@@ -83,10 +84,7 @@ describe("chart versions and bad input", () => {
     const params = { chartId: chart.chartId, batchId: chart.batchId };
     const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
     const photo = await renderChartPhoto(demo, { seed: 9, width: 1600, height: 1200 });
-    const fd = new FormData();
-    fd.set("intent", "upload");
-    fd.set("photo", new File([new Uint8Array(photo.jpeg)], "card.jpg", { type: "image/jpeg" }));
-    expect((await callRoute(mod.action!, { url, params, user: tech, form: fd })).status).toBe(302);
+    await sendChartPhoto(tech, chart.batchId, photo.jpeg);
     const before = await currentVersionId();
     const { corners, rows, cols, white } = photo.layout;
     const cell = corners.map(([x, y]) => [x, y]);
@@ -124,7 +122,7 @@ describe("reference solutions and owners' corrections", () => {
     const strip = await renderStripPhoto(demo, { seed: 14, values: { free_chlorine: 3, ph: 7.2 } });
     const fd = new FormData();
     fd.set("intent", "solutions");
-    fd.set("photo_0", new File([new Uint8Array(strip.jpeg)], "strip.jpg", { type: "image/jpeg" }));
+    fd.set("key_0", await uploadBatchPhoto(tech, chart.batchId, strip.jpeg));
     fd.set("value_0_free_chlorine", "3");
     fd.set("value_0_ph", "7.2");
     const missing = new FormData();

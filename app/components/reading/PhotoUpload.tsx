@@ -6,9 +6,9 @@ import { useCallback, useEffect, useRef, useState } from "react";
 import { useDropzone } from "react-dropzone";
 import { Button, Notice, cx } from "~/components/ui";
 import { formatMb as mb, PHOTO_ACCEPT, photoProblem } from "~/features/photos/rules";
+import { UploadProgress } from "~/components/photos/UploadProgress";
+import { postJson, sendPhoto, STOPPED_WORDS, UploadRefused, UploadStopped } from "~/components/photos/send-photo";
 
-/** No byte sent for this long: the upload is given up as stalled (the owner can try again). */
-export const STALL_MS = 30_000;
 /** The registration answers within this, or the owner is told to try again. */
 const REGISTER_TIMEOUT_MS = 60_000;
 
@@ -22,59 +22,6 @@ export function checkFile(file: File, maxBytes: number): string | null {
   const problem = photoProblem(file.type, file.size, maxBytes);
   return problem ? (problem.code === "wrong_type" ? `“${file.name}”: ${problem.message}` : problem.message) : null;
 }
-
-class UploadStopped extends Error {
-  constructor(public why: "cancelled" | "stalled" | "network" | "refused") {
-    super(why);
-  }
-}
-
-function put(url: string, file: File, contentType: string, onProgress: (loaded: number, total: number) => void, signal: AbortSignal) {
-  return new Promise<void>((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    let stall: ReturnType<typeof setTimeout>;
-    const arm = () => {
-      clearTimeout(stall);
-      stall = setTimeout(() => {
-        reject(new UploadStopped("stalled"));
-        xhr.abort();
-      }, STALL_MS);
-    };
-    const done = (fn: () => void) => {
-      clearTimeout(stall);
-      signal.removeEventListener("abort", onAbort);
-      fn();
-    };
-    const onAbort = () => {
-      done(() => reject(new UploadStopped("cancelled")));
-      xhr.abort();
-    };
-    signal.addEventListener("abort", onAbort);
-    xhr.open("PUT", url);
-    xhr.setRequestHeader("Content-Type", contentType);
-    xhr.upload.onprogress = (e) => {
-      arm();
-      onProgress(e.loaded, e.lengthComputable ? e.total : file.size);
-    };
-    xhr.onload = () => done(() => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new UploadStopped("refused"))));
-    xhr.onerror = () => done(() => reject(new UploadStopped("network")));
-    arm();
-    xhr.send(file);
-  });
-}
-
-async function postJson(url: string, body: unknown, signal: AbortSignal) {
-  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body), signal });
-  const json = (await res.json().catch(() => ({}))) as Record<string, unknown>;
-  return { status: res.status, json };
-}
-
-const STOPPED_WORDS: Record<UploadStopped["why"], string> = {
-  cancelled: "Upload cancelled. Your photo is still here: send it when you are ready.",
-  stalled: "The upload stalled: nothing got through for 30 seconds. Your photo is still here: press “Try the upload again”, perhaps nearer the router or on mobile data.",
-  network: "The upload stopped before it finished (the connection dropped). Your photo is still here: press “Try the upload again”.",
-  refused: "Photo storage did not take the photo. Your photo is still here: press “Try the upload again”.",
-};
 
 export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxBytes: number; onRead: (readingId: string, duplicate: boolean) => void }) {
   const [file, setFile] = useState<File | null>(null);
@@ -96,13 +43,7 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
       abortRef.current = abort;
       setPhase({ kind: "uploading", loaded: 0, total: f.size });
       try {
-        const presign = await postJson(`/api/tubs/${tubId}/uploads`, { contentType: f.type, size: f.size }, abort.signal);
-        if (presign.status !== 200) {
-          setPhase({ kind: "error", message: String(presign.json.message ?? "The upload could not start. Try again."), retry: presign.status >= 500 });
-          return;
-        }
-        const { url, key, contentType } = presign.json as { url: string; key: string; contentType: string };
-        await put(url, f, contentType, (loaded, total) => setPhase({ kind: "uploading", loaded, total }), abort.signal);
+        const key = await sendPhoto(`/api/tubs/${tubId}/uploads`, f, (loaded, total) => setPhase({ kind: "uploading", loaded, total }), abort.signal);
         setPhase({ kind: "registering" });
         const timer = setTimeout(() => abort.abort(), REGISTER_TIMEOUT_MS);
         const reg = await postJson(`/api/tubs/${tubId}/photos`, { key }, abort.signal).finally(() => clearTimeout(timer));
@@ -112,6 +53,10 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
         }
         setPhase({ kind: "error", message: String(reg.json.message ?? "The photo could not be registered. Try again."), retry: reg.status === 409 || reg.status >= 500 });
       } catch (error) {
+        if (error instanceof UploadRefused) {
+          setPhase({ kind: "error", message: error.message, retry: error.retry });
+          return;
+        }
         if (error instanceof UploadStopped) {
           setPhase({ kind: "error", message: STOPPED_WORDS[error.why], retry: true });
           return;
@@ -153,7 +98,6 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
   });
 
   const busy = phase.kind === "uploading" || phase.kind === "registering";
-  const pct = phase.kind === "uploading" && phase.total ? Math.round((phase.loaded / phase.total) * 100) : 0;
   const pick = (testId: string, capture: boolean, label: string, primary: boolean) => (
     <label
       className={cx(
@@ -201,20 +145,7 @@ export function PhotoUpload({ tubId, maxBytes, onRead }: { tubId: string; maxByt
       )}
 
       <div ref={statusRef} className="space-y-4">
-        {phase.kind === "uploading" && (
-          <div className="space-y-2" data-testid="upload-progress">
-            <p className="font-bold" role="status">Sending the photo… {pct}%</p>
-            <div className="h-4 w-full overflow-hidden rounded-full bg-well-100" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} aria-label="Upload progress">
-              <div className="h-full rounded-full bg-well-700 transition-[width]" style={{ width: `${pct}%` }} />
-            </div>
-            <p className="text-sm text-ink-soft">
-              {mb(phase.loaded)} of {mb(phase.total)}. Keep this page open.
-            </p>
-            <Button type="button" variant="secondary" onClick={() => abortRef.current?.abort()} className="w-full sm:w-auto">
-              Cancel the upload
-            </Button>
-          </div>
-        )}
+        {phase.kind === "uploading" && <UploadProgress loaded={phase.loaded} total={phase.total} onCancel={() => abortRef.current?.abort()} />}
         {phase.kind === "registering" && (
           <Notice>
             <span role="status" className="inline-block animate-pulse">Photo sent; handing it to the reader…</span>

@@ -9,8 +9,7 @@ import { deltaE2000, hexToLab, labToHex, type Lab } from "~/reading/colour";
 import { chartVersion, photo, reading, readingPad, stripBatch, stripChart } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { inspectPhoto, keepPhoto, withStorage, maxPhotoBytes, PhotoError, type ReceivedPhoto } from "~/features/photos/intake.server";
-import { photoProblem } from "~/features/photos/rules";
+import { inspectUpload, PhotoError, presignPhoto, receivePhoto, withStorage, type PhotoCheck } from "~/features/photos/intake.server";
 import { readObject } from "~/lib/storage.server";
 
 /** A refusal shown to the technician in plain words. */
@@ -174,37 +173,12 @@ function closeWarnings(doc: Parameters<typeof neighbourDistances>[0]) {
   );
 }
 
-// ---------------------------------------------------------------- chart photo
+// ---------------------------------------------------------------- chart and reference-solution photos
 
-/**
- * Keeps a photo of the batch's printed chart: the same intake as every photo (the real type from
- * the bytes, a truncated file refused, the size limit of MAX_PHOTO_BYTES), stored under the batch.
- */
-export async function keepChartPhoto(user: Pick<SessionUser, "id">, batchId: string, received: ReceivedPhoto) {
-  if (Math.min(received.width, received.height) < 300) throw new ChartInputError(`This photo is too small (${received.width} × ${received.height} pixels) to sample the chart. Use a photo at least 300 pixels on each side.`);
-  const existing = await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, received.sha256), eq(photo.purpose, "chart")) });
-  if (existing) return existing;
-  const [row] = await db
-    .insert(photo)
-    .values({ tubId: null, batchId, purpose: "chart", uploaderId: user.id, s3Key: received.s3Key, contentType: received.contentType, sizeBytes: received.sizeBytes, sha256: received.sha256, width: received.width, height: received.height })
-    .onConflictDoNothing()
-    .returning();
-  return row ?? (await db.query.photo.findFirst({ where: and(eq(photo.batchId, batchId), eq(photo.sha256, received.sha256), eq(photo.purpose, "chart")) }))!;
-}
+// Both come in through the one photo intake (features/photos): a presigned upload under the
+// batch's upload prefix, with the type and length signed, then the server's checks on the bytes.
 
-/** A chart photo sent with the form (no JavaScript): checked by the same rules as every photo. */
-export async function uploadChartPhoto(user: Pick<SessionUser, "id">, batchId: string, file: File | null) {
-  if (!file || typeof file === "string" || file.size === 0) throw new ChartInputError("Choose a photo of the printed colour chart first.");
-  const received = await chartIntake(async () => {
-    const problem = photoProblem(file.type, file.size, maxPhotoBytes());
-    if (problem) throw new PhotoError(problem.code, problem.message);
-    const bytes = Buffer.from(await file.arrayBuffer());
-    return keepPhoto({ batchId }, bytes, await inspectPhoto(bytes));
-  });
-  return keepChartPhoto(user, batchId, received);
-}
-
-/** A photo refusal becomes the chart screen's refusal, in the same words. */
+/** A photo refusal becomes the chart screen's refusal, in the same words and status. */
 export async function chartIntake<T>(work: () => Promise<T>): Promise<T> {
   try {
     return await work();
@@ -212,6 +186,52 @@ export async function chartIntake<T>(work: () => Promise<T>): Promise<T> {
     if (error instanceof PhotoError) throw new ChartInputError(error.message, error.status);
     throw error;
   }
+}
+
+/** A presigned PUT for one photo of this batch (its chart card or a reference-solution strip). */
+export function presignBatchPhoto(batchId: string, contentType: string, size: number) {
+  return presignPhoto({ batchId }, contentType, size);
+}
+
+/** Below this many pixels on a side, the chart card's swatches are too few pixels to sample (common practice). */
+export const MIN_CHART_PHOTO_SIDE = 300;
+
+const chartPhotoSize: PhotoCheck = ({ width, height }) =>
+  Math.min(width, height) < MIN_CHART_PHOTO_SIDE
+    ? new PhotoError("too_small", `This photo is too small (${width} × ${height} pixels) to sample the chart. Use a photo at least ${MIN_CHART_PHOTO_SIDE} pixels on each side.`)
+    : null;
+
+/**
+ * Registers an uploaded photo of the batch's printed chart: the intake's checks (size limit, real
+ * type, one decode, hash, kept copy under the batch's key), then the photo row. The same bytes
+ * again give the same photo.
+ */
+export async function registerChartPhoto(user: Pick<SessionUser, "id">, batchId: string, key: string) {
+  const received = await receivePhoto({ batchId }, key, chartPhotoSize);
+  const mine = and(eq(photo.batchId, batchId), eq(photo.sha256, received.sha256), eq(photo.purpose, "chart"));
+  const existing = await db.query.photo.findFirst({ where: mine });
+  if (existing) return existing;
+  const [row] = await db
+    .insert(photo)
+    .values({ tubId: null, batchId, purpose: "chart", uploaderId: user.id, s3Key: received.s3Key, contentType: received.contentType, sizeBytes: received.sizeBytes, sha256: received.sha256, width: received.width, height: received.height })
+    .onConflictDoNothing()
+    .returning();
+  return row ?? (await db.query.photo.findFirst({ where: mine }))!;
+}
+
+/**
+ * The bytes of one uploaded reference-solution photo, checked by the intake's rules. It is read
+ * for the refit and not kept: no photo row, no kept copy; the upload object goes with the sweep
+ * (so the technician can correct a known value and refit again without sending it again).
+ */
+export async function solutionPhoto(batchId: string, key: string) {
+  return (await inspectUpload({ batchId }, key)).bytes;
+}
+
+/** A strip batch by its id alone (the photo endpoints' URLs name only the batch). */
+export async function batchById(batchId: string | undefined) {
+  if (!batchId || !UUID.test(batchId)) return null;
+  return (await db.query.stripBatch.findFirst({ where: eq(stripBatch.id, batchId) })) ?? null;
 }
 
 export async function chartPhoto(photoId: string | undefined, batchId?: string) {

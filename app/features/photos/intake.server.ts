@@ -1,5 +1,6 @@
-// One way in for every photo Dipwell keeps: strip photos of a tub, chart photos and reference-
-// solution photos of a strip batch. The browser PUTs the file to a presigned upload key; the
+// One way in for every photo: strip photos of a tub, chart photos and reference-solution photos
+// of a strip batch (these last are read once and not kept). The browser PUTs the file to a
+// presigned upload key (type and length signed); the
 // server then fetches it (never more than MAX_PHOTO_BYTES), decodes it once (the real type from
 // the bytes, a truncated file refused, the thumbnail made from that same decode), hashes it and
 // writes its own copy under a final key the browser never had a URL for. A refused upload is
@@ -108,12 +109,15 @@ export function checkUploadKey(scope: PhotoScope, key: unknown): PhotoType {
   return typeOfExt(key.split(".").pop()!)!;
 }
 
+/** What the caller may still refuse once the photo is decoded (e.g. too small for its use); null accepts it. */
+export type PhotoCheck = (inspected: Inspected) => PhotoError | null;
+
 /**
- * Takes an uploaded photo in: fetches it (cut off past the size limit), inspects it, writes the
- * checked bytes and the thumbnail under the final key. A refused upload is deleted at once.
- * Idempotent: the same bytes give the same final key.
+ * Fetches an uploaded photo (cut off past the size limit) and inspects it (one decode). A refused
+ * upload, by these rules or by the caller's `check`, is deleted at once. The upload object itself
+ * stays until the sweep otherwise (a double submit of the same key finds it again).
  */
-export async function receivePhoto(scope: PhotoScope, key: string): Promise<ReceivedPhoto> {
+export async function inspectUpload(scope: PhotoScope, key: string, check?: PhotoCheck): Promise<{ bytes: Buffer; inspected: Inspected }> {
   const declared = checkUploadKey(scope, key);
   return withStorage(async () => {
     const max = maxPhotoBytes();
@@ -124,17 +128,26 @@ export async function receivePhoto(scope: PhotoScope, key: string): Promise<Rece
       await deleteObject(key);
       throw new PhotoError("too_large", PHOTO_MESSAGES.tooLarge(fetched.size, max));
     }
-    let inspected: Inspected;
     try {
-      inspected = await inspectPhoto(fetched, declared);
+      const inspected = await inspectPhoto(fetched, declared);
+      const refusal = check?.(inspected);
+      if (refusal) throw refusal;
+      return { bytes: fetched, inspected };
     } catch (error) {
       if (error instanceof PhotoError) await deleteObject(key);
       throw error;
     }
-    // The upload object stays until the sweep (a double submit of the same key finds it again);
-    // the photo is served only from the kept copy.
-    return keepPhoto(scope, fetched, inspected);
   });
+}
+
+/**
+ * Takes an uploaded photo in: inspectUpload, then the checked bytes and the thumbnail written
+ * under the final key; the photo is served only from that kept copy. Idempotent: the same bytes
+ * give the same final key.
+ */
+export async function receivePhoto(scope: PhotoScope, key: string, check?: PhotoCheck): Promise<ReceivedPhoto> {
+  const { bytes, inspected } = await inspectUpload(scope, key, check);
+  return keepPhoto(scope, bytes, inspected);
 }
 
 /** Writes checked bytes and their thumbnail under the final key (for bytes already in hand). */

@@ -1,8 +1,12 @@
-import { data, redirect } from "react-router";
+import { useState } from "react";
+import { data, Form, redirect, useRevalidator } from "react-router";
 import { z } from "zod";
+import { BatchPhotoInput } from "~/components/charts/batch-photo";
+import { postJson } from "~/components/photos/send-photo";
 import { GridOverlay } from "~/components/charts/grid-overlay";
 import { Button, ButtonLink, Card, Field, Input, Notice, PageTitle } from "~/components/ui";
 import {
+  chartIntake,
   ChartInputError,
   correctionsReport,
   latestChartPhoto,
@@ -10,13 +14,17 @@ import {
   proposeFromChartPhoto,
   proposeFromSolutions,
   saveVersion,
-  uploadChartPhoto,
+  solutionPhoto,
   type Proposal,
 } from "~/features/charts/charts.server";
+import { maxPhotoBytes } from "~/features/photos/intake.server";
 import { requireChartRole } from "~/features/charts/guard.server";
 import type { Route } from "./+types/chart-calibrate";
 
 export const meta: Route.MetaFunction = () => [{ title: "Calibrate a chart · Dipwell" }];
+
+/** At most this many reference-solution strip photos in one refit (three are shown at first). */
+const SOLUTION_SLOTS = 8;
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   requireChartRole(context, request);
@@ -30,13 +38,14 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
     pads: currentChart.pads.map((pd) => ({ analyte: pd.analyte, label: pd.label, unit: pd.unit, swatches: pd.swatches.map((s) => ({ value: s.value, color: s.color })) })),
     photo: p ? { id: p.id, width: p.width ?? 1000, height: p.height ?? 750 } : null,
     corrections,
+    maxPhotoBytes: maxPhotoBytes(),
+    solutionSlots: SOLUTION_SLOTS,
   };
 }
 
 const pt = z.tuple([z.number().finite(), z.number().finite()]);
 const quad = z.tuple([pt, pt, pt, pt]);
 const gridSchema = z.object({ corners: quad, rows: z.number().int(), cols: z.number().int() });
-const SOLUTION_SLOTS = 3;
 
 type ActionResult = { intent: string; form?: string; proposal?: Proposal; source?: string; placed?: { grid: unknown; white: unknown } };
 
@@ -48,10 +57,6 @@ export async function action({ context, request, params }: Route.ActionArgs) {
   let placed: ActionResult["placed"];
   const fail = (form: string) => data<ActionResult>({ intent, form, placed }, { status: 400 });
   try {
-    if (intent === "upload") {
-      await uploadChartPhoto(user, batch.id, fd.get("photo") as File | null);
-      return redirect(`/charts/${chart.id}/batches/${batch.id}/calibrate`);
-    }
     if (intent === "sample") {
       const p = await latestChartPhoto(batch.id);
       let g: unknown, w: unknown;
@@ -71,7 +76,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
     if (intent === "solutions") {
       const samples: { photo: Buffer; known: Record<string, number> }[] = [];
       for (let i = 0; i < SOLUTION_SLOTS; i++) {
-        const file = fd.get(`photo_${i}`);
+        const key = String(fd.get(`key_${i}`) ?? "");
         const known: Record<string, number> = {};
         // One value per analyte, even for an analyte read from several pads.
         for (const pad of currentChart.pads.filter((q, k, all) => all.findIndex((o) => o.analyte === q.analyte) === k)) {
@@ -81,9 +86,14 @@ export async function action({ context, request, params }: Route.ActionArgs) {
           if (!Number.isFinite(v) || v < 0) return fail(`Photo ${i + 1}: the known value for ${pad.label} must be a number.`);
           known[pad.analyte] = v;
         }
-        const has = file && typeof file !== "string" && file.size > 0;
-        if (!has && Object.keys(known).length) return fail(`Photo ${i + 1}: choose the strip photo for these values.`);
-        if (has) samples.push({ photo: Buffer.from(await (file as File).arrayBuffer()), known });
+        if (!key && Object.keys(known).length) return fail(`Photo ${i + 1}: choose the strip photo for these values.`);
+        if (!key) continue;
+        try {
+          samples.push({ photo: await chartIntake(() => solutionPhoto(batch.id, key)), known });
+        } catch (e) {
+          if (e instanceof ChartInputError) return fail(`Photo ${i + 1}: ${e.message}`);
+          throw e;
+        }
       }
       const proposal = await proposeFromSolutions(currentChart, samples);
       return { intent, proposal, source: "solutions" } satisfies ActionResult;
@@ -151,8 +161,14 @@ function Swatch({ color }: { color: string }) {
 }
 
 export default function Calibrate({ loaderData, actionData }: Route.ComponentProps) {
-  const { chart, batch, version, pads, photo, corrections } = loaderData;
+  const { chart, batch, version, pads, photo, corrections, maxPhotoBytes: maxBytes, solutionSlots: maxSlots } = loaderData;
   const a = actionData as ActionResult | undefined;
+  const revalidator = useRevalidator();
+  // The reference-solution photos' upload keys, by slot (the photos are sent as soon as chosen).
+  const [keys, setKeys] = useState<Record<number, string>>({});
+  const [slots, setSlots] = useState(3);
+  // One entry per analyte, even for an analyte read from several pads.
+  const analytes = pads.filter((p, k) => pads.findIndex((q) => q.analyte === p.analyte) === k);
   const cols = Math.max(...pads.map((p) => p.swatches.length));
   return (
     <div className="space-y-6">
@@ -161,14 +177,23 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
 
       <Card>
         <h2 className="mb-2 text-lg font-bold">1. From a photo of the printed chart</h2>
-        <form method="post" encType="multipart/form-data" className="mb-4 flex flex-wrap items-end gap-3">
-          <input type="hidden" name="intent" value="upload" />
-          <Field label={photo ? "Use another photo" : "Photo of the batch's colour chart"}>
-            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" />
-          </Field>
-          <Button type="submit" variant="secondary">Upload photo</Button>
-        </form>
-        {a?.intent === "upload" && a.form && <Notice tone="alert">{a.form}</Notice>}
+        <div className="mb-4">
+          <p className="mb-1 font-bold">{photo ? "Use another photo" : "Photo of the batch's colour chart"}</p>
+          <BatchPhotoInput
+            batchId={batch.id}
+            maxBytes={maxBytes}
+            label={photo ? "Use another photo of the chart" : "Photo of the batch's colour chart"}
+            testId="chart-photo-input"
+            onSent={async (key, signal) => {
+              const r = await postJson(`/api/chart-batches/${batch.id}/photos`, { key }, signal);
+              if (r.status >= 200 && r.status < 300) {
+                await revalidator.revalidate();
+                return null;
+              }
+              return { message: String(r.json.message ?? "The photo could not be checked. Try again."), retry: r.status === 409 || r.status >= 500 };
+            }}
+          />
+        </div>
         {photo && (
           <form method="post" className="space-y-3">
             <input type="hidden" name="intent" value="sample" />
@@ -192,14 +217,25 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
       <Card>
         <h2 className="mb-2 text-lg font-bold">2. From reference solutions</h2>
         <p className="mb-3 text-sm text-ink-soft">Dip strips of this batch in solutions of known value, photograph each strip, and enter the known values (leave a pad empty if its solution is not known).</p>
-        <form method="post" encType="multipart/form-data" className="space-y-4">
+        <Form method="post" className="space-y-4">
           <input type="hidden" name="intent" value="solutions" />
-          {[0, 1, 2].map((i) => (
-            <fieldset key={i} className="rounded-xl border border-line p-3">
+          {Array.from({ length: slots }, (_, i) => (
+            <fieldset key={i} className="rounded-xl border border-line p-3" data-testid={`solution-${i}`}>
               <legend className="px-1 font-bold">Strip photo {i + 1}</legend>
-              <input type="file" name={`photo_${i}`} accept="image/jpeg,image/png,image/webp" aria-label={`Strip photo ${i + 1}`} />
+              <input type="hidden" name={`key_${i}`} value={keys[i] ?? ""} />
+              <BatchPhotoInput
+                batchId={batch.id}
+                maxBytes={maxBytes}
+                label={`Strip photo ${i + 1}`}
+                testId={`solution-photo-${i}`}
+                onCleared={() => setKeys((k) => ({ ...k, [i]: "" }))}
+                onSent={async (key) => {
+                  setKeys((k) => ({ ...k, [i]: key }));
+                  return null;
+                }}
+              />
               <div className="mt-2 grid gap-2 sm:grid-cols-3">
-                {pads.filter((p, k) => pads.findIndex((q) => q.analyte === p.analyte) === k).map((p) => (
+                {analytes.map((p) => (
                   <label key={p.analyte} className="text-sm">
                     {p.label} ({p.unit})
                     <Input name={`value_${i}_${p.analyte}`} inputMode="decimal" aria-label={`Photo ${i + 1} ${p.label}`} />
@@ -208,9 +244,14 @@ export default function Calibrate({ loaderData, actionData }: Route.ComponentPro
               </div>
             </fieldset>
           ))}
+          {slots < maxSlots && (
+            <Button type="button" variant="quiet" onClick={() => setSlots((n) => Math.min(maxSlots, n + 1))}>
+              Add another strip photo
+            </Button>
+          )}
           {a?.intent === "solutions" && a.form && <Notice tone="alert">{a.form}</Notice>}
           <Button type="submit" variant="secondary">Refit the swatches</Button>
-        </form>
+        </Form>
         {a?.intent === "solutions" && a.proposal && <ProposalView proposal={a.proposal} source="solutions" pads={pads} />}
       </Card>
 
