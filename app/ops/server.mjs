@@ -3,7 +3,9 @@
 // - the client's address for the sign-in limiter, from the socket, or from the
 //   proxy's X-Forwarded-For only when TRUST_PROXY says which proxies to believe
 //   (Express's "trust proxy" values: "loopback", an address or CIDR list, or a hop count);
-// - security headers on the static files too (the app sets them on everything else).
+// - security headers on the static files too (the app sets them on everything else);
+// - `Retry-After` on every 503 that lacks one: the framework drops the headers of a response
+//   thrown in middleware, so the "try again in a moment" page during a database outage gets it here.
 // Usage: node app/ops/server.mjs build/server/index.js   (PORT, HOST from the environment)
 import path from "node:path";
 import url from "node:url";
@@ -31,6 +33,23 @@ const staticHeaders = (res) => {
   res.setHeader("Content-Security-Policy", "default-src 'none'; frame-ancestors 'none'; sandbox");
 };
 
+/** Seconds a client should wait before trying again after a 503 (the app's own API answers say the same). */
+const RETRY_AFTER_SECONDS = "5";
+
+function retryAfterOn503(req, res, next) {
+  const writeHead = res.writeHead;
+  res.writeHead = function (status, ...rest) {
+    const code = typeof status === "number" ? status : res.statusCode;
+    if (code === 503 && !res.hasHeader("retry-after")) {
+      const given = rest.find((r) => r && typeof r === "object");
+      const has = given && (Array.isArray(given) ? given.some((h, i) => i % 2 === 0 && String(h).toLowerCase() === "retry-after") : Object.keys(given).some((k) => k.toLowerCase() === "retry-after"));
+      if (!has) res.setHeader("Retry-After", RETRY_AFTER_SECONDS);
+    }
+    return writeHead.call(this, status, ...rest);
+  };
+  next();
+}
+
 const app = express();
 app.disable("x-powered-by");
 app.set("trust proxy", trustProxy(process.env.TRUST_PROXY));
@@ -40,6 +59,7 @@ app.use("/assets", express.static(path.join(assets, "assets"), { immutable: true
 app.use(express.static(assets, { setHeaders: staticHeaders }));
 app.use(express.static("public", { maxAge: "1h", setHeaders: staticHeaders }));
 app.use(morgan("tiny"));
+app.use(retryAfterOn503);
 app.all(
   "*",
   createRequestHandler({
