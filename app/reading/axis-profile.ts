@@ -40,25 +40,27 @@ export function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number)
     r /= inS.length, g /= inS.length, b /= inS.length;
     inner[i * 3] = r, (inner[i * 3 + 1] = g), (inner[i * 3 + 2] = b);
     let best = Infinity, any = false;
-    for (const side of [-1, 1]) {
+    for (let side = -1; side <= 1; side += 2) {
       let or = 0, og = 0, ob = 0, m = 0;
       for (const s of outS) if (bilinear(img, bx + side * s * vx, by + side * s * vy, px, 0)) (or += px[0]), (og += px[1]), (ob += px[2]), m++;
       if (!m) continue;
       any = true;
       const sl = (or + og + ob) / (3 * m);
       if (sl > surface[i]) surface[i] = sl;
-      const d = Math.hypot(r - or / m, g - og / m, b - ob / m);
+      const dr = r - or / m, dg = g - og / m, db = b - ob / m;
+      const d = Math.sqrt(dr * dr + dg * dg + db * db);
       if (d < best) best = d;
     }
     if (!any) continue;
     // Edge contrast just inside against just outside both long edges: the strip's edges are
     // sharp and straight, so this holds where the strip's colour is close to the surface's.
     let edge = 0, ne = 0;
-    for (const side of [-1, 1]) {
+    for (let side = -1; side <= 1; side += 2) {
       if (!bilinear(img, bx + side * eIn * vx, by + side * eIn * vy, px, 0)) continue;
       const ir = px[0], ig = px[1], ib = px[2];
       if (!bilinear(img, bx + side * eOut * vx, by + side * eOut * vy, px, 0)) continue;
-      edge += Math.hypot(ir - px[0], ig - px[1], ib - px[2]);
+      const er = ir - px[0], eg = ig - px[1], eb = ib - px[2];
+      edge += Math.sqrt(er * er + eg * eg + eb * eb);
       ne++;
     }
     edges[i] = ne ? edge / ne : 0;

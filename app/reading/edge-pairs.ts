@@ -17,16 +17,17 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const L = new Float32Array(w * h);
   for (let i = 0; i < L.length; i++) L[i] = Math.log(whiteness[i]);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
-  const mag = new Float32Array(w * h), ang = new Float32Array(w * h);
+  const mag = new Float32Array(w * h), gradX = new Float32Array(w * h), gradY = new Float32Array(w * h);
   const hist = new Uint32Array(256);
   for (let y = 1; y < h - 1; y++)
     for (let x = 1; x < w - 1; x++) {
       const i = y * w + x;
       const gx = L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1];
       const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
-      const m = Math.hypot(gx, gy) / 8;
+      const m = Math.sqrt(gx * gx + gy * gy) / 8;
       mag[i] = m;
-      ang[i] = Math.atan2(gy, gx);
+      gradX[i] = gx;
+      gradY[i] = gy;
       hist[Math.min(255, (m * 1000) | 0)]++;
     }
   let thr = 0;
@@ -49,9 +50,11 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       const m = mag[i];
       if (!(m > thr)) continue;
       // Thin edges: keep local maxima of the magnitude across the edge.
-      const a = ang[i], c = Math.cos(a), sn = Math.sin(a);
+      // Unit gradient direction (cos and sin of its angle).
+      const c = gradX[i] / (8 * m), sn = gradY[i] / (8 * m);
       const dx = Math.round(c), dy = Math.round(sn);
       if (mag[i + dy * w + dx] > m || mag[i - dy * w - dx] >= m) continue;
+      const a = Math.atan2(gradY[i], gradX[i]);
       let th = a < 0 ? a + Math.PI : a;
       if (th >= Math.PI) th -= Math.PI;
       const k0 = Math.round((th * nT) / Math.PI);
@@ -68,7 +71,9 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const wMin = 3, wMax = Math.max(6, (0.9 * Math.max(w, h)) / aspect * 1.4);
   const minVotes = Math.max(8, Math.min(40, (0.1 * Math.max(w, h) * 0.35)));
   type Pair = { k: number; r1: number; r2: number; score: number };
-  const pairs: Pair[] = [];
+  // Pairs in flat arrays (a textured surface gives many): angle row, both offsets, score.
+  let pairCap = 1024, nPairs = 0;
+  let pairK = new Int32Array(pairCap), pairR1 = new Int32Array(pairCap), pairR2 = new Int32Array(pairCap), pairScore = new Float64Array(pairCap);
   // Votes of a line, with its neighbours on either side (a line's votes spread over ±1 px).
   const votes = (row: number, r: number) => acc[row + r] + 0.5 * (acc[row + r - 1] + acc[row + r + 1]);
   const peaks: number[] = [];
@@ -84,14 +89,34 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
         const d = peaks[b] - peaks[a];
         if (d < wMin) continue;
         if (d > wMax) break;
-        pairs.push({ k, r1: peaks[a], r2: peaks[b], score: Math.sqrt(votes(row, peaks[a]) * votes(row, peaks[b])) });
+        if (nPairs === pairCap) {
+          pairCap *= 2;
+          const grow = <T extends Int32Array | Float64Array>(a: T, make: (n: number) => T) => {
+            const b = make(pairCap);
+            b.set(a);
+            return b;
+          };
+          pairK = grow(pairK, (n) => new Int32Array(n));
+          pairR1 = grow(pairR1, (n) => new Int32Array(n));
+          pairR2 = grow(pairR2, (n) => new Int32Array(n));
+          pairScore = grow(pairScore, (n) => new Float64Array(n));
+        }
+        pairK[nPairs] = k;
+        pairR1[nPairs] = peaks[a];
+        pairR2[nPairs] = peaks[b];
+        pairScore[nPairs++] = Math.sqrt(votes(row, peaks[a]) * votes(row, peaks[b]));
       }
   }
-  pairs.sort((a, b) => b.score - a.score);
+  // Best first; ties keep the order found (a stable sort, as before).
+  const order = new Uint32Array(nPairs);
+  for (let i = 0; i < nPairs; i++) order[i] = i;
+  order.sort((a, b) => pairScore[b] - pairScore[a] || a - b);
   const out: StripCandidate[] = [];
   const chosen: Pair[] = [];
   const sAlong: number[] = [];
-  for (const p of pairs) {
+  for (let oi = 0; oi < nPairs; oi++) {
+    const pi = order[oi];
+    const p: Pair = { k: pairK[pi], r1: pairR1[pi], r2: pairR2[pi], score: pairScore[pi] };
     if (out.length >= maxOut || chosen.length >= maxOut * 4) break;
     if (chosen.some((q) => Math.min(Math.abs(q.k - p.k), nT - Math.abs(q.k - p.k)) <= 3 && Math.abs(q.r1 - p.r1) <= 3 && Math.abs(q.r2 - p.r2) <= 3)) continue;
     chosen.push(p);

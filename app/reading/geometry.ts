@@ -45,6 +45,11 @@ export type StripGeometry = {
   /** The pads stand out from the bare plastic clearly more than the gaps between them do. */
   convincing: boolean;
   warnings: string[];
+  /**
+   * Why the placement itself may be wrong (the tip not told from the handle, the ends not found):
+   * every reading from it goes to review with these reasons, in words a user understands.
+   */
+  doubts: string[];
 };
 
 /** A strip axis in the working image: centre, unit direction, width and length in px. */

@@ -109,8 +109,11 @@ function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boo
   }
 }
 
+/** Readings less confident than this go to review. */
+const REVIEW_BELOW = 0.6;
+
 /** One analyte's value, confidence and reasons from its pads' measurements. */
-function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number): PadReading {
+function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): PadReading {
   const first = chartPads[0];
   const match = matchJoint(chartPads, ms.map((m) => m.lab));
   const reasons: string[] = [];
@@ -132,8 +135,13 @@ function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement
     conf *= 0.8;
     reasons.push("there is glare on the pad");
   }
+  // A placement in doubt: whatever the colours say, a person checks the reading.
+  if (doubts.length) {
+    conf = Math.min(conf, REVIEW_BELOW - 0.01);
+    reasons.push(...doubts);
+  }
   conf = Math.max(0, Math.min(1, conf));
-  const needsReview = conf < 0.6;
+  const needsReview = conf < REVIEW_BELOW;
   const parts: PadPart[] = ms.map((m, j) => ({
     chartIndex: indices[j],
     lab: m.lab,
@@ -177,7 +185,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   for (const [analyte, indices] of analyteGroups(chart.pads)) {
     const chartPads = indices.map((i) => chart.pads[i]);
     const ms = indices.map((i) => measured.pads[i]);
-    const reading = judgeAnalyte(analyte, chartPads, ms, indices, k);
+    const reading = judgeAnalyte(analyte, chartPads, ms, indices, k, g.doubts);
     if (options.crops) {
       const crops = await Promise.all(ms.map((m) => cropPad(img, m.centre[0], m.centre[1], m.half * 1.4)));
       reading.parts.forEach((p, j) => (p.crop = crops[j]));

@@ -71,6 +71,7 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   // Middles and half-lengths (mm) of the spans scored: 70 % of each pad, 60 % of each gap.
   const padMid = layout.pads.map(([a, b]) => (a + b) / 2), padHalf = layout.pads.map(([a, b]) => ((b - a) / 2) * 0.7);
   const gapMid = layout.gaps.map(([a, b]) => (a + b) / 2), gapHalf = layout.gaps.map(([a, b]) => Math.max(0.15, ((b - a) / 2) * 0.6));
+  const minPadMm = Math.min(...layout.pads.map(([a, b]) => b - a));
   for (const tipSide of [1, -1] as const) {
     const dir = -tipSide as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
@@ -92,25 +93,34 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scaleFromWidth });
       }
     }
+    const nK = Math.round((2 * scaleRange) / 0.01) + 1;
+    const nOff = Math.floor((offMax - offMin) / offStep + 1e-9) + 1;
+    // Coarse grid first (every other scale, offsets a quarter of the smallest pad apart), then
+    // the full grid around its best: a pad's score changes smoothly over a quarter of its size.
+    const offStride = Math.max(1, Math.floor((0.25 * minPadMm * scale) / offStep));
     for (const { tip, baseScale } of anchors) {
-      let bf: LayoutFit | null = null;
-      for (let k = 1 - scaleRange; k <= 1 + scaleRange + 1e-9; k += 0.01) {
-        const sc = baseScale * k;
-        for (let off = offMin; off <= offMax; off += offStep) {
-          // t of a point mm from the tip: tip + dir × (off + mm × sc)
-          const t0 = tip + dir * off, dt = dir * sc;
-          let padScore = 0;
-          for (let j = 0; j < padMid.length; j++) padScore += diff.meanBetween(t0 + dt * (padMid[j] - padHalf[j]), t0 + dt * (padMid[j] + padHalf[j]));
-          padScore /= padMid.length;
-          let gapScore = 0;
-          for (let j = 0; j < gapMid.length; j++) gapScore += diff.meanBetween(t0 + dt * (gapMid[j] - gapHalf[j]), t0 + dt * (gapMid[j] + gapHalf[j]));
-          gapScore /= gapMid.length;
-          const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
-          if (!bf || score > bf.score) bf = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
-        }
+      const found: { fit: LayoutFit | null } = { fit: null };
+      const consider = (ki: number, oi: number) => {
+        const k = 1 - scaleRange + 0.01 * ki, off = offMin + offStep * oi;
+        // t of a point mm from the tip: tip + dir × (off + mm × sc)
+        const t0 = tip + dir * off, dt = dir * baseScale * k;
+        let padScore = 0;
+        for (let j = 0; j < padMid.length; j++) padScore += diff.meanBetween(t0 + dt * (padMid[j] - padHalf[j]), t0 + dt * (padMid[j] + padHalf[j]));
+        padScore /= padMid.length;
+        let gapScore = 0;
+        for (let j = 0; j < gapMid.length; j++) gapScore += diff.meanBetween(t0 + dt * (gapMid[j] - gapHalf[j]), t0 + dt * (gapMid[j] + gapHalf[j]));
+        gapScore /= gapMid.length;
+        const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
+        if (!found.fit || score > found.fit.score) found.fit = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
+      };
+      for (let ki = 0; ki < nK; ki += 2) for (let oi = 0; oi < nOff; oi += offStride) consider(ki, oi);
+      if (found.fit) {
+        const kBest = Math.round((found.fit.scaleFactor - (1 - scaleRange)) / 0.01), oBest = Math.round((found.fit.offset - offMin) / offStep);
+        for (let ki = Math.max(0, kBest - 2); ki <= Math.min(nK - 1, kBest + 2); ki++)
+          for (let oi = Math.max(0, oBest - offStride); oi <= Math.min(nOff - 1, oBest + offStride); oi++) consider(ki, oi);
       }
       // Another anchor that lands on a placement already found adds nothing.
-      const f = bf;
+      const f = found.fit;
       if (f && !fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
       if (f && (!best || f.score > best.score)) best = f;
     }

@@ -49,7 +49,8 @@ export function plasticDifference(profile: Profile, axisLength: number, widthPx:
     let d = 0;
     if (profile.valid[i]) {
       const g = gain(i);
-      d = Math.hypot(profile.inner[i * 3] * g - bare[0], profile.inner[i * 3 + 1] * g - bare[1], profile.inner[i * 3 + 2] * g - bare[2]);
+      const dr = profile.inner[i * 3] * g - bare[0], dg = profile.inner[i * 3 + 1] * g - bare[1], db = profile.inner[i * 3 + 2] * g - bare[2];
+      d = Math.sqrt(dr * dr + dg * dg + db * db);
     }
     prefix[i + 1] = prefix[i] + d;
   }

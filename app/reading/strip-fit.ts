@@ -52,6 +52,7 @@ export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis): Prep
 export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layout, padEndMm: number, edgeWalk: boolean, trace: Trace): StripGeometry | null {
   const { axis, axis0, profile, diff, scaleFromWidth, expectedLength, threshold, maxGap } = prepared;
   const warnings: string[] = [];
+  const doubts: string[] = [];
   const widthPx = axis.width;
   let plus = walkEnd(profile, profile.presence, threshold, maxGap, 1);
   let minus = walkEnd(profile, profile.presence, threshold, maxGap, -1);
@@ -87,10 +88,14 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     const order = costs.map((_, i) => i).sort((a, b) => costs[a] - costs[b]);
     const [i0, i1] = order;
     if (costs[i1] - costs[i0] > 3) best = rivals[i0];
-    else if (rivals[i0].dir !== rivals[i1].dir) warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+    else if (rivals[i0].dir !== rivals[i1].dir) {
+      warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
+      doubts.push("the tip and the handle of the strip could not be told apart, so the pads may be read in the wrong order");
+    }
     chosenCost = costs[rivals.indexOf(best)] ?? placementColourCost(chart, layout, profile, diff.bare, best);
   } else chosenCost = placementColourCost(chart, layout, profile, diff.bare, best);
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
+  if (free) doubts.push("neither end of the strip could be seen clearly, so the pads were placed from their colours alone");
   const s = pxPerMm(best);
   const widthMm = chart.strip.widthMm;
   const pads: PadPlacement[] = chart.pads.map((p) => {
@@ -126,6 +131,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     // Searched for anywhere along the axis, the best of many placements must stand out further.
     convincing: free ? best.score >= Math.max(10, 2 * best.gapScore) : best.score >= Math.max(4, best.gapScore),
     warnings,
+    doubts,
   };
 }
 
