@@ -3,6 +3,7 @@
 import { useMemo, useState } from "react";
 import { deltaE2000, hexToLab } from "~/reading/colour";
 import { Button, Input, Notice, cx } from "~/components/ui";
+import { AnalytePadsFieldset } from "./analyte-pads";
 
 export type EditSwatch = { value: number | string; color: string };
 export type EditPad = { analyte: string; label: string; unit: string; centerMm: number | string; sizeMm: number | string; swatches: EditSwatch[] };
@@ -16,6 +17,8 @@ export function distance(a: string, b: string): number | null {
   if (!HEX.test(a) || !HEX.test(b)) return null;
   return deltaE2000(hexToLab(a), hexToLab(b));
 }
+
+const unique = (xs: string[]) => [...new Set(xs)];
 
 function toNumbers(c: EditChart) {
   const n = (v: number | string) => (typeof v === "number" ? v : Number(String(v).replace(",", ".")));
@@ -48,15 +51,20 @@ export function ChartEditor({ initial, intent = "save", submitLabel = "Save as a
   const [chart, setChart] = useState<EditChart>(initial);
   const [note, setNote] = useState("");
   const json = useMemo(() => JSON.stringify(toNumbers(chart)), [chart]);
-  const closePairs = chart.pads.flatMap((p) =>
-    p.swatches.slice(1).flatMap((s, i) => {
-      const d = distance(p.swatches[i].color, s.color);
-      return d !== null && d < TOO_CLOSE ? [`${p.label || p.analyte}: ${p.swatches[i].value} and ${s.value} (ΔE00 ${d.toFixed(1)})`] : [];
+  // Neighbours are hard to tell apart when every pad of the analyte barely changes between them.
+  const closePairs = unique(
+    chart.pads.flatMap((p) => {
+      const group = chart.pads.filter((q) => q.analyte === p.analyte);
+      return p.swatches.slice(1).flatMap((s, i) => {
+        const steps = group.map((q) => (q.swatches[i] && q.swatches[i + 1] ? distance(q.swatches[i].color, q.swatches[i + 1].color) : null));
+        const d = steps.some((x) => x === null) ? null : Math.max(...(steps as number[]));
+        return d !== null && d < TOO_CLOSE ? [`${p.label || p.analyte}: ${p.swatches[i].value} and ${s.value} (ΔE00 ${d.toFixed(1)})`] : [];
+      });
     }),
   );
-  const disorder = chart.pads.flatMap((p) =>
+  const disorder = unique(chart.pads.flatMap((p) =>
     p.swatches.slice(1).flatMap((s, i) => (!(Number(s.value) > Number(p.swatches[i].value)) ? [`${p.label || p.analyte}: ${p.swatches[i].value} is followed by ${s.value}`] : [])),
-  );
+  ));
   const setPad = (i: number, patch: Partial<EditPad>) => setChart((c) => ({ ...c, pads: c.pads.map((p, j) => (j === i ? { ...p, ...patch } : p)) }));
   const setSwatch = (i: number, k: number, patch: Partial<EditSwatch>) =>
     setPad(i, { swatches: chart.pads[i].swatches.map((s, j) => (j === k ? { ...s, ...patch } : s)) });
@@ -98,7 +106,11 @@ export function ChartEditor({ initial, intent = "save", submitLabel = "Save as a
         <p className="text-sm text-ink-soft">Preview (tip on the left)</p>
         <StripPreview chart={chart} />
       </div>
-      {chart.pads.map((p, i) => (
+      {chart.pads.map((p, i) => {
+        // An analyte read from several pads shows once, its pads side by side.
+        const group = chart.pads.flatMap((q, j) => (q.analyte === p.analyte ? [j] : []));
+        if (group.length > 1) return group[0] === i ? <AnalytePadsFieldset key={i} chart={chart} indices={group} setChart={setChart} distance={distance} tooClose={TOO_CLOSE} /> : null;
+        return (
         <fieldset key={i} className="rounded-xl border border-line p-3" data-testid={`pad-${p.analyte}`}>
           <legend className="px-1 font-bold">
             Pad {i + 1}: {p.label || p.analyte}
@@ -137,7 +149,8 @@ export function ChartEditor({ initial, intent = "save", submitLabel = "Save as a
             {chart.pads.length > 1 && <Button type="button" variant="quiet" onClick={() => setChart({ ...chart, pads: chart.pads.filter((_, j) => j !== i) })}>Remove pad</Button>}
           </div>
         </fieldset>
-      ))}
+        );
+      })}
       <Button
         type="button"
         variant="secondary"

@@ -321,7 +321,8 @@ export async function correctionsReport(chart: StripChart, batchId: string) {
     .where(and(eq(reading.batchId, batchId), isNotNull(readingPad.confirmedValue), isNotNull(readingPad.readValue)));
   const doc = exportChart(chart) as Doc;
   const changes: Proposal["changes"] = [];
-  const pads = chart.pads.map((p) => {
+  const firstPads = chart.pads.filter((p, i) => chart.pads.findIndex((q) => q.analyte === p.analyte) === i);
+  const pads = firstPads.map((p) => {
     const mine = rows.filter((r) => r.analyte === p.analyte);
     const corrected = mine.filter((r) => r.confirmedValue !== r.readValue);
     const offsets = mine.map((r) => (r.confirmedValue ?? 0) - (r.readValue ?? 0));

@@ -17,6 +17,7 @@ import type { Tub } from "~/lib/tub-access.server";
 import { parseChart } from "~/reading/chart";
 import { rangeStatus } from "~/lib/range-status";
 import { analyteName } from "~/chemistry";
+import { analyteSwatches, type AnalyteSwatches } from "~/features/charts/analyte-swatches";
 
 export class ClientInputError extends Error {
   constructor(message: string, public status = 400) {
@@ -340,11 +341,11 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
   const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((r) => r.id))) : [];
   const versionIds = [...new Set(rows.map((r) => r.chartVersionId).filter((v): v is string => Boolean(v)))];
   const versions = versionIds.length ? await db.select({ id: chartVersion.id, definition: chartVersion.definition }).from(chartVersion).where(inArray(chartVersion.id, versionIds)) : [];
-  const swatchesByVersion = new Map<string, Map<string, { label: string; swatches: { value: number; color: string }[] }>>();
+  const swatchesByVersion = new Map<string, Map<string, AnalyteSwatches>>();
   for (const v of versions) {
     try {
       const chart = parseChart(v.definition);
-      swatchesByVersion.set(v.id, new Map(chart.pads.map((p) => [p.analyte, { label: p.label, swatches: p.swatches.map((s) => ({ value: s.value, color: s.color })) }])));
+      swatchesByVersion.set(v.id, new Map(analyteSwatches(chart.pads).map((g) => [g.analyte, g])));
     } catch {
       // a chart that no longer parses: the values are shown without swatches
     }
@@ -369,7 +370,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
           .map((p) => ({
             id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? analyteName(p.analyte), unit: p.unit,
             readValue: p.readValue, confirmedValue: p.confirmedValue, needsReview: p.needsReview, reason: p.reviewReason,
-            confidence: p.confidence, hasCrop: Boolean(p.cropKey && r.photoId), swatches: chartPads?.get(p.analyte)?.swatches ?? [],
+            confidence: p.confidence, hasCrop: Boolean(p.cropKey && r.photoId), swatches: chartPads?.get(p.analyte)?.swatches ?? [], padCount: chartPads?.get(p.analyte)?.pads ?? 1,
           })),
       };
     }),

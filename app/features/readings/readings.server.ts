@@ -12,6 +12,7 @@ import { queueRead } from "./read-job.server";
 import { READ_QUEUE } from "~/jobs/queues";
 import { headObject, putObject, readObject } from "~/lib/storage.server";
 import { csvLine } from "~/lib/csv";
+import { analyteSwatches } from "~/features/charts/analyte-swatches";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import type { Tub } from "~/lib/tub-access.server";
@@ -92,8 +93,9 @@ export async function loadReview(t: Tub, readingId: string | undefined) {
     }
   }
   const confirmer = r.confirmedBy ? await db.query.user.findFirst({ where: eq(userTable.id, r.confirmedBy) }) : null;
-  const chartPads = chart?.pads ?? [];
-  const analytes = chartPads.length ? chartPads.map((p) => p.analyte) : pads.map((p) => p.analyte);
+  // One entry per analyte: an analyte read from several pads shows once, its pads' colours side by side.
+  const groups = new Map(analyteSwatches(chart?.pads ?? []).map((g) => [g.analyte, g]));
+  const analytes = groups.size ? [...groups.keys()] : pads.map((p) => p.analyte);
   const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
   return {
     reading: {
@@ -102,14 +104,15 @@ export async function loadReview(t: Tub, readingId: string | undefined) {
       confirmedBy: confirmer?.name ?? null, confirmedAt: r.confirmedAt?.toISOString() ?? null,
     },
     pads: analytes.map((analyte) => {
-      const cp = chartPads.find((p) => p.analyte === analyte);
+      const cp = groups.get(analyte);
       const p = pads.find((x) => x.analyte === analyte);
       const target = targets.get(analyte);
       return {
         analyte,
         label: cp?.label ?? analyteName(analyte),
         unit: cp?.unit ?? p?.unit ?? "",
-        swatches: cp?.swatches.map((s) => ({ value: s.value, color: s.color })) ?? [],
+        swatches: cp?.swatches ?? [],
+        padCount: cp?.pads ?? 1,
         readValue: p?.readValue ?? null,
         confidence: p?.confidence ?? null,
         needsReview: p ? p.needsReview : true,

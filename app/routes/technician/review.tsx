@@ -1,6 +1,6 @@
 import { data, redirect } from "react-router";
 import { Pager } from "~/components/Pager";
-import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
+import { Button, Card, EmptyState, Notice, PageTitle, cx } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
 import { askedPage } from "~/lib/paging";
 import { requirePermission } from "~/lib/session.server";
@@ -98,7 +98,11 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                 {r.pads.map((p) => (
                   <li key={p.id} className="flex flex-wrap items-center gap-3 py-2">
                     {p.hasCrop ? (
-                      <img src={`${base}/readings/${r.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={48} height={48} loading="lazy" className="h-12 w-12 rounded border border-line object-cover" />
+                      p.padCount > 1 ? (
+                        <img src={`${base}/readings/${r.id}/crops/${p.analyte}`} alt={`${p.label} pads as photographed, side by side`} width={48 * p.padCount} height={48} loading="lazy" className="h-12 w-auto max-w-full rounded border border-line" />
+                      ) : (
+                        <img src={`${base}/readings/${r.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={48} height={48} loading="lazy" className="h-12 w-12 rounded border border-line object-cover" />
+                      )
                     ) : (
                       <span className="h-12 w-12 rounded border border-dashed border-line" aria-hidden="true" />
                     )}
@@ -116,7 +120,11 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                         {p.swatches.map((s) => (
                           <label key={s.value} className="flex cursor-pointer flex-col items-center text-xs">
                             <input type="radio" form={formId} name={`swatch_${p.id}`} value={s.value} className="peer sr-only" />
-                            <span className="h-9 w-9 rounded border-2 border-line peer-checked:border-ink peer-focus-visible:outline peer-focus-visible:outline-2" style={{ background: s.color }} />
+                            <span className={cx("flex overflow-hidden rounded border-2 border-line peer-checked:border-ink peer-focus-visible:outline peer-focus-visible:outline-2", p.padCount > 1 ? "h-9 w-14" : "h-9 w-9")}>
+                              {s.colors.map((c, k) => (
+                                <span key={k} className="block h-full flex-1" style={{ background: c }} />
+                              ))}
+                            </span>
                             <span className={s.value === p.readValue ? "font-bold" : ""}>{s.value}</span>
                           </label>
                         ))}

@@ -4,6 +4,7 @@ import { QueryClient, QueryClientProvider, useQuery } from "@tanstack/react-quer
 import { useEffect, useState } from "react";
 import { data, Form, redirect, useNavigation, useRevalidator } from "react-router";
 import { BackLink, Button, ButtonLink, Card, Notice, PageTitle, cx, inputClass } from "~/components/ui";
+import { SwatchColours } from "~/components/reading/SwatchColours";
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import { timeWords } from "~/lib/dates";
@@ -164,17 +165,22 @@ function Review({ loaderData, actionData }: Route.ComponentProps) {
           const err = actionData?.fields?.[p.analyte];
           return (
             <Card key={p.analyte} className={cx("space-y-3", p.needsReview && p.readValue !== null && !confirmed && "border-caution")} data-testid={`pad-${p.analyte}`}>
-              <div className="flex items-start gap-3">
+              <div className="flex flex-wrap items-start gap-3">
                 {p.hasCrop && reading.photoId ? (
-                  <img src={`/tubs/${tub.id}/readings/${reading.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={64} height={64} className="size-16 rounded-lg border border-line" />
+                  p.padCount > 1 ? (
+                    <img src={`/tubs/${tub.id}/readings/${reading.id}/crops/${p.analyte}`} alt={`${p.label} pads as photographed, side by side`} width={56 * p.padCount} height={56} className="h-14 w-auto max-w-full rounded-lg border border-line" />
+                  ) : (
+                    <img src={`/tubs/${tub.id}/readings/${reading.id}/crops/${p.analyte}`} alt={`${p.label} pad as photographed`} width={64} height={64} className="size-16 rounded-lg border border-line" />
+                  )
                 ) : (
                   <div className="grid size-16 place-items-center rounded-lg border border-dashed border-line text-xs text-ink-soft">no crop</div>
                 )}
-                <div className="flex-1">
+                <div className="min-w-48 flex-1">
                   <h2 className="text-lg font-bold">{p.label}</h2>
+                  {p.padCount > 1 && <p className="text-sm text-ink-soft">One reading from {p.padCount} pads, read together</p>}
                   {p.readValue !== null ? (
                     <p className="text-ink-soft">
-                      Read as <strong className="text-ink">{p.readValue} {p.unit}</strong>
+                      Read as <strong className="text-ink" data-testid="read-value">{p.readValue} {p.unit}</strong>
                       {p.confidence !== null && <> · {confidenceWords(p.confidence)} ({Math.round(p.confidence * 100)}%)</>}
                     </p>
                   ) : (
@@ -198,9 +204,9 @@ function Review({ loaderData, actionData }: Route.ComponentProps) {
                         onClick={() => setValues((v) => ({ ...v, [p.analyte]: String(s.value) }))}
                         aria-pressed={selected}
                         aria-label={`${p.label} ${s.value}`}
-                        className={cx("flex w-12 flex-col items-center rounded-lg border-2 p-1 text-xs", selected ? "border-well-900" : "border-transparent")}
+                        className={cx("flex flex-col items-center rounded-lg border-2 p-1 text-xs", p.padCount > 1 ? "w-16" : "w-12", selected ? "border-well-900" : "border-transparent")}
                       >
-                        <span className="block size-9 rounded-md border border-black/10" style={{ background: s.color }} />
+                        <SwatchColours colors={s.colors} className={p.padCount > 1 ? "h-9 w-14" : "size-9"} />
                         <span className="mt-0.5 font-bold">{s.value}</span>
                       </button>
                     );
