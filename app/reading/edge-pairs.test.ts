@@ -2,7 +2,7 @@
 // a bright patch beside it (so that thresholded components cannot separate it).
 import { describe, expect, it } from "vitest";
 import { parseChart } from "./chart";
-import { edgePairCandidates } from "./edge-pairs";
+import { boxBlur3, edgePairCandidates } from "./edge-pairs";
 
 const chart = parseChart({
   format: "strip-chart/1",
@@ -22,5 +22,33 @@ describe("edgePairCandidates", () => {
     expect(band!.width).toBeGreaterThan(6);
     expect(band!.width).toBeLessThan(10);
     expect(band!.length).toBeGreaterThan(120);
+  });
+});
+
+describe("boxBlur3", () => {
+  it("spreads a single spike evenly over its 3 × 3 neighbourhood", () => {
+    const a = new Float32Array(25);
+    a[12] = 9;
+    boxBlur3(a, 5, 5);
+    expect(a[12]).toBeCloseTo(1, 6);
+    expect(a[6]).toBeCloseTo(1, 6);
+    expect(a[0]).toBe(0);
+  });
+});
+
+describe("edgePairCandidates on a textured surface", () => {
+  it("finds a strip only slightly darker than a woven surface", () => {
+    // Weave: a checker of ±4 % in whiteness; the band is 10 % darker than the surface.
+    const w = 240, h = 160, whiteness = new Float32Array(w * h);
+    for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) whiteness[y * w + x] = 0.6 * ((x + y) % 2 ? 1.04 : 0.96);
+    const a = (-20 * Math.PI) / 180, ux = Math.cos(a), uy = Math.sin(a);
+    for (let y = 0; y < h; y++)
+      for (let x = 0; x < w; x++) {
+        const dx = x - 120, dy = y - 80, t = dx * ux + dy * uy, s = -dx * uy + dy * ux;
+        if (Math.abs(t) < 90 && Math.abs(s) < 4) whiteness[y * w + x] *= 0.9;
+      }
+    const cands = edgePairCandidates({ w, h, factor: 1, whiteness }, chart);
+    const band = cands.find((c) => Math.abs(-(c.cx - 120) * uy + (c.cy - 80) * ux) < 1.5 && Math.hypot(c.cx - 120, c.cy - 80) < 15 && Math.abs(Math.sin(c.angle - a)) < 0.05);
+    expect(band).toBeDefined();
   });
 });

@@ -16,6 +16,9 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const { w, h, whiteness } = s;
   const L = new Float32Array(w * h);
   for (let i = 0; i < L.length; i++) L[i] = Math.log(whiteness[i]);
+  // A 3 × 3 box blur first: a woven or grained surface's fine texture would otherwise scatter the
+  // direction of a faint edge (a strip barely lighter or darker than the surface) over many angles.
+  boxBlur3(L, w, h);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
   const mag = new Float32Array(w * h), gradX = new Float32Array(w * h), gradY = new Float32Array(w * h);
   const hist = new Uint32Array(256);
@@ -168,4 +171,25 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     out.push({ cx: rm * c - sm * sn, cy: rm * sn + sm * c, angle: Math.atan2(c, -sn), length, width, score: p.score, n: length * width });
   }
   return out;
+}
+
+/** In-place 3 × 3 box blur (edges: the pixels inside the image only). */
+export function boxBlur3(a: Float32Array, w: number, h: number) {
+  const tmp = new Float32Array(w * h);
+  for (let y = 0; y < h; y++)
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      let s = a[i], n = 1;
+      if (x > 0) (s += a[i - 1]), n++;
+      if (x < w - 1) (s += a[i + 1]), n++;
+      tmp[i] = s / n;
+    }
+  for (let y = 0; y < h; y++)
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      let s = tmp[i], n = 1;
+      if (y > 0) (s += tmp[i - w]), n++;
+      if (y < h - 1) (s += tmp[i + w]), n++;
+      a[i] = s / n;
+    }
 }
