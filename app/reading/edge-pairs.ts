@@ -12,6 +12,9 @@ import { median } from "./stats";
  * where the thresholded components cannot separate it. Each pair's extent along the lines is
  * taken from where its edge pixels lie.
  */
+/** Degrees either side of an edge pixel's gradient direction it votes for. */
+const ANGLE_REACH = 3;
+
 export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8): StripCandidate[] {
   const { w, h, whiteness } = s;
   const L = new Float32Array(w * h);
@@ -62,12 +65,14 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       if (th >= Math.PI) th -= Math.PI;
       const k0 = Math.round((th * nT) / Math.PI);
       ex.push(x), ey.push(y), et.push(k0 % nT);
-      for (let dk = -1; dk <= 1; dk++) {
+      // A vote for each direction within ±3° of the gradient's, less the further off: an edge's
+      // direction from a 3 × 3 gradient is only that precise on a stepped (aliased) or grainy edge.
+      for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) {
         let k = k0 + dk, sign = 1;
         if (k < 0) (k += nT), (sign = -1);
         else if (k >= nT) (k -= nT), (sign = -1);
         const r = Math.round(sign * (x * cosT[k] + y * sinT[k])) + diag;
-        acc[k * nR + r] += dk === 0 ? 1 : 0.5;
+        acc[k * nR + r] += 1 - Math.abs(dk) / (ANGLE_REACH + 1);
       }
     }
   const aspect = chart.strip.lengthMm / chart.strip.widthMm;
@@ -129,7 +134,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     let n1 = 0, n2 = 0;
     for (let j = 0; j < ex.length; j++) {
       const dk = Math.abs(et[j] - p.k);
-      if (Math.min(dk, nT - dk) > 2) continue;
+      if (Math.min(dk, nT - dk) > ANGLE_REACH + 1) continue;
       const r = ex[j] * c + ey[j] * sn + diag;
       const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
       if (!on1 && !on2) continue;

@@ -31,6 +31,9 @@ describe("locateStrip", () => {
     it(`places the pads of a strip rotated ${angleDeg}° on a darker surface`, () => {
       expectPadsPlaced({ ...base, angleDeg }, [110, 105, 98]);
     });
+  it("places the pads of a pale strip on a pale surface", () => {
+    expectPadsPlaced({ ...base, angleDeg: 23 }, [232, 230, 223]);
+  });
   it("places the pads of a strip lying along a dark grout line", () => {
     expectPadsPlaced({ ...base, angleDeg: 0 }, [225, 222, 215], [{ y: 180, thickness: 6, color: [95, 92, 90] }]);
   });
