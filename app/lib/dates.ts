@@ -11,14 +11,23 @@ export const DEFAULT_LOCALE = "en-GB";
 
 export type DateSettings = { locale: string; timeZone: string | null };
 
+const zoneChecks = new Map<string, boolean>();
 export function isTimeZone(zone: string | null | undefined): zone is string {
   if (!zone || zone.length > 64) return false;
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: zone });
-    return true;
-  } catch {
-    return false;
+  // Making a formatter to try a zone is slow (a page of times asks dozens of times): remember
+  // the answers, a bounded number of them (the zone comes from a cookie too).
+  let ok = zoneChecks.get(zone);
+  if (ok === undefined) {
+    try {
+      new Intl.DateTimeFormat("en", { timeZone: zone });
+      ok = true;
+    } catch {
+      ok = false;
+    }
+    if (zoneChecks.size >= 1000) zoneChecks.clear();
+    zoneChecks.set(zone, ok);
   }
+  return ok;
 }
 
 /** The first supported locale of an Accept-Language header. */

@@ -11,15 +11,26 @@ export function rangeStatus(value: number | null | undefined, target: { min: num
   return "in";
 }
 
+// One "en-CA" day formatter per zone (making one is slow next to using one), a bounded number.
+const dayFormatters = new Map<string, Intl.DateTimeFormat>();
+function dayFormatter(timeZone: string): Intl.DateTimeFormat {
+  let f = dayFormatters.get(timeZone);
+  if (!f) {
+    try {
+      f = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
+    } catch {
+      f = dayFormatter("UTC");
+    }
+    if (dayFormatters.size >= 1000) dayFormatters.clear();
+    dayFormatters.set(timeZone, f);
+  }
+  return f;
+}
+
 /** How long ago, in whole days, in words; worked out on the server so the page never shifts after load. */
 export function daysAgo(then: Date, now: Date, timeZone: string) {
-  let zone = timeZone;
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: zone });
-  } catch {
-    zone = "UTC";
-  }
-  const day = (d: Date) => Date.parse(`${new Intl.DateTimeFormat("en-CA", { timeZone: zone, year: "numeric", month: "2-digit", day: "2-digit" }).format(d)}T00:00:00Z`);
+  const f = dayFormatter(timeZone);
+  const day = (d: Date) => Date.parse(`${f.format(d)}T00:00:00Z`);
   const n = Math.round((day(now) - day(then)) / 86_400_000);
   return n <= 0 ? "today" : n === 1 ? "yesterday" : `${n} days ago`;
 }

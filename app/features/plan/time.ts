@@ -1,7 +1,22 @@
 // Times in the tub's time zone, with the platform's Intl only.
+import { isTimeZone } from "~/lib/dates";
+
+// Making an Intl formatter is slow next to using one (a list of a hundred treatments formats
+// hundreds of times): one formatter per style and zone, kept.
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function fmt(style: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  const key = `${style}|${options.timeZone}`;
+  let f = formatters.get(key);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-GB", options);
+    if (formatters.size >= 2000) formatters.clear();
+    formatters.set(key, f);
+  }
+  return f;
+}
 
 function parts(d: Date, timeZone: string) {
-  const f = new Intl.DateTimeFormat("en-GB", {
+  const f = fmt("parts", {
     timeZone,
     year: "numeric",
     month: "2-digit",
@@ -18,27 +33,23 @@ function parts(d: Date, timeZone: string) {
 }
 
 export function safeZone(timeZone: string | null | undefined): string {
-  try {
-    new Intl.DateTimeFormat("en-GB", { timeZone: timeZone ?? "UTC" });
-    return timeZone ?? "UTC";
-  } catch {
-    return "UTC";
-  }
+  if (timeZone === null || timeZone === undefined) return "UTC";
+  return isTimeZone(timeZone) ? timeZone : "UTC";
 }
 
 /** "14:35" in the time zone. */
 export function clock(d: Date | string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+  return fmt("clock", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
 }
 
 /** "Tue 3 Jun, 14:35" in the time zone. */
 export function dayAndClock(d: Date | string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+  return fmt("dayAndClock", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
 }
 
 /** "3 June 2025" from a date-only string or a time. */
 export function longDate(d: Date | string): string {
-  return new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(new Date(d));
+  return fmt("longDate", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(new Date(d));
 }
 
 /** The value of a datetime-local input for this instant in the time zone: "2025-06-03T14:35". */
@@ -77,5 +88,5 @@ export function remainingWords(ms: number): string {
 
 /** "Wed 2 Dec" in the time zone. */
 export function dayOnly(d: Date | string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", timeZone: safeZone(timeZone) }).format(new Date(d));
+  return fmt("dayName", { weekday: "short", day: "numeric", month: "short", timeZone: safeZone(timeZone) }).format(new Date(d));
 }
