@@ -53,7 +53,14 @@ export async function seedScale(opts: ScaleOptions) {
     await step("earlier scale treatments removed", `delete from treatment where tub_id in (${scaleTubs})`);
     await step("earlier scale readings removed", `delete from reading where tub_id in (${scaleTubs})`);
     await step("earlier scale tubs removed", `delete from tub where id in (${scaleTubs})`);
-    await step("earlier scale users removed", `delete from "user" where email like '%@scale.lanternbay.test'`);
+    // The people are kept and updated below (removing a person makes PostgreSQL look through every
+    // reading for their name, row by row); only owners beyond this seed's tubs go.
+    await step(
+      "earlier scale owners beyond this size removed",
+      `delete from "user" where email like '%@scale.lanternbay.test' and id not in ('scale-tech', 'scale-admin')
+          and not (id ~ '^scale-owner-[0-9]{1,6}$' and substring(id from 13)::int <= $1::int)`,
+      [opts.tubs],
+    );
     await step("earlier scale chart removed", `delete from strip_chart where name = 'Scale test chart (invented colours)'`);
     await client.query("set local session_replication_role = replica").catch(() => log("  (not a superuser: triggers stay on, the load is slower)"));
 
@@ -81,13 +88,15 @@ export async function seedScale(opts: ScaleOptions) {
               ('scale-admin', 'Quinn (scale admin)', $2, true, 'admin')
        union all
        select 'scale-owner-' || g, 'Owner ' || g || ' (scale)', 'owner-' || lpad(g::text, 4, '0') || '@scale.lanternbay.test', true, 'owner'
-         from generate_series(1, $3::int) g`,
+         from generate_series(1, $3::int) g
+       on conflict (id) do update set name = excluded.name, email = excluded.email, email_verified = true, role = excluded.role, banned = false`,
       [SCALE_TECH_EMAIL, SCALE_ADMIN_EMAIL, opts.tubs],
     );
     await step(
       "credentials",
       `insert into account (id, account_id, provider_id, user_id, password)
-       select id || '-credential', id, 'credential', id, $1 from "user" where email like '%@scale.lanternbay.test'`,
+       select id || '-credential', id, 'credential', id, $1 from "user" where email like '%@scale.lanternbay.test'
+       on conflict (id) do update set password = excluded.password`,
       [hash],
     );
     const zones = ["Europe/London", "America/Vancouver", "Australia/Sydney", "America/New_York", "Europe/Berlin"];
