@@ -93,7 +93,7 @@ async function main() {
     stopChildren();
     postgres.stop();
   };
-  process.on("SIGINT", () => (cleanup(), process.exit(130)));
+  for (const signal of ["SIGINT", "SIGTERM"] as const) process.on(signal, () => (cleanup(), process.exit(130)));
   try {
     const dbName = "dipwell_bench";
     const databaseUrl = postgres.url(dbName);
