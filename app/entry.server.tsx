@@ -7,8 +7,13 @@ import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type RouterContextProvider } from "react-router";
+import { enqueueEmail } from "./features/notify/outbox.server";
+import { sendAccountMailWith } from "./lib/auth.server";
 import { NonceContext } from "./lib/nonce";
 import { nonceContext } from "./lib/web-security.server";
+
+// Sign-in's account e-mails leave through the outbox, like every other e-mail.
+sendAccountMailWith(enqueueEmail);
 
 export const streamTimeout = 5_000;
 

@@ -9,16 +9,35 @@ import { admin as adminPlugin } from "better-auth/plugins";
 import { account, session, user, verification } from "../db/schema";
 import { db } from "./db.server";
 import { resetPasswordMail, verifyEmailMail } from "./emails";
-import { enqueueEmail } from "../features/notify/outbox.server";
 import { env } from "./env.server";
 import { ac, roles } from "./permissions";
+import { processGlobal } from "./process-global";
 import { CLIENT_ADDRESS_HEADER, PASSWORD_PATHS, attemptKeys, countAttempt, forgiveAttempt } from "./sign-in-limit.server";
 
-// Account e-mails go through the outbox (app/features/notify): queued in
-// PostgreSQL, sent by the worker, retried with back-off, listed at /admin/email.
+// Account e-mails (address check, password reset) leave through the mailer the app
+// plugs in at start-up (`sendAccountMailWith`): the outbox of app/features/notify, which
+// queues them in PostgreSQL, sends them from the worker, retries with back-off and lists
+// them at /admin/email. Sign-in sits below the features, so it names no feature itself.
 const digest = (s: string) => createHash("sha256").update(s).digest("hex").slice(0, 24);
 
 export const NAME_MAX = 80;
+
+/** An account e-mail as sign-in hands it to the mailer. */
+export type AccountMail = { kind: "verify_email" | "reset_password"; to: string; userId: string; dedupeKey: string; subject: string; text: string; html: string };
+export type AccountMailer = (mail: AccountMail) => Promise<unknown>;
+
+const accountMailer = processGlobal<AccountMailer>("accountMailer");
+
+/** Plugs in how account e-mails leave (the app's outbox); every process that signs people up calls it once at start-up. */
+export function sendAccountMailWith(mailer: AccountMailer) {
+  accountMailer.set(mailer);
+}
+
+async function sendAccountMail(mail: AccountMail) {
+  const mailer = accountMailer.get();
+  if (!mailer) throw new Error("Account e-mail has no way out: call sendAccountMailWith (app/lib/auth.server.ts) with the outbox at start-up.");
+  await mailer(mail);
+}
 
 type HookCtx = Parameters<Parameters<typeof createAuthMiddleware>[0]>[0];
 
@@ -74,7 +93,7 @@ function createAuth() {
       sendResetPassword: async ({ user, url, token }) => {
         // One outstanding reset link per account: a newer link ends every older one.
         await db.delete(verification).where(and(eq(verification.value, user.id), like(verification.identifier, "reset-password:%"), ne(verification.identifier, `reset-password:${token}`)));
-        await enqueueEmail({ kind: "reset_password", to: user.email, userId: user.id, dedupeKey: `reset_password:${user.id}:${digest(url)}`, ...resetPasswordMail(user.name, url) });
+        await sendAccountMail({ kind: "reset_password", to: user.email, userId: user.id, dedupeKey: `reset_password:${user.id}:${digest(url)}`, ...resetPasswordMail(user.name, url) });
       },
     },
     emailVerification: {
@@ -83,7 +102,7 @@ function createAuth() {
       autoSignInAfterVerification: true,
       expiresIn: 60 * 60 * 24,
       sendVerificationEmail: async ({ user, url }) => {
-        await enqueueEmail({ kind: "verify_email", to: user.email, userId: user.id, dedupeKey: `verify_email:${user.id}:${digest(url)}`, ...verifyEmailMail(user.name, url) });
+        await sendAccountMail({ kind: "verify_email", to: user.email, userId: user.id, dedupeKey: `verify_email:${user.id}:${digest(url)}`, ...verifyEmailMail(user.name, url) });
       },
     },
     session: { expiresIn: 60 * 60 * 24 * 30, updateAge: 60 * 60 * 24 },
@@ -99,7 +118,6 @@ function createAuth() {
 }
 
 type Auth = ReturnType<typeof createAuth>;
-const holder = globalThis as unknown as { __dipwellAuth?: Auth };
-export const auth: Auth = holder.__dipwellAuth ?? (holder.__dipwellAuth = createAuth());
+export const auth: Auth = processGlobal<Auth>("auth").once(createAuth);
 
 export type SessionUser = Auth["$Infer"]["Session"]["user"];

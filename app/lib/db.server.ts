@@ -3,6 +3,7 @@ import pg from "pg";
 import * as schema from "../db/schema";
 import { databaseUnavailable, noteDatabaseError } from "./db-health";
 import { env } from "./env.server";
+import { processGlobal } from "./process-global";
 
 function connect() {
   const pool = new pg.Pool({
@@ -25,10 +26,8 @@ function connect() {
 }
 
 type Db = ReturnType<typeof connect>;
-const holder = globalThis as unknown as { __dipwellDb?: Db };
-
 /** One pool per process, kept across dev reloads. */
-export const db: Db = holder.__dipwellDb ?? (holder.__dipwellDb = connect());
+export const db: Db = processGlobal<Db>("db").once(connect);
 export { schema };
 
 /** True when PostgreSQL answers a trivial query within `timeoutMs`. */

@@ -1,6 +1,7 @@
 // Each Vitest worker gets a database of its own, cloned from the migrated
 // template that `npm test` prepared, so parallel workers never share rows.
 import pg from "pg";
+import { processGlobal } from "~/lib/process-global";
 
 const pattern = process.env.TEST_DATABASE_URL_PATTERN;
 const adminUrl = process.env.TEST_ADMIN_DATABASE_URL;
@@ -9,8 +10,8 @@ if (!pattern || !adminUrl) {
 }
 const id = process.env.VITEST_POOL_ID ?? "1";
 const name = `dipwell_w${id}`;
-const holder = globalThis as { __dipwellWorkerDb?: string };
-if (holder.__dipwellWorkerDb !== name) {
+const workerDb = processGlobal<string>("workerDb");
+if (workerDb.get() !== name) {
   const client = new pg.Client({ connectionString: adminUrl });
   await client.connect();
   try {
@@ -25,6 +26,11 @@ if (holder.__dipwellWorkerDb !== name) {
   } finally {
     await client.end();
   }
-  holder.__dipwellWorkerDb = name;
+  workerDb.set(name);
 }
 process.env.DATABASE_URL = pattern.replace("{id}", id);
+
+// As in the app's server entry: sign-in's account e-mails leave through the outbox.
+const { sendAccountMailWith } = await import("~/lib/auth.server");
+const { enqueueEmail } = await import("~/features/notify/outbox.server");
+sendAccountMailWith(enqueueEmail);

@@ -3,7 +3,7 @@ import { useEffect, useState } from "react";
 import { Form } from "react-router";
 import { analyteWord, type Headline, type PlanStep, type WaterBalance } from "~/chemistry";
 import { Button, ButtonLink, Card, Notice, cx } from "~/components/ui";
-import { remainingWords } from "~/features/plan/time";
+import { remainingWords } from "~/lib/tub-time";
 
 
 export const CHEMICAL_NAMES: Record<string, string> = {

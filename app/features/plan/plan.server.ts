@@ -27,7 +27,7 @@ import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
 import { READING_KEYS, TARGET_PARAMETERS } from "./shared";
 export { READING_KEYS, TARGET_PARAMETERS } from "./shared";
-import { clock, dayOnly, fromLocalInput, safeZone } from "./time";
+import { clock, dayOnly, fromLocalInput, safeZone } from "~/lib/tub-time";
 
 export interface LatestReading {
   id: string;

@@ -6,7 +6,7 @@ import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
 import { activeTimer, latestReading, recentTreatments, runEngine, tubGuidance, type LatestReading } from "./plan.server";
-import { clock, safeZone } from "./time";
+import { clock, safeZone } from "~/lib/tub-time";
 
 export const FIRST_FILL = "first_fill";
 

@@ -3,7 +3,7 @@ import { volumeWords, type RoutineStep } from "~/chemistry";
 import { Cautions, RetestTimer, TubTabs } from "~/components/plan/plan-ui";
 import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
 import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
-import { dayAndClock, longDate } from "~/features/plan/time";
+import { dayAndClock, longDate } from "~/lib/tub-time";
 import { userUnits } from "~/features/plan/units.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/setup";

@@ -3,7 +3,7 @@ import { FirstFillPrompt, RetestTimer, TubTabs, chemicalName } from "~/component
 import { Button, Card, EmptyState, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
 import { ownerProducts } from "~/features/plan/catalogue.server";
 import { activeTimer, deleteTreatment, recentTreatments, recordTreatment } from "~/features/plan/plan.server";
-import { dayAndClock, safeZone, toLocalInput } from "~/features/plan/time";
+import { dayAndClock, safeZone, toLocalInput } from "~/lib/tub-time";
 import { safeRedirect } from "~/lib/session.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/treatments";

@@ -7,7 +7,7 @@ import { Button, Card, EmptyState, Input, Notice, PageTitle } from "~/components
 import { parseTargets, parseWhatIf, saveTargets, tubPlan } from "~/features/plan/plan.server";
 import { READING_KEYS, TARGET_PARAMETERS } from "~/features/plan/shared";
 import { analyteLabel, analyteName } from "~/chemistry";
-import { dayAndClock } from "~/features/plan/time";
+import { dayAndClock } from "~/lib/tub-time";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/tub-plan";
 

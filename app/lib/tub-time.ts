@@ -1,5 +1,6 @@
-// Times in the tub's time zone, with the platform's Intl only.
-import { isTimeZone } from "~/lib/dates";
+// Times in the tub's time zone, with the platform's Intl only: shared by the plan's server
+// code and its screens.
+import { isTimeZone } from "./dates";
 
 // Making an Intl formatter is slow next to using one (a list of a hundred treatments formats
 // hundreds of times): one formatter per style and zone, kept.
@@ -32,6 +33,7 @@ function parts(d: Date, timeZone: string) {
   return out as { year: number; month: number; day: number; hour: number; minute: number; second: number };
 }
 
+/** The zone if the platform knows it, else UTC. */
 export function safeZone(timeZone: string | null | undefined): string {
   if (timeZone === null || timeZone === undefined) return "UTC";
   return isTimeZone(timeZone) ? timeZone : "UTC";
