@@ -5,6 +5,7 @@
  */
 import sharp from "sharp";
 import { linear16ToSrgb8Lut, type Rgb } from "./colour";
+import { to16 } from "./pixels";
 import type { Rng } from "./prng";
 import type { Point } from "./types";
 
@@ -207,4 +208,75 @@ export function defaultSize(rng: Rng, orientation?: "portrait" | "landscape"): [
   const [long, short] = rng.pick([[2016, 1512], [1920, 1440], [1800, 1350], [1632, 1224]] as const);
   const o = orientation ?? (rng.chance(0.5) ? "portrait" : "landscape");
   return o === "portrait" ? [short, long] : [long, short];
+}
+
+/** A specular glint on the surface plane (mm), its radius and peak in linear light. */
+export type Spot = { X: number; Y: number; r: number; peak: number };
+
+export type Scene = {
+  width: number;
+  height: number;
+  /** image pixel → surface mm */
+  Hi: Mat3;
+  /** the albedo of the surface under the object, written into `out` (linear RGB) */
+  surface: (X: number, Y: number, ix: number, iy: number, out: Float32Array) => void;
+  lightFn: (x: number, y: number) => number;
+  exposure: number;
+  gains: Rgb;
+  /** how much of the light reaches (X, Y): 1 in full light; shade is lit by a slightly bluer fill */
+  shadowFn?: ((X: number, Y: number) => number) | null;
+  spots?: Spot[];
+};
+
+/**
+ * The camera's per-pixel pass shared by the strip and chart renderers: each pixel centre goes back
+ * to the surface (X, Y in mm) through the inverse homography; the surface gives its albedo, `paint`
+ * lays the object on it (linear RGB, changed in place), then light, shadow, glints and the
+ * white-balance gains make the 16-bit linear pixel.
+ */
+export function renderScene(scene: Scene, paint: (X: number, Y: number, x: number, y: number, rgb: Float64Array) => void): Uint16Array {
+  const { width, height, surface, lightFn, exposure, gains } = scene;
+  const shadowFn = scene.shadowFn ?? null;
+  const spots = scene.spots ?? [];
+  const out = new Uint16Array(width * height * 3);
+  const alb = new Float32Array(3);
+  const rgb = new Float64Array(3);
+  const [h0, h1, h2, h3, h4, h5, h6, h7, h8] = scene.Hi;
+  for (let y = 0; y < height; y++) {
+    const py = y + 0.5;
+    for (let x = 0; x < width; x++) {
+      const px = x + 0.5;
+      const w = h6 * px + h7 * py + h8;
+      const X = (h0 * px + h1 * py + h2) / w;
+      const Y = (h3 * px + h4 * py + h5) / w;
+      surface(X, Y, x, y, alb);
+      rgb[0] = alb[0]!;
+      rgb[1] = alb[1]!;
+      rgb[2] = alb[2]!;
+      paint(X, Y, x, y, rgb);
+      const lv = lightFn(px, py) * exposure;
+      const sh = shadowFn ? shadowFn(X, Y) : 1;
+      // Shadowed areas are lit by skylight-like fill light: a slightly bluer shade.
+      let rr = rgb[0]! * gains[0] * lv * sh;
+      let gg = rgb[1]! * gains[1] * lv * sh;
+      let bb = rgb[2]! * gains[2] * lv * (sh + (1 - sh) * 0.08);
+      for (let s = 0; s < spots.length; s++) {
+        const sp = spots[s]!;
+        const dx = X - sp.X;
+        const dy = Y - sp.Y;
+        const d2 = dx * dx + dy * dy;
+        if (d2 < 9 * sp.r * sp.r) {
+          const e = sp.peak * Math.exp(-d2 / (2 * sp.r * sp.r)) * exposure;
+          rr += e * gains[0];
+          gg += e * gains[1];
+          bb += e * gains[2];
+        }
+      }
+      const o = (y * width + x) * 3;
+      out[o] = to16(rr);
+      out[o + 1] = to16(gg);
+      out[o + 2] = to16(bb);
+    }
+  }
+  return out;
 }

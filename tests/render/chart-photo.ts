@@ -15,13 +15,14 @@ import {
   finish,
   inv3,
   makeLightFn,
+  renderScene,
   sceneHomography,
   type CastName,
   type LightField,
 } from "./camera";
 import { hexToLinear, type Rgb } from "./colour";
-import { clamp01, dropShadow, rectCoverage, to16 } from "./pixels";
-import { makeRng, pixelHash } from "./prng";
+import { layFlatObject, patch } from "./pixels";
+import { makeRng } from "./prng";
 import { makeSurface, SURFACES, type SurfaceName } from "./surfaces";
 import type { Point, Quad, RenderChart } from "./types";
 
@@ -158,66 +159,25 @@ export async function renderChartPhoto(chart: RenderChart, options: ChartPhotoOp
   const dox = Math.cos(dropAng) * 1.2;
   const doy = Math.sin(dropAng) * 1.2;
 
-  const out = new Uint16Array(width * height * 3);
-  const alb = new Float32Array(3);
   const halfW = cardW / 2;
   const halfH = cardH / 2;
   const sq = (CELL_MM * FILL) / 2;
-  const [h0, h1, h2, h3, h4, h5, h6, h7, h8] = Hi;
-  for (let y = 0; y < height; y++) {
-    const py = y + 0.5;
-    for (let x = 0; x < width; x++) {
-      const px = x + 0.5;
-      const w = h6 * px + h7 * py + h8;
-      const X = (h0 * px + h1 * py + h2) / w;
-      const Y = (h3 * px + h4 * py + h5) / w;
-      surface.fn(X, Y, x, y, alb);
-      let r = alb[0]!;
-      let g = alb[1]!;
-      let b = alb[2]!;
-      const cov = rectCoverage(X, Y, halfW, halfH, pxPerMm);
-      if (cov < 1) {
-        const k = dropShadow(X, Y, dox, doy, halfW, halfH, CARD_SHADOW);
-        r *= k;
-        g *= k;
-        b *= k;
-      }
-      if (cov > 0) {
-        const tex = 1 + 0.01 * (pixelHash(x, y, texSeed) - 0.5);
-        let cr = card[0] * tex;
-        let cg = card[1] * tex;
-        let cb = card[2] * tex;
-        const gc = Math.floor((X - gx0) / CELL_MM);
-        const gr = Math.floor((Y - gy0) / CELL_MM);
-        // Check this cell and its neighbours for anti-aliased swatch edges.
-        for (let rr = gr - 1; rr <= gr + 1; rr++) {
-          if (rr < 0 || rr >= rows) continue;
-          for (let cc = gc - 1; cc <= gc + 1; cc++) {
-            if (cc < 0 || cc >= cols) continue;
-            const col = cells[rr]![cc];
-            if (!col) continue;
-            const cx = gx0 + (cc + 0.5) * CELL_MM;
-            const cy = gy0 + (rr + 0.5) * CELL_MM;
-            const psd = Math.max(Math.abs(X - cx) - sq, Math.abs(Y - cy) - sq);
-            const pc = clamp01(0.5 - psd * pxPerMm);
-            if (pc > 0) {
-              cr += pc * (col[0] - cr);
-              cg += pc * (col[1] - cg);
-              cb += pc * (col[2] - cb);
-            }
-          }
+  const cardObject = { halfA: halfW, halfB: halfH, pxPerMm, dox, doy, shadow: CARD_SHADOW, base: card, texture: 0.01, texSeed };
+  const out = renderScene({ width, height, Hi, surface: surface.fn, lightFn, exposure, gains }, (X, Y, x, y, rgb) =>
+    layFlatObject(rgb, X, Y, x, y, cardObject, (face) => {
+      const gc = Math.floor((X - gx0) / CELL_MM);
+      const gr = Math.floor((Y - gy0) / CELL_MM);
+      // Check this cell and its neighbours for anti-aliased swatch edges.
+      for (let rr = gr - 1; rr <= gr + 1; rr++) {
+        if (rr < 0 || rr >= rows) continue;
+        for (let cc = gc - 1; cc <= gc + 1; cc++) {
+          if (cc < 0 || cc >= cols) continue;
+          const col = cells[rr]![cc];
+          if (col) patch(face, X - (gx0 + (cc + 0.5) * CELL_MM), Y - (gy0 + (rr + 0.5) * CELL_MM), sq, pxPerMm, col);
         }
-        r += cov * (cr - r);
-        g += cov * (cg - g);
-        b += cov * (cb - b);
       }
-      const lv = lightFn(px, py) * exposure;
-      const o = (y * width + x) * 3;
-      out[o] = to16(r * gains[0] * lv);
-      out[o + 1] = to16(g * gains[1] * lv);
-      out[o + 2] = to16(b * gains[2] * lv);
-    }
-  }
+    }),
+  );
   const jpeg = await finish(out, width, height, { blur, noise, quality }, rng);
 
   const P = (X: number, Y: number): Point => {

@@ -13,6 +13,7 @@ import {
   defaultSize,
   finish,
   makeLightFn,
+  renderScene,
   sceneHomography,
   apply,
   inv3,
@@ -20,8 +21,8 @@ import {
   type LightField,
 } from "./camera";
 import { hexToLinear, indexToValue, padColourAt, valueToIndex, type PadMix, type Rgb } from "./colour";
-import { clamp01, dropShadow, rectCoverage, to16 } from "./pixels";
-import { fbm, makeRng, pixelHash } from "./prng";
+import { layFlatObject, patch } from "./pixels";
+import { fbm, makeRng } from "./prng";
 import { makeSurface, SURFACES, type SurfaceName } from "./surfaces";
 import type { Point, RenderChart } from "./types";
 
@@ -250,80 +251,20 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
   const stripCol = hexToLinear(chart.strip.color);
   const texSeed = rng.int(1, 1 << 30);
 
-  const out = new Uint16Array(width * height * 3);
-  const alb = new Float32Array(3);
   const halfL = L / 2;
   const halfW = Wd / 2;
   const ppm = pxPerMm;
-  const [h0, h1, h2, h3, h4, h5, h6, h7, h8] = Hi;
-  for (let y = 0; y < height; y++) {
-    const py = y + 0.5;
-    for (let x = 0; x < width; x++) {
-      const px = x + 0.5;
-      const w = h6 * px + h7 * py + h8;
-      const X = (h0 * px + h1 * py + h2) / w;
-      const Y = (h3 * px + h4 * py + h5) / w;
-      surface.fn(X, Y, x, y, alb);
-      let r = alb[0]!;
-      let gr = alb[1]!;
-      let b = alb[2]!;
-      if (!noStrip) {
-        const cov = rectCoverage(X, Y, halfL, halfW, ppm);
-        if (cov < 1) {
-          const k = dropShadow(X, Y, dox, doy, halfL, halfW, STRIP_SHADOW);
-          r *= k;
-          gr *= k;
-          b *= k;
-        }
-        if (cov > 0) {
-          const tex = 1 + 0.012 * (pixelHash(x, y, texSeed) - 0.5);
-          let sr = stripCol[0] * tex;
-          let sg = stripCol[1] * tex;
-          let sb = stripCol[2] * tex;
-          const u = X + halfL;
-          for (let k = 0; k < pads.length; k++) {
-            const p = pads[k]!;
-            const psd = Math.max(Math.abs(u - p.u) - p.half, Math.abs(Y) - p.half);
-            const pc = clamp01(0.5 - psd * ppm);
-            if (pc > 0) {
-              const m = padTexture ? 1 + 0.03 * fbm(u * 1.5, Y * 1.5, texSeed + k, 2) : 1;
-              sr += pc * (p.col[0] * m - sr);
-              sg += pc * (p.col[1] * m - sg);
-              sb += pc * (p.col[2] * m - sb);
-            }
-          }
-          r += cov * (sr - r);
-          gr += cov * (sg - gr);
-          b += cov * (sb - b);
-        }
+  const stripObject = { halfA: halfL, halfB: halfW, pxPerMm: ppm, dox, doy, shadow: STRIP_SHADOW, base: stripCol, texture: 0.012, texSeed };
+  const out = renderScene({ width, height, Hi, surface: surface.fn, lightFn, exposure, gains, shadowFn, spots }, (X, Y, x, y, rgb) => {
+    if (noStrip) return;
+    layFlatObject(rgb, X, Y, x, y, stripObject, (face) => {
+      const u = X + halfL;
+      for (let k = 0; k < pads.length; k++) {
+        const p = pads[k]!;
+        patch(face, u - p.u, Y, p.half, ppm, p.col, padTexture ? () => 1 + 0.03 * fbm(u * 1.5, Y * 1.5, texSeed + k, 2) : undefined);
       }
-      const lv = lightFn(px, py) * exposure;
-      const sh = shadowFn ? shadowFn(X, Y) : 1;
-      // Shadowed areas are lit by skylight-like fill light: a slightly bluer shade.
-      const rr0 = r * gains[0] * lv * sh;
-      const gg0 = gr * gains[1] * lv * sh;
-      const bb0 = b * gains[2] * lv * (sh + (1 - sh) * 0.08);
-      let rr = rr0;
-      let gg = gg0;
-      let bb = bb0;
-      for (let s = 0; s < spots.length; s++) {
-        const sp = spots[s]!;
-        const dx = X - sp.X;
-        const dy = Y - sp.Y;
-        const d2 = dx * dx + dy * dy;
-        if (d2 < 9 * sp.r * sp.r) {
-          const e = sp.peak * Math.exp(-d2 / (2 * sp.r * sp.r)) * exposure;
-          rr += e * gains[0];
-          gg += e * gains[1];
-          bb += e * gains[2];
-        }
-      }
-      const o = (y * width + x) * 3;
-      out[o] = to16(rr);
-      out[o + 1] = to16(gg);
-      out[o + 2] = to16(bb);
-    }
-  }
+    });
+  });
 
   const jpeg = await finish(out, width, height, { blur, noise, quality }, rng);
 
