@@ -5,7 +5,7 @@ import { DEFAULT_PRODUCTS } from "./products";
 import { firstFillRoutine, foamTreatment, routineTopUp } from "./routines";
 import { DEFAULT_TARGETS } from "./targets";
 import type { WaterInput, WaterPlan } from "./types";
-import { validateWaterInput } from "./validate";
+import { hasNonFinite, validateWaterInput } from "./validate";
 
 const inRange: WaterInput = {
   volumeLitres: 1500,
@@ -14,12 +14,6 @@ const inRange: WaterInput = {
   readings: { free_chlorine: 3, ph: 7.5, total_alkalinity: 100, calcium_hardness: 200, cyanuric_acid: 30 },
 };
 
-function hasNonFinite(x: unknown): boolean {
-  if (typeof x === "number") return !Number.isFinite(x);
-  if (Array.isArray(x)) return x.some(hasNonFinite);
-  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
-  return false;
-}
 const firstDose = (p: WaterPlan) => p.steps.find((s) => s.kind === "dose")!;
 const amount = (s: WaterPlan["steps"][number]) => s.grams ?? s.millilitres ?? 0;
 

@@ -2,6 +2,7 @@
 // it. A tub the user may not see is "not found" (404), so its existence is not
 // revealed; an action the user may not take on a tub they can see is 403.
 import { and, eq, isNull } from "drizzle-orm";
+import { isUuid } from "./ids";
 import { data, type RouterContextProvider } from "react-router";
 import { tub, tubAccess } from "../db/schema";
 import type { SessionUser } from "./auth.server";
@@ -14,7 +15,6 @@ export type Tub = typeof tub.$inferSelect;
 export type TubNeed = "view" | "care" | "own";
 export type TubRelation = "owner" | "technician" | "admin";
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | null> {
   if (t.ownerId === user.id) return "owner";
@@ -30,7 +30,7 @@ async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | nul
 
 export async function requireTub(user: SessionUser, tubId: string | undefined, need: TubNeed = "view") {
   const notFound = () => data({ message: "We could not find that tub." }, { status: 404 });
-  if (!tubId || !UUID.test(tubId)) throw notFound();
+  if (!isUuid(tubId)) throw notFound();
   const found = await db.query.tub.findFirst({ where: eq(tub.id, tubId) });
   if (!found) throw notFound();
   const relation = await tubRelation(user, found);

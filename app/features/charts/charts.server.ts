@@ -2,6 +2,7 @@
 // from a chart photo, from reference solutions and from owners' corrections. Nothing here
 // changes the chart a batch reads with except saveVersion, which adds a new version row.
 import { and, asc, desc, eq, inArray, isNotNull, max } from "drizzle-orm";
+import { isUuid } from "~/lib/ids";
 import { RefitError, refitFromSolutions } from "~/reading/refit";
 import { CalibrationError, proposeFromSample, sampleChartPhoto, type ChartGrid, type Quad } from "~/reading/calibrate";
 import { ChartError, exportChart, parseChart, ReadingError, type StripChart } from "~/reading";
@@ -19,7 +20,6 @@ export class ChartInputError extends Error {
   }
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const notFound = (what: string) => new Response(JSON.stringify({ message: `We could not find that ${what}.` }), { status: 404, headers: { "content-type": "application/json" } });
 
 /** Too close to tell apart on a phone photo: below about 3 ΔE00 neighbouring swatches blur into each other (common practice). */
@@ -91,7 +91,7 @@ export async function createChart(user: Pick<SessionUser, "id">, input: { name: 
 }
 
 export async function loadChart(chartId: string | undefined) {
-  if (!chartId || !UUID.test(chartId)) throw notFound("chart");
+  if (!isUuid(chartId)) throw notFound("chart");
   const c = await db.query.stripChart.findFirst({ where: eq(stripChart.id, chartId) });
   if (!c) throw notFound("chart");
   const batches = await db.select().from(stripBatch).where(eq(stripBatch.chartId, c.id)).orderBy(asc(stripBatch.lot));
@@ -144,7 +144,7 @@ export async function saveVersion(user: Pick<SessionUser, "id">, chartId: string
 }
 
 export async function versionDocument(versionId: string | undefined) {
-  if (!versionId || !UUID.test(versionId)) throw notFound("chart version");
+  if (!isUuid(versionId)) throw notFound("chart version");
   const v = await db.query.chartVersion.findFirst({ where: eq(chartVersion.id, versionId) });
   if (!v) throw notFound("chart version");
   return { version: v, document: exportChart(parseChart(v.definition)) };
@@ -235,7 +235,7 @@ export async function batchById(batchId: string | undefined) {
 }
 
 export async function chartPhoto(photoId: string | undefined, batchId?: string) {
-  if (!photoId || !UUID.test(photoId)) return null;
+  if (!isUuid(photoId)) return null;
   const p = await db.query.photo.findFirst({ where: and(eq(photo.id, photoId), eq(photo.purpose, "chart")) });
   if (!p || (batchId && p.batchId !== batchId)) return null;
   return p;

@@ -1,6 +1,8 @@
 // Technicians and their clients: invitations by e-mail, access and its revocation, the
 // dashboard of client tubs, the review queue of unsure readings, visit notes.
 import { randomBytes } from "node:crypto";
+import { isUuid } from "~/lib/ids";
+import { padsByReading, padsOf } from "~/features/readings/pads.server";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import type { Range } from "~/chemistry";
 import { tubTargets } from "~/features/plan/plan.server";
@@ -26,7 +28,6 @@ export class ClientInputError extends Error {
 }
 
 const INVITATION_DAYS = 14;
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 // ---------------------------------------------------------------- sharing
 
@@ -65,12 +66,12 @@ export async function inviteTechnician(owner: SessionUser, t: Tub, emailIn: stri
 }
 
 export async function withdrawInvitation(t: Tub, invitationId: string) {
-  if (!UUID.test(invitationId)) throw new ClientInputError("We could not find that invitation.", 404);
+  if (!isUuid(invitationId)) throw new ClientInputError("We could not find that invitation.", 404);
   await db.update(invitation).set({ revokedAt: new Date() }).where(and(eq(invitation.id, invitationId), eq(invitation.tubId, t.id), isNull(invitation.revokedAt)));
 }
 
 export async function revokeAccess(t: Tub, accessId: string) {
-  if (!UUID.test(accessId)) throw new ClientInputError("We could not find that technician's access.", 404);
+  if (!isUuid(accessId)) throw new ClientInputError("We could not find that technician's access.", 404);
   await db.update(tubAccess).set({ revokedAt: new Date() }).where(and(eq(tubAccess.id, accessId), eq(tubAccess.tubId, t.id), isNull(tubAccess.revokedAt)));
 }
 
@@ -338,7 +339,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
     )
   ).rows;
   // One page: at most REVIEW_PAGE_SIZE readings, so these lists stay small.
-  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((r) => r.id))) : [];
+  const pads = await padsByReading(rows.map((r) => r.id));
   const versionIds = [...new Set(rows.map((r) => r.chartVersionId).filter((v): v is string => Boolean(v)))];
   const versions = versionIds.length ? await db.select({ id: chartVersion.id, definition: chartVersion.definition }).from(chartVersion).where(inArray(chartVersion.id, versionIds)) : [];
   const swatchesByVersion = new Map<string, Map<string, AnalyteSwatches>>();
@@ -350,8 +351,6 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
       // a chart that no longer parses: the values are shown without swatches
     }
   }
-  const padsByReading = new Map<string, (typeof pads)[number][]>();
-  for (const p of pads) padsByReading.set(p.readingId, [...(padsByReading.get(p.readingId) ?? []), p]);
   return {
     page,
     items: rows.map((r) => {
@@ -365,7 +364,7 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
         takenAt: r.takenAt.toISOString(),
         status: r.status,
         photoId: r.photoId,
-        pads: (padsByReading.get(r.id) ?? [])
+        pads: (pads.get(r.id) ?? [])
           .sort((a, b) => a.analyte.localeCompare(b.analyte))
           .map((p) => ({
             id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? analyteName(p.analyte), unit: p.unit,
@@ -384,14 +383,14 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
  */
 export async function markReviewed(user: SessionUser, readingId: string, corrections: Record<string, number>) {
   const notFound = () => new ClientInputError("We could not find that reading among your clients' tubs.", 404);
-  if (!UUID.test(readingId) || !Object.keys(corrections).every((id) => UUID.test(id))) throw notFound();
+  if (!isUuid(readingId) || !Object.keys(corrections).every(isUuid)) throw notFound();
   const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
   if (!r || !(await looksAfter(user, r.tubId))) throw notFound();
   if (r.reviewedAt) throw new ClientInputError("This reading has already been reviewed.", 409);
   const now = new Date();
   const changes: string[] = [];
   await db.transaction(async (tx) => {
-    const pads = await tx.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+    const pads = await padsOf(r.id, tx);
     for (const p of pads) {
       const corrected = corrections[p.id];
       if (corrected !== undefined && corrected !== p.readValue) {
@@ -439,7 +438,7 @@ export async function addNote(user: SessionUser, t: Tub, body: string, visitedAt
 
 /** A note of this tub that the user may change: their own, or any note for an admin. */
 async function changeableNote(user: SessionUser, t: Tub, noteId: string) {
-  if (!UUID.test(noteId)) throw new ClientInputError("We could not find that visit note.", 404);
+  if (!isUuid(noteId)) throw new ClientInputError("We could not find that visit note.", 404);
   const n = await db.query.visitNote.findFirst({ where: and(eq(visitNote.id, noteId), eq(visitNote.tubId, t.id)) });
   if (!n) throw new ClientInputError("We could not find that visit note. It may have been deleted.", 404);
   if (n.authorId !== user.id && !can(user, { note: ["edit-any"] })) throw new ClientInputError("Only the person who wrote a visit note can change or delete it.", 403);

@@ -1,12 +1,15 @@
 // The tub's plan: its latest reading, its volume, temperature and sanitiser, the owner's catalogue,
 // its target ranges and its treatment log, handed to the pure water-chemistry engine.
-import { and, desc, eq, gte, inArray } from "drizzle-orm";
+import { and, desc, eq, gte } from "drizzle-orm";
+import { isUuid } from "~/lib/ids";
+import { padsByReading } from "~/features/readings/pads.server";
 import { z } from "zod";
 import {
   DEFAULT_TARGETS,
   ProductError,
   WaterInputError,
   analyteLabel,
+  hasNonFinite,
   analyteName,
   planTreatment,
   resolveTargets,
@@ -21,7 +24,7 @@ import {
 } from "~/chemistry";
 import { activeLock, waitHoursForLogged } from "~/chemistry/lock";
 import { GUIDANCE_IDS, type Guidance, type Units } from "~/chemistry";
-import { reading, readingPad, treatment, tub as tubTable } from "~/db/schema";
+import { reading, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tub-access.server";
 import { ownerProducts } from "./catalogue.server";
@@ -42,9 +45,9 @@ export interface LatestReading {
 export async function latestReading(tubId: string): Promise<LatestReading | null> {
   const recent = await db.select().from(reading).where(eq(reading.tubId, tubId)).orderBy(desc(reading.takenAt)).limit(10);
   if (recent.length === 0) return null;
-  const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, recent.map((r) => r.id)));
+  const pads = await padsByReading(recent.map((r) => r.id));
   for (const r of recent) {
-    const mine = pads.filter((p) => p.readingId === r.id && (p.confirmedValue ?? p.readValue) !== null);
+    const mine = (pads.get(r.id) ?? []).filter((p) => (p.confirmedValue ?? p.readValue) !== null);
     if (mine.length === 0) continue;
     const readings: Readings = {};
     for (const p of mine) (readings as Record<string, number>)[p.analyte] = (p.confirmedValue ?? p.readValue)!;
@@ -203,13 +206,6 @@ export interface TubPlan {
   units: Units;
   guidance: Guidance;
   now: string;
-}
-
-function hasNonFinite(x: unknown): boolean {
-  if (typeof x === "number") return !Number.isFinite(x);
-  if (Array.isArray(x)) return x.some(hasNonFinite);
-  if (x && typeof x === "object") return Object.values(x).some(hasNonFinite);
-  return false;
 }
 
 const ENGINE_READINGS = ["free_chlorine", "total_chlorine", "bromine", "ph", "total_alkalinity", "total_hardness", "calcium_hardness", "cyanuric_acid", "borate"] as const;
@@ -378,6 +374,6 @@ export async function recordTreatment(t: Tub, userId: string, form: FormData, no
 }
 
 export async function deleteTreatment(tubId: string, id: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) return;
+  if (!isUuid(id)) return;
   await db.delete(treatment).where(and(eq(treatment.id, id), eq(treatment.tubId, tubId)));
 }

@@ -1,6 +1,8 @@
 // Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
 // the reader run, the owner's review, history, CSV and trends.
 import { and, asc, count, desc, eq, gte, inArray, lte, ne } from "drizzle-orm";
+import { isUuid } from "~/lib/ids";
+import { padsByReading, padsOf } from "./pads.server";
 import sharp from "sharp";
 import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
 import { chartVersion, photo, reading, readingPad, treatment, tub as tubTable, user as userTable } from "~/db/schema";
@@ -76,10 +78,10 @@ export async function registerPhoto(user: SessionUser, t: Tub, key: string): Pro
 
 /** Everything the review screen needs: pads with crops and the chart's swatches. */
 export async function loadReview(t: Tub, readingId: string | undefined) {
-  if (!readingId || !/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  if (!isUuid(readingId)) return null;
   const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)) });
   if (!r) return null;
-  const pads = await db.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+  const pads = await padsOf(r.id);
   let chart: StripChart | null = null;
   const versionId = r.chartVersionId ?? (await currentChartFor(t))?.version.id;
   if (versionId) {
@@ -143,8 +145,7 @@ export async function confirmReading(user: SessionUser, t: Tub, readingId: strin
   const values: { analyte: string; unit: string; value: number; source: string }[] = [];
   for (const pad of review.pads) {
     const typed = String(form.get(`typed:${pad.analyte}`) ?? "").trim();
-    const swatch = String(form.get(`value:${pad.analyte}`) ?? "").trim();
-    const raw = typed || swatch || (pad.readValue !== null ? String(pad.readValue) : "");
+    const raw = typed || (pad.readValue !== null ? String(pad.readValue) : "");
     if (!raw) {
       if (review.reading.status === "failed") continue; // leave a pad the owner did not test blank
       fields[pad.analyte] = `Enter a value for ${pad.label}, or tap the matching colour.`;
@@ -193,16 +194,14 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
     .limit(PAGE_SIZE)
     .offset((page - 1) * PAGE_SIZE);
   // One page of readings (PAGE_SIZE at most), their pads grouped by reading.
-  const pads = rows.length ? await db.select().from(readingPad).where(inArray(readingPad.readingId, rows.map((x) => x.r.id))) : [];
-  const padsOf = new Map<string, (typeof pads)[number][]>();
-  for (const p of pads) padsOf.set(p.readingId, [...(padsOf.get(p.readingId) ?? []), p]);
+  const pads = await padsByReading(rows.map((x) => x.r.id));
   return {
     total, page, pages,
     rows: rows.map(({ r, confirmer }) => ({
       id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, photoId: r.photoId, confirmedBy: confirmer,
       /** unsure and neither confirmed nor reviewed: not to be taken as the water */
       needsReview: r.needsReview && !r.reviewedAt && r.status !== "confirmed",
-      pads: (padsOf.get(r.id) ?? [])
+      pads: (pads.get(r.id) ?? [])
         .map((p) => ({ analyte: p.analyte, label: analyteName(p.analyte), unit: p.unit ?? "", value: p.confirmedValue ?? p.readValue, source: p.source })),
     })),
   };
@@ -313,7 +312,7 @@ export async function trends(t: Tub, opts: { days?: number; now?: Date } = {}) {
 }
 
 export async function photoForTub(t: Tub, photoId: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(photoId)) return null;
+  if (!isUuid(photoId)) return null;
   return (await db.query.photo.findFirst({ where: and(eq(photo.id, photoId), eq(photo.tubId, t.id)) })) ?? null;
 }
 
@@ -337,7 +336,7 @@ export async function thumbnailKey(p: { s3Key: string }) {
 
 /** A pad's crop key, by the reading it belongs to (one query, the tub checked in it). */
 export async function cropKeyFor(t: Tub, readingId: string, analyte: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  if (!isUuid(readingId)) return null;
   const [row] = await db
     .select({ key: readingPad.cropKey })
     .from(readingPad)
@@ -349,7 +348,7 @@ export async function cropKeyFor(t: Tub, readingId: string, analyte: string) {
 
 /** Where a reading stands, for the review screen while it waits: pending, then read or failed. */
 export async function readingStatus(t: Tub, readingId: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(readingId)) return null;
+  if (!isUuid(readingId)) return null;
   const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } });
   if (!r) return null;
   let stage: "queued" | "reading" | "retrying" | "done" = "done";
@@ -376,7 +375,7 @@ export async function readingStatus(t: Tub, readingId: string) {
 export async function latestReading(t: Tub) {
   const r = await db.query.reading.findFirst({ where: eq(reading.tubId, t.id), orderBy: desc(reading.takenAt) });
   if (!r) return null;
-  const pads = await db.select().from(readingPad).where(eq(readingPad.readingId, r.id));
+  const pads = await padsOf(r.id);
   const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
   return {
     id: r.id, takenAt: r.takenAt.toISOString(), status: r.status, error: r.error,
@@ -421,14 +420,12 @@ export async function glanceByTub(tubIds: string[], now = new Date()) {
     )
   ).rows;
   if (!latest.length) return out;
-  const pads = await db.select().from(readingPad).where(inArray(readingPad.readingId, latest.map((r) => r.id)));
+  const padsOfLatest = await padsByReading(latest.map((r) => r.id));
   const tubById = new Map(tubs.map((t) => [t.id, t]));
-  const padsByReading = new Map<string, (typeof pads)[number][]>();
-  for (const p of pads) padsByReading.set(p.readingId, [...(padsByReading.get(p.readingId) ?? []), p]);
   for (const r of latest) {
     const t = tubById.get(r.tubId)!;
     const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
-    const values = (padsByReading.get(r.id) ?? [])
+    const values = (padsOfLatest.get(r.id) ?? [])
       .filter((p) => (p.confirmedValue ?? p.readValue) !== null)
       .map((p) => {
         const value = (p.confirmedValue ?? p.readValue)!;

@@ -13,14 +13,13 @@ import type { Route } from "./+types/reading";
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
-  const { tub, relation } = await tubGuard({ context, request, params }, "view");
+  const { tub } = await tubGuard({ context, request, params }, "view");
   const review = await loadReview(tub, params.readingId);
   if (!review) throw data({ message: "We could not find that reading." }, { status: 404 });
   const url = new URL(request.url);
   return {
     tub: { id: tub.id, name: tub.name, timeZone: tub.timeZone },
     when: timeWords(request).tub(review.reading.takenAt, tub.timeZone),
-    canConfirm: relation !== null,
     duplicate: url.searchParams.has("duplicate"),
     justConfirmed: url.searchParams.has("confirmed"),
     ...review,
