@@ -230,7 +230,7 @@ export async function solutionPhoto(batchId: string, key: string) {
 
 /** A strip batch by its id alone (the photo endpoints' URLs name only the batch). */
 export async function batchById(batchId: string | undefined) {
-  if (!batchId || !UUID.test(batchId)) return null;
+  if (!isUuid(batchId)) return null;
   return (await db.query.stripBatch.findFirst({ where: eq(stripBatch.id, batchId) })) ?? null;
 }
 
