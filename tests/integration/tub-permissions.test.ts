@@ -79,3 +79,22 @@ describe("anonymous visitors", () => {
     });
   }
 });
+
+describe("photo uploads are bound to their tub or strip batch", () => {
+  it("a tub's upload key registers only for that tub: not for another owner's tub, not as a chart photo", async () => {
+    const { createChart } = await import("~/features/charts/charts.server");
+    const { registerBatchPhoto } = await import("../support/batch-photos");
+    const chart = await createChart(technicianWith, { name: `Bound chart ${randomUUID().slice(0, 6)}`, lot: "B-1", expiresOn: null, definition: undefined });
+    const strangersTub = (await createTub(stranger.id, { batchId: chart.batchId })).id;
+    const ownersKey = `uploads/tubs/${tubId}/${randomUUID()}.jpg`;
+    const photos = await importRoute("routes/api/tubs.photos.ts");
+    const elsewhere = await callRoute(photos.action!, { url: `/api/tubs/${strangersTub}/photos`, params: { tubId: strangersTub }, user: stranger, json: { key: ownersKey } });
+    expect(elsewhere.status).toBe(400);
+    expect((elsewhere.data as { code: string }).code).toBe("bad_key");
+    const asChart = await registerBatchPhoto(technicianWith, chart.batchId, ownersKey);
+    expect(asChart.status).toBe(400);
+    expect((asChart.data as { code: string }).code).toBe("bad_key");
+    // An owner may not register anything to a strip batch, their tub's batch included.
+    expect((await registerBatchPhoto(stranger, chart.batchId, `uploads/batches/${chart.batchId}/${randomUUID()}.jpg`)).status).toBe(403);
+  });
+});
