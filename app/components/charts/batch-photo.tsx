@@ -72,21 +72,23 @@ export function BatchPhotoInput({
   return (
     <div className="space-y-2">
       {!busy && (
-        <label className="block">
-          <span className="sr-only">{label}</span>
-          <input
-            type="file"
-            accept={PHOTO_ACCEPT}
-            aria-label={label}
-            data-testid={testId}
-            className="block w-full text-sm file:mr-3 file:min-h-11 file:rounded-lg file:border-2 file:border-well-700 file:bg-white file:px-4 file:font-bold file:text-well-900"
-            onChange={(e) => {
-              choose(e.target.files?.[0]);
-              e.target.value = "";
-            }}
-          />
+        <div>
+          <label className="inline-flex min-h-11 cursor-pointer items-center gap-2 rounded-lg border-2 border-well-700 bg-white px-4 font-bold text-well-900 hover:bg-well-50 focus-within:outline focus-within:outline-4 focus-within:outline-offset-2 focus-within:outline-well-500">
+            {phase.kind === "sent" ? "Choose another photo" : "Choose a photo"}
+            <input
+              type="file"
+              accept={PHOTO_ACCEPT}
+              aria-label={label}
+              data-testid={testId}
+              className="sr-only"
+              onChange={(e) => {
+                choose(e.target.files?.[0]);
+                e.target.value = "";
+              }}
+            />
+          </label>
           <span className="mt-1 block text-xs text-ink-soft">JPEG, PNG or WebP, up to {formatMb(maxBytes)}</span>
-        </label>
+        </div>
       )}
       {phase.kind === "uploading" && <UploadProgress loaded={phase.loaded} total={phase.total} onCancel={() => abortRef.current?.abort()} testId={`${testId}-progress`} />}
       {phase.kind === "registering" && <p role="status" className="text-sm">Photo sent; checking it…</p>}
