@@ -136,7 +136,7 @@ describe("a permanent SMTP refusal", () => {
       expect(server.accepted).toEqual([fine.to]);
 
       const admin = await createUser("admin");
-      const page = await importRoute("routes/notify/admin-email.tsx");
+      const page = await importRoute("routes/admin/email.tsx");
       const seen = await callRoute(page.loader!, { url: "/admin/email?status=dead", user: admin });
       const rows = (seen.data as { rows: { to: string; status: string; attempts: number; lastError: string | null }[] }).rows;
       expect(rows.find((r) => r.to === gone.to)).toMatchObject({ status: "dead", attempts: 1, lastError: expect.stringMatching(/550/) });

@@ -124,7 +124,7 @@ describe("actions refuse those who may not act", () => {
   }
 
   it("an owner cannot accept an invitation meant for a technician", async () => {
-    const mod = await importRoute("routes/technician/invitations.tsx");
+    const mod = await importRoute("routes/clients/invitations.tsx");
     const result = await callRoute(mod.action!, { url: `/invitations/${ids.token}`, params: { token: ids.token }, user: users.stranger, form: {} });
     expect(result.status).toBe(403);
   });
@@ -157,7 +157,7 @@ describe("chart-photo and reference-solution uploads", () => {
   });
 
   it("an owner can never read a technician's chart photo", async () => {
-    const mod = await importRoute("routes/technician/api-chart-photo.ts");
+    const mod = await importRoute("routes/api/chart-photo.ts");
     const params = { photoId: ids.chartPhotoId };
     for (const who of WHO) {
       const r = await callRoute(mod.loader!, { url: `/api/chart-photos/${ids.chartPhotoId}`, params, user: who === "anon" ? null : users[who] });
@@ -169,7 +169,7 @@ describe("chart-photo and reference-solution uploads", () => {
 
   it("an owner cannot run the reference-solution refit, even with a technician's upload key", async () => {
     const key = await uploadBatchPhoto(users.techWith, ids.batchId, jpeg);
-    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const mod = await importRoute("routes/charts/calibrate.tsx");
     const params = { chartId: ids.chartId, batchId: ids.batchId };
     for (const who of ["owner", "stranger", "anon"] as const) {
       const r = await callRoute(mod.action!, { url: calibrateUrl(), params, user: who === "anon" ? null : users[who], form: { intent: "solutions", key_0: key, value_0_ph: "7.2" } });

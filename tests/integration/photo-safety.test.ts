@@ -194,7 +194,7 @@ describe("chart-card and reference-solution photos: the same intake", () => {
     const row = (await db.query.photo.findFirst({ where: eq(s.photo.id, photoId) }))!;
     expect(row.purpose).toBe("chart");
     expect(row.s3Key).toBe(`batches/${chart.batchId}/photos/${row.sha256}.jpg`);
-    const route = await importRoute("routes/technician/api-chart-photo.ts");
+    const route = await importRoute("routes/api/chart-photo.ts");
     const served = await callRoute(route.loader!, { url: "/x", params: { photoId }, user: tech });
     expect(served.response!.headers.get("content-type")).toBe("image/jpeg");
     expect(served.response!.headers.get("x-content-type-options")).toBe("nosniff");
@@ -203,7 +203,7 @@ describe("chart-card and reference-solution photos: the same intake", () => {
   });
 
   it("reference-solution photos: read through the intake, named when refused, never kept; abandoned uploads swept", async () => {
-    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const mod = await importRoute("routes/charts/calibrate.tsx");
     const params = { chartId: chart.chartId, batchId: chart.batchId };
     const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
     const bad = await uploadBatchPhoto(tech, chart.batchId, jpeg.subarray(0, Math.floor(jpeg.length * 0.5)));

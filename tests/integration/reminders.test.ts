@@ -229,7 +229,7 @@ describe("one-click unsubscribe", () => {
   it("works without signing in and stops that kind only", async () => {
     const { owner, tub } = await tubWithRetest(new Date("2030-07-03T12:00:00Z"));
     const pref = await ensurePreferences(owner.id);
-    const route = await importRoute("routes/notify/unsubscribe.tsx");
+    const route = await importRoute("routes/notifications/unsubscribe.tsx");
     const params = { token: pref.unsubscribeToken, kind: "retest" };
     const page = await callRoute(route.loader!, { url: `/unsubscribe/${pref.unsubscribeToken}/retest`, params, user: null });
     expect(page.status).toBe(200);
@@ -270,7 +270,7 @@ describe("SMTP server down", () => {
     expect(await work(boss)).toEqual([]); // not before its back-off
 
     const admin = await createUser("admin");
-    const page = await importRoute("routes/notify/admin-email.tsx");
+    const page = await importRoute("routes/admin/email.tsx");
     const seen = await callRoute(page.loader!, { url: "/admin/email?status=failed", user: admin });
     const rows = (seen.data as { rows: { to: string; status: string; attempts: number; lastError: string | null }[] }).rows;
     expect(rows.find((r) => r.to === owner.email)).toMatchObject({ status: "failed", attempts: 1 });

@@ -33,7 +33,7 @@ async function currentVersionId() {
 
 describe("chart versions and bad input", () => {
   it("imports refuse another format or version in plain words and change nothing", async () => {
-    const mod = await importRoute("routes/technician/chart.tsx");
+    const mod = await importRoute("routes/charts/chart.tsx");
     const before = await currentVersionId();
     for (const [doc, msg] of [
       [{ ...demo, format: "strip-chart/2" }, /version "strip-chart\/2"/],
@@ -52,7 +52,7 @@ describe("chart versions and bad input", () => {
   });
 
   it("swatch values out of order are refused and the chart in use stays", async () => {
-    const mod = await importRoute("routes/technician/chart.tsx");
+    const mod = await importRoute("routes/charts/chart.tsx");
     const before = await currentVersionId();
     const bad = structuredClone(demo);
     bad.pads[1].swatches[2].value = 6.5;
@@ -70,7 +70,7 @@ describe("chart versions and bad input", () => {
     expect(await currentVersionId()).toBe(v.id);
     const v1 = await db.query.chartVersion.findFirst({ where: eq(s.chartVersion.id, chart.versionId) });
     expect(parseChart(v1!.definition).pads[0].swatches[1].color).toBe(demo.pads[0].swatches[1].color);
-    const exp = await importRoute("routes/technician/api-chart-version.ts");
+    const exp = await importRoute("routes/api/chart-version.ts");
     const r = await callRoute(exp.loader!, { url: `/api/chart-versions/${v.id}`, params: { versionId: v.id }, user: tech });
     expect(r.status).toBe(200);
     const body = JSON.parse(await r.response!.text());
@@ -80,7 +80,7 @@ describe("chart versions and bad input", () => {
   });
 
   it("a chart photo whose white area is a swatch, or a grid off the photo, is refused and nothing changes", async () => {
-    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const mod = await importRoute("routes/charts/calibrate.tsx");
     const params = { chartId: chart.chartId, batchId: chart.batchId };
     const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
     const photo = await renderChartPhoto(demo, { seed: 9, width: 1600, height: 1200 });
@@ -116,7 +116,7 @@ describe("reference solutions and owners' corrections", () => {
   });
 
   it("through the calibration page: a strip photo with known values is proposed, and saved only on request", async () => {
-    const mod = await importRoute("routes/technician/chart-calibrate.tsx");
+    const mod = await importRoute("routes/charts/calibrate.tsx");
     const params = { chartId: chart.chartId, batchId: chart.batchId };
     const url = `/charts/${chart.chartId}/batches/${chart.batchId}/calibrate`;
     const strip = await renderStripPhoto(demo, { seed: 14, values: { free_chlorine: 3, ph: 7.2 } });
@@ -166,14 +166,14 @@ describe("reference solutions and owners' corrections", () => {
 describe("clients", () => {
   it("an owner invites a technician by e-mail, the technician accepts, the owner revokes", async () => {
     const t = await createTub(owner.id);
-    const sharing = await importRoute("routes/technician/sharing.tsx");
+    const sharing = await importRoute("routes/tubs/sharing.tsx");
     const bad = await callRoute(sharing.action!, { url: `/tubs/${t.id}/sharing`, params: { tubId: t.id }, user: owner, form: { intent: "invite", email: "not an address" } });
     expect(bad.status).toBe(400);
     const sent = await callRoute(sharing.action!, { url: `/tubs/${t.id}/sharing`, params: { tubId: t.id }, user: owner, form: { intent: "invite", email: tech.email } });
     expect(sent.status).toBe(302);
     const inv = (await db.query.invitation.findFirst({ where: eq(s.invitation.tubId, t.id) }))!;
     expect(inv.email).toBe(tech.email.toLowerCase());
-    const accept = await importRoute("routes/technician/invitations.tsx");
+    const accept = await importRoute("routes/clients/invitations.tsx");
     const other = await createUser("technician");
     expect((await callRoute(accept.action!, { url: `/invitations/${inv.token}`, params: { token: inv.token }, user: other, form: {} })).status).toBe(403);
     const ok = await callRoute(accept.action!, { url: `/invitations/${inv.token}`, params: { token: inv.token }, user: tech, form: {} });
@@ -196,7 +196,7 @@ describe("clients", () => {
     await db.insert(s.tubAccess).values({ tubId: t.id, technicianId: tech.id, grantedBy: owner.id });
     const [r] = await db.insert(s.reading).values({ tubId: t.id, status: "read" }).returning();
     const [pad] = await db.insert(s.readingPad).values({ readingId: r.id, analyte: "free_chlorine", unit: "mg/L", readValue: 1, needsReview: true, reviewReason: "Please check Free chlorine" }).returning();
-    const review = await importRoute("routes/technician/review.tsx");
+    const review = await importRoute("routes/clients/review.tsx");
     const q = await callRoute(review.loader!, { url: "/clients/review", user: tech });
     expect((q.data as { items: { id: string }[] }).items.map((x) => x.id)).toContain(r.id);
     const done = await callRoute(review.action!, { url: "/clients/review", user: tech, form: { readingId: r.id, [`pad_${pad.id}`]: "3" } });
@@ -214,7 +214,7 @@ describe("admin: users and roles", () => {
   it("an admin changes a role and bans a user, whose sessions end at once; nobody else may", async () => {
     const admin = await createUser("admin");
     const target = await createUser("owner");
-    const mod = await importRoute("routes/technician/admin-users.tsx");
+    const mod = await importRoute("routes/admin/users.tsx");
     expect((await callRoute(mod.action!, { url: "/admin/users", user: tech, form: { intent: "role", userId: target.id, role: "admin" } })).status).toBe(403);
     expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: target.id, role: "wizard" } })).status).toBe(400);
     expect((await callRoute(mod.action!, { url: "/admin/users", user: admin, form: { intent: "role", userId: admin.id, role: "owner" } })).status).toBe(400);

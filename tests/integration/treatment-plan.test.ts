@@ -32,7 +32,7 @@ beforeAll(async () => {
 });
 
 async function planOf(user: TestUser, id = tubId, query = "") {
-  const { loader } = await importRoute("routes/plan/tub-plan.tsx");
+  const { loader } = await importRoute("routes/tubs/plan.tsx");
   return callRoute(loader!, { url: `/tubs/${id}/plan${query}`, params: { tubId: id }, user });
 }
 
@@ -93,7 +93,7 @@ describe("per-tub target ranges", () => {
     const id = (await createTub(owner.id, { volumeLitres: 1200 })).id;
     await addReading(id, { free_chlorine: 2.5, ph: 7.5, total_alkalinity: 100 });
     await shareTub(id, tech.id, owner.id);
-    const { action } = await importRoute("routes/plan/tub-plan.tsx");
+    const { action } = await importRoute("routes/tubs/plan.tsx");
     const before = (await planOf(owner, id)).data as PlanData;
     expect(before.plan.steps).toHaveLength(0);
     expect(before.targets.free_chlorine!.source).toMatch(/CDC/);
@@ -105,7 +105,7 @@ describe("per-tub target ranges", () => {
   });
 
   it("refuses a range with its lowest value above its highest, in plain words", async () => {
-    const { action } = await importRoute("routes/plan/tub-plan.tsx");
+    const { action } = await importRoute("routes/tubs/plan.tsx");
     const r = await callRoute(action!, { url: `/tubs/${tubId}/plan`, params: { tubId }, user: owner, form: { intent: "targets", "ph.min": "7.8", "ph.max": "7.2" } });
     expect(r.status).toBe(400);
     expect((r.data as { fields: Record<string, string> }).fields.ph).toBe("pH: the lowest value must be below the highest.");
@@ -116,7 +116,7 @@ describe("per-tub target ranges", () => {
 
 describe("the product catalogue", () => {
   it("refuses zero, over-100 % and percentage-as-fraction strengths with clear errors", async () => {
-    const { action } = await importRoute("routes/plan/products.tsx");
+    const { action } = await importRoute("routes/products/list.tsx");
     const base = { intent: "save", catalogueId: "dichlor-granules", name: "Chlorine granules (dichlor)", form: "granules", packageSize: "1", packageUnit: "kg" };
     for (const [strength, words] of [["0", /cannot be zero/], ["150", /impossible/], ["0.56", /too weak/], ["abc", /must be a number/]] as const) {
       const r = await callRoute(action!, { url: "/products", user: owner, form: { ...base, strengthPercent: strength } });
@@ -130,7 +130,7 @@ describe("the product catalogue", () => {
     const who = await createUser("owner");
     const id = (await createTub(who.id, { volumeLitres: 1200 })).id;
     await addReading(id, OUT_OF_RANGE);
-    const { action, loader } = await importRoute("routes/plan/products.tsx");
+    const { action, loader } = await importRoute("routes/products/list.tsx");
     const r = await callRoute(action!, { url: "/products", user: who, form: { intent: "save", catalogueId: "dichlor-granules", name: "Technical dichlor", form: "granules", strengthPercent: "90", packageSize: "2", packageUnit: "kg" } });
     expect(r.status).toBe(302);
     const list = (await callRoute(loader!, { url: "/products", user: who })).data as { products: { id: string; strengthPercent: number; edited: boolean }[] };
@@ -150,7 +150,7 @@ describe("the treatment log", () => {
     const id = (await createTub(owner.id, { volumeLitres: 1200, timeZone: "Europe/London" })).id;
     await addReading(id, OUT_OF_RANGE);
     const step = ((await planOf(owner, id)).data as PlanData).plan.steps[0]!;
-    const { action, loader } = await importRoute("routes/plan/treatments.tsx");
+    const { action, loader } = await importRoute("routes/tubs/treatments.tsx");
     const r = await callRoute(action!, {
       url: `/tubs/${id}/treatments`,
       params: { tubId: id },
@@ -177,7 +177,7 @@ describe("the treatment log", () => {
   it("takes the time the owner gives in the tub's time zone", async () => {
     const id = (await createTub(owner.id, { volumeLitres: 1200, timeZone: "America/New_York" })).id;
     await shareTub(id, tech.id, owner.id);
-    const { action } = await importRoute("routes/plan/treatments.tsx");
+    const { action } = await importRoute("routes/tubs/treatments.tsx");
     const at = new Date(Date.now() - 3 * 3600_000);
     const local = new Intl.DateTimeFormat("sv-SE", { timeZone: "America/New_York", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit" }).format(at).replace(" ", "T");
     const r = await callRoute(action!, { url: `/tubs/${id}/treatments`, params: { tubId: id }, user: tech, form: { intent: "log", productId: "ph-down", amount: "40", unit: "g", addedAt: local } });
@@ -190,7 +190,7 @@ describe("the treatment log", () => {
 
   it("refuses bad input in plain words and stores nothing", async () => {
     const id = (await createTub(owner.id, { volumeLitres: 1200 })).id;
-    const { action } = await importRoute("routes/plan/treatments.tsx");
+    const { action } = await importRoute("routes/tubs/treatments.tsx");
     const cases: [Record<string, string>, string, RegExp][] = [
       [{ productId: "dichlor-granules", amount: "", unit: "g" }, "amount", /Give the amount/],
       [{ productId: "dichlor-granules", amount: "abc", unit: "g" }, "amount", /must be a number/],
@@ -215,7 +215,7 @@ describe("the treatment log", () => {
 describe("the first-fill setup", () => {
   it("runs as a guided sequence: a step starts its timer, the next waits for it, ready only when the pads are in range", async () => {
     const id = (await createTub(owner.id, { volumeLitres: 1200 })).id;
-    const { action, loader } = await importRoute("routes/plan/setup.tsx");
+    const { action, loader } = await importRoute("routes/tubs/setup.tsx");
     const call = (form: Record<string, string>) => callRoute(action!, { url: `/tubs/${id}/setup`, params: { tubId: id }, user: owner, form });
     expect((await call({ intent: "start" })).status).toBe(302);
     expect((await call({ intent: "step", step: "0" })).status).toBe(302);
@@ -240,14 +240,14 @@ describe("the water-plan API", () => {
   const body = { volumeLitres: 1200, temperatureC: 38, sanitiser: "chlorine", readings: OUT_OF_RANGE, bathersPerDay: 2 };
 
   it("answers anonymous callers with 401 JSON", async () => {
-    const { action } = await importRoute("routes/plan/api-water-plan.ts");
+    const { action } = await importRoute("routes/api/water-plan.ts");
     const r = await callRoute(action!, { url: "/api/water-plan", user: null, json: body });
     expect(r.status).toBe(401);
     expect(r.data).toMatchObject({ error: expect.stringMatching(/Sign in/) });
   });
 
   it("serves the same plan as the engine to a signed-in user", async () => {
-    const { action } = await importRoute("routes/plan/api-water-plan.ts");
+    const { action } = await importRoute("routes/api/water-plan.ts");
     const r = await callRoute(action!, { url: "/api/water-plan", user: owner, json: body });
     expect(r.status).toBe(200);
     const expected = planTreatment(validateWaterInput(body));
@@ -255,7 +255,7 @@ describe("the water-plan API", () => {
   });
 
   it("answers bad input with 400 and the plain-words error", async () => {
-    const { action } = await importRoute("routes/plan/api-water-plan.ts");
+    const { action } = await importRoute("routes/api/water-plan.ts");
     const cases: [unknown, RegExp][] = [
       [{ ...body, readings: { ph: 15 } }, /pH must be between 0 and 14/],
       [{ ...body, volumeLitres: -5 }, /volume must be above 0/],
@@ -273,7 +273,7 @@ describe("the water-plan API", () => {
   });
 
   it("GET /api/tubs/:tubId/plan checks who asks", async () => {
-    const { loader } = await importRoute("routes/plan/api-tub-plan.ts");
+    const { loader } = await importRoute("routes/api/tubs.plan.ts");
     const call = (user: TestUser | null) => callRoute(loader!, { url: `/api/tubs/${tubId}/plan`, params: { tubId }, user });
     const mine = await call(owner);
     expect(mine.status).toBe(200);

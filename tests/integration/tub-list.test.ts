@@ -43,7 +43,7 @@ describe("the tub list", () => {
   });
 
   it("keeps the mail inbox for admins", async () => {
-    const { loader } = await importRoute("routes/dev/inbox.tsx");
+    const { loader } = await importRoute("routes/admin/inbox.tsx");
     expect((await callRoute(loader!, { url: "/dev/inbox", user: ash })).status).toBe(403);
     expect((await callRoute(loader!, { url: "/dev/inbox", user: admin })).status).toBe(200);
   });

@@ -70,7 +70,7 @@ describe("the review queue", () => {
   });
 
   it("the page shows the count and answers a bad page number with the first page", async () => {
-    const mod = await importRoute("routes/technician/review.tsx");
+    const mod = await importRoute("routes/clients/review.tsx");
     for (const page of ["abc", "0", "-3", "1e9", "99999", "2.5"]) {
       const r = await callRoute(mod.loader!, { url: `/clients/review?page=${page}`, user: tech });
       expect(r.status).toBe(200);
@@ -82,7 +82,7 @@ describe("the review queue", () => {
   });
 
   it("a one-tap confirm takes the reading out of the queue, counts it as the water and tells the owner", async () => {
-    const mod = await importRoute("routes/technician/review.tsx");
+    const mod = await importRoute("routes/clients/review.tsx");
     const readingId = expected[0];
     const [pad] = (await sql(`insert into reading_pad (reading_id, analyte, unit, read_value, needs_review) values ($1, 'free_chlorine', 'mg/L', 3, true) returning id`, [readingId])).rows;
     const r = await callRoute(mod.action!, { url: "/clients/review", user: tech, form: { readingId, intent: "confirm", page: "1" } });
@@ -101,7 +101,7 @@ describe("the review queue", () => {
   });
 
   it("a correction by a tapped swatch or a typed value replaces the read value", async () => {
-    const mod = await importRoute("routes/technician/review.tsx");
+    const mod = await importRoute("routes/clients/review.tsx");
     const readingId = expected[1];
     const [a] = (await sql(`insert into reading_pad (reading_id, analyte, unit, read_value, needs_review) values ($1, 'ph', 'pH', 7.2, true) returning id`, [readingId])).rows;
     const [b] = (await sql(`insert into reading_pad (reading_id, analyte, unit, read_value) values ($1, 'free_chlorine', 'mg/L', 1) returning id`, [readingId])).rows;
@@ -166,7 +166,7 @@ describe("the dashboard with 70,000 unreviewed readings", () => {
   });
 
   it("filters to the tubs needing attention and searches names; bad pages give the first page", async () => {
-    const mod = await importRoute("routes/technician/clients.tsx");
+    const mod = await importRoute("routes/clients/list.tsx");
     const ids = (r: { data: unknown }) => (r.data as { rows: { id: string }[] }).rows.map((x) => x.id);
     const attention = await callRoute(mod.loader!, { url: "/clients?show=attention", user: tech });
     expect(ids(attention)).toEqual([busy, fresh]);
@@ -221,7 +221,7 @@ describe("lists an admin works through", () => {
   it("finds users by name or address, one page at a time", async () => {
     const admin = await createUser("admin");
     const target = await createUser("owner");
-    const mod = await importRoute("routes/technician/admin-users.tsx");
+    const mod = await importRoute("routes/admin/users.tsx");
     const r = await callRoute(mod.loader!, { url: `/admin/users?q=${encodeURIComponent(target.email.toUpperCase())}`, user: admin });
     const d = r.data as { users: { id: string }[]; page: { total: number } };
     expect(d.users.map((u) => u.id)).toEqual([target.id]);
@@ -229,7 +229,7 @@ describe("lists an admin works through", () => {
     for (const q of ["page=zzz", "page=100000", "q=%25%25%25"]) {
       expect((await callRoute(mod.loader!, { url: `/admin/users?${q}`, user: admin })).status).toBe(200);
     }
-    const log = await importRoute("routes/notify/admin-email.tsx");
+    const log = await importRoute("routes/admin/email.tsx");
     const e = await callRoute(log.loader!, { url: "/admin/email?page=-2&status=sent", user: admin });
     expect(e.status).toBe(200);
     expect((e.data as { page: { page: number } }).page.page).toBe(1);
@@ -274,7 +274,7 @@ describe("every list that grows with the business pages, and a bad page number i
   });
 
   it("the dashboard: the same pages in SQL order, a bad page or view gives the first page", async () => {
-    const mod = await importRoute("routes/technician/clients.tsx");
+    const mod = await importRoute("routes/clients/list.tsx");
     const get = async (q: string) => {
       const r = await callRoute(mod.loader!, { url: `/clients?${q}`, user: tech });
       expect(r.status, q).toBe(200);
@@ -296,10 +296,10 @@ describe("every list that grows with the business pages, and a bad page number i
 
   it("the review queue, a tub's history, the e-mail log and the users list answer bad pages with page 1", async () => {
     const checks: [string, string, TestUser, (d: unknown) => number][] = [
-      ["routes/technician/review.tsx", "/clients/review", tech, (d) => (d as { page: { page: number } }).page.page],
+      ["routes/clients/review.tsx", "/clients/review", tech, (d) => (d as { page: { page: number } }).page.page],
       ["routes/tubs/history.tsx", `/tubs/${firstTub}/history`, owner, (d) => (d as { page: number }).page],
-      ["routes/notify/admin-email.tsx", "/admin/email", admin, (d) => (d as { page: { page: number } }).page.page],
-      ["routes/technician/admin-users.tsx", "/admin/users", admin, (d) => (d as { page: { page: number } }).page.page],
+      ["routes/admin/email.tsx", "/admin/email", admin, (d) => (d as { page: { page: number } }).page.page],
+      ["routes/admin/users.tsx", "/admin/users", admin, (d) => (d as { page: { page: number } }).page.page],
     ];
     for (const [file, path, user, pageOfData] of checks) {
       const mod = await importRoute(file);

@@ -6,12 +6,12 @@ import { callRoute, type TestUser } from "./fixtures";
 import { importRoute } from "./routes";
 
 export async function presignBatchUpload(user: TestUser | null, batchId: string, contentType: string, size: number) {
-  const { action } = await importRoute("routes/technician/api-batch-uploads.ts");
+  const { action } = await importRoute("routes/api/chart-batches.uploads.ts");
   return callRoute(action!, { url: `/api/chart-batches/${batchId}/uploads`, params: { batchId }, user, json: { contentType, size } });
 }
 
 export async function registerBatchPhoto(user: TestUser | null, batchId: string, key: string) {
-  const { action } = await importRoute("routes/technician/api-batch-photos.ts");
+  const { action } = await importRoute("routes/api/chart-batches.photos.ts");
   return callRoute(action!, { url: `/api/chart-batches/${batchId}/photos`, params: { batchId }, user, json: { key } });
 }
 

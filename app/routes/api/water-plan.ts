@@ -1,7 +1,7 @@
 // POST /api/water-plan: the water-chemistry engine for signed-in users, input as in water-plan.md.
 import { ProductError, WaterInputError, hasNonFinite, planTreatment, validateWaterInput } from "~/chemistry";
 import { apiUser, json } from "~/features/plan/api.server";
-import type { Route } from "./+types/api-water-plan";
+import type { Route } from "./+types/water-plan";
 
 
 export function loader({ context }: Route.LoaderArgs) {

@@ -4,7 +4,7 @@ import { z } from "zod";
 import { apiChartBatch } from "~/features/charts/api.server";
 import { presignBatchPhoto } from "~/features/charts/charts.server";
 import { PhotoError } from "~/features/photos/intake.server";
-import type { Route } from "./+types/api-batch-uploads";
+import type { Route } from "./+types/chart-batches.uploads";
 
 const body = z.object({ contentType: z.string(), size: z.number() });
 

@@ -4,7 +4,7 @@ import { z } from "zod";
 import { apiChartBatch } from "~/features/charts/api.server";
 import { registerChartPhoto } from "~/features/charts/charts.server";
 import { PhotoError } from "~/features/photos/intake.server";
-import type { Route } from "./+types/api-batch-photos";
+import type { Route } from "./+types/chart-batches.photos";
 
 const body = z.object({ key: z.string() });
 

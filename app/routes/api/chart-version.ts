@@ -1,7 +1,7 @@
 // GET /api/chart-versions/:versionId → the version as a strip-chart/1 file (download).
 import { apiChartUser } from "~/features/charts/api.server";
 import { versionDocument } from "~/features/charts/charts.server";
-import type { Route } from "./+types/api-chart-version";
+import type { Route } from "./+types/chart-version";
 
 export async function loader({ context, params }: Route.LoaderArgs) {
   apiChartUser(context);

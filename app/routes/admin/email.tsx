@@ -8,7 +8,7 @@ import { askedPage } from "~/lib/paging";
 import { requirePermission } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
-import type { Route } from "./+types/admin-email";
+import type { Route } from "./+types/email";
 
 export const meta: Route.MetaFunction = () => [{ title: "E-mail log · Dipwell" }];
 

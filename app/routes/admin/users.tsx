@@ -6,7 +6,7 @@ import { Pager, withParams } from "~/components/Pager";
 import { askedPage, searchText } from "~/lib/paging";
 import { ROLE_NAMES } from "~/lib/permissions";
 import { requirePermission } from "~/lib/session.server";
-import type { Route } from "./+types/admin-users";
+import type { Route } from "./+types/users";
 
 export const meta: Route.MetaFunction = () => [{ title: "Users · Dipwell" }];
 

@@ -3,7 +3,7 @@ import { z } from "zod";
 import { Button, Card, EmptyState, Field, Input, Notice, PageTitle } from "~/components/ui";
 import { ChartInputError, createChart, listCharts } from "~/features/charts/charts.server";
 import { requireChartRole } from "~/features/charts/guard.server";
-import type { Route } from "./+types/charts";
+import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Charts · Dipwell" }];
 

@@ -6,7 +6,7 @@ import { ownerCatalogue, parseProductEdit, resetProduct, saveProductEdit } from 
 import { FORMS, PACKAGE_UNITS } from "~/features/plan/shared";
 import { requireUser } from "~/lib/session.server";
 import { saveUserUnits, userUnits } from "~/features/plan/units.server";
-import type { Route } from "./+types/products";
+import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Products · Dipwell" }];
 

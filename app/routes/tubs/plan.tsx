@@ -9,7 +9,7 @@ import { READING_KEYS, TARGET_PARAMETERS } from "~/features/plan/shared";
 import { analyteLabel, analyteName } from "~/chemistry";
 import { dayAndClock } from "~/lib/tub-time";
 import { tubGuard } from "~/lib/tub-access.server";
-import type { Route } from "./+types/tub-plan";
+import type { Route } from "./+types/plan";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Plan · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
 

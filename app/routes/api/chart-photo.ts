@@ -2,7 +2,7 @@
 import { apiChartUser } from "~/features/charts/api.server";
 import { chartPhoto } from "~/features/charts/charts.server";
 import { streamObject } from "~/lib/storage.server";
-import type { Route } from "./+types/api-chart-photo";
+import type { Route } from "./+types/chart-photo";
 
 export async function loader({ context, params }: Route.LoaderArgs) {
   apiChartUser(context);

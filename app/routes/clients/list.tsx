@@ -5,7 +5,7 @@ import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clien
 import { askedPage, searchText } from "~/lib/paging";
 import { requirePermission } from "~/lib/session.server";
 import { timeWords } from "~/lib/dates";
-import type { Route } from "./+types/clients";
+import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clients · Dipwell" }];
 

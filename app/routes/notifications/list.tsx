@@ -6,7 +6,7 @@ import { listNotifications, markRead } from "~/features/notify/notifications.ser
 import { requireUser } from "~/lib/session.server";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
-import type { Route } from "./+types/notifications";
+import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Notifications · Dipwell" }];
 

@@ -19,7 +19,7 @@ import {
 } from "~/features/charts/charts.server";
 import { maxPhotoBytes } from "~/features/photos/intake.server";
 import { requireChartRole } from "~/features/charts/guard.server";
-import type { Route } from "./+types/chart-calibrate";
+import type { Route } from "./+types/calibrate";
 
 export const meta: Route.MetaFunction = () => [{ title: "Calibrate a chart · Dipwell" }];
 
