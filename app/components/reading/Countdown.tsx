@@ -1,5 +1,5 @@
 // A countdown that ends with a short beep (Web Audio) and a vibration where the device allows.
-import { useEffect, useRef, useState } from "react";
+import { useCallback, useEffect, useRef, useState } from "react";
 
 export function beep() {
   try {
@@ -30,13 +30,14 @@ export function beep() {
   }
 }
 
-export function Countdown({ seconds, onDone }: { seconds: number; onDone: () => void }) {
-  const [left, setLeft] = useState(seconds);
+/** Counts down from `startedAt` (a wall-clock time), so a countdown resumed after a reload ends on time. */
+export function Countdown({ seconds, startedAt, onDone }: { seconds: number; startedAt: number; onDone: () => void }) {
+  const remainingAt = useCallback((now: number) => Math.max(0, seconds - Math.floor((now - startedAt) / 1000)), [seconds, startedAt]);
+  const [left, setLeft] = useState(() => remainingAt(Date.now()));
   const done = useRef(false);
   useEffect(() => {
-    const started = Date.now();
-    const id = setInterval(() => {
-      const remaining = Math.max(0, seconds - Math.floor((Date.now() - started) / 1000));
+    const tick = () => {
+      const remaining = remainingAt(Date.now());
       setLeft(remaining);
       if (remaining === 0 && !done.current) {
         done.current = true;
@@ -44,12 +45,14 @@ export function Countdown({ seconds, onDone }: { seconds: number; onDone: () => 
         beep();
         onDone();
       }
-    }, 200);
+    };
+    const id = setInterval(tick, 200);
+    tick();
     return () => clearInterval(id);
-  }, [seconds, onDone]);
+  }, [remainingAt, onDone]);
   const pct = ((seconds - left) / seconds) * 100;
   return (
-    <div className="flex flex-col items-center gap-3" role="timer" aria-live="polite" data-testid="countdown">
+    <div className="flex flex-col items-center gap-3" role="timer" aria-label={`${left} seconds left`} data-testid="countdown">
       <div
         className="grid size-44 place-items-center rounded-full"
         style={{ background: `conic-gradient(var(--color-well-700) ${pct}%, var(--color-well-100) 0)` }}
