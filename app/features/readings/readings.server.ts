@@ -211,16 +211,25 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
 const CSV_BATCH = 500;
 
 type CsvPads = Record<string, [number | null, number | null, string | null]>;
+type CsvRow = {
+  record: "reading" | "treatment"; id: string; at: Date; atKey: string; status: string | null; person: string | null; confirmedAt: Date | null; pads: CsvPads | null;
+  product: string | null; chemical: string | null; parameter: string | null; amount: number | null; unit: string | null; shock: boolean | null; note: string | null;
+};
+
+const TREATMENT_COLUMNS = ["treatment_product", "treatment_chemical", "treatment_for", "treatment_amount", "treatment_unit", "treatment_shock", "treatment_note"];
 
 /**
- * Every reading of the tub as CSV, oldest first: one row per reading, read and confirmed value per
- * parameter. Streamed in batches of readings (pads gathered per reading in SQL), so memory stays
- * flat however long the history, and it stops when the download is cancelled.
+ * The tub's history as CSV, oldest first: one row per reading (read and confirmed value per
+ * parameter) and one per treatment (product, amount, who added it), in time order; the `record`
+ * column says which. Streamed in batches (pads gathered per reading in SQL; readings and treatments
+ * each walked along their tub-and-time index), so memory stays flat however long the history, and
+ * it stops when the download is cancelled.
  */
 export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<Uint8Array> {
   const encoder = new TextEncoder();
   let analytes: string[] | null = null;
-  let after: { at: Date; id: string } | null = null;
+  // The last row's time as PostgreSQL's text (microseconds kept: a Date would round them off).
+  let after: { at: string; id: string } | null = null;
   let finished = false;
   return new ReadableStream<Uint8Array>({
     async pull(controller) {
@@ -231,32 +240,43 @@ export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<U
           [t.id],
         );
         analytes = found.rows.map((x) => x.analyte);
-        const header = ["taken_at", "status", "confirmed_by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`])];
+        const header = ["record", "time", "status", "by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`]), ...TREATMENT_COLUMNS];
         controller.enqueue(encoder.encode(csvLine(header) + "\r\n"));
         return;
       }
       if (finished) return controller.close();
-      const batch = await db.$client.query<{ id: string; takenAt: Date; status: string; confirmer: string | null; confirmedAt: Date | null; pads: CsvPads | null }>(
-        `select r.id, r.taken_at as "takenAt", r.status, u.name as confirmer, r.confirmed_at as "confirmedAt",
-                (select json_object_agg(p.analyte, json_build_array(p.read_value, p.confirmed_value, p.unit)) from reading_pad p where p.reading_id = r.id) as pads
-           from reading r left join "user" u on u.id = r.confirmed_by
-          where r.tub_id = $1 and ($2::timestamptz is null or (r.taken_at, r.id) > ($2::timestamptz, $3::uuid))
-          order by r.taken_at, r.id limit $4`,
+      const batch = await db.$client.query<CsvRow>(
+        `select h.*, h.at::text as "atKey" from (
+           (select 'reading' as record, r.id, r.taken_at as at, r.status, u.name as person, r.confirmed_at as "confirmedAt",
+                   (select json_object_agg(p.analyte, json_build_array(p.read_value, p.confirmed_value, p.unit)) from reading_pad p where p.reading_id = r.id) as pads,
+                   null::text as product, null::text as chemical, null::text as parameter, null::float8 as amount, null::text as unit, null::boolean as shock, null::text as note
+              from reading r left join "user" u on u.id = r.confirmed_by
+             where r.tub_id = $1 and ($2::timestamptz is null or (r.taken_at, r.id) > ($2::timestamptz, $3::uuid))
+             order by r.taken_at, r.id limit $4)
+           union all
+           (select 'treatment', x.id, x.added_at, null, u.name, null, null,
+                   x.product_name, x.chemical, x.parameter, x.amount, x.unit, x.shock, x.note
+              from treatment x left join "user" u on u.id = x.added_by
+             where x.tub_id = $1 and ($2::timestamptz is null or (x.added_at, x.id) > ($2::timestamptz, $3::uuid))
+             order by x.added_at, x.id limit $4)
+         ) h order by at, id limit $4`,
         [t.id, after?.at ?? null, after?.id ?? null, CSV_BATCH],
       );
       const lines: string[] = [];
       for (const r of batch.rows) {
-        const cells: unknown[] = [r.takenAt.toISOString(), r.status, r.confirmer ?? "", r.confirmedAt?.toISOString() ?? ""];
+        const cells: unknown[] = [r.record, r.at.toISOString(), r.status ?? "", r.person ?? "", r.confirmedAt?.toISOString() ?? ""];
         for (const a of analytes) {
           const p = r.pads?.[a];
           cells.push(p?.[0] ?? "", p?.[1] ?? "", p?.[2] ?? "");
         }
+        if (r.record === "treatment") cells.push(r.product, r.chemical, r.parameter ? parameterLabel(r.parameter) : "", r.amount, r.unit, r.shock ? "yes" : "no", r.note ?? "");
+        else cells.push(...TREATMENT_COLUMNS.map(() => ""));
         lines.push(csvLine(cells));
       }
       if (lines.length) controller.enqueue(encoder.encode(lines.join("\r\n") + "\r\n"));
       const last = batch.rows.at(-1);
       if (batch.rows.length < CSV_BATCH || !last) finished = true;
-      else after = { at: last.takenAt, id: last.id };
+      else after = { at: last.atKey, id: last.id };
     },
   });
 }

@@ -1,4 +1,4 @@
-// GET /tubs/:tubId/history.csv: every reading of the tub as a spreadsheet, streamed.
+// GET /tubs/:tubId/history.csv: every reading and treatment of the tub as a spreadsheet, streamed.
 import { historyCsvStream } from "~/features/readings/readings.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/history-csv";
@@ -7,6 +7,6 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub } = await tubGuard({ context, request, params }, "view");
   const name = tub.name.replace(/[^\w-]+/g, "-").replace(/^-|-$/g, "").toLowerCase() || "tub";
   return new Response(historyCsvStream(tub, request.signal), {
-    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="dipwell-${name}-readings.csv"` },
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="dipwell-${name}-history.csv"` },
   });
 }

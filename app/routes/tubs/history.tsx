@@ -49,7 +49,7 @@ export default function History({ loaderData }: Route.ComponentProps) {
       <PageTitle sub={`${total} reading${total === 1 ? "" : "s"}`}>History</PageTitle>
       <div className="flex flex-wrap gap-3">
         <ButtonLink href={`${base}/read`}>New reading</ButtonLink>
-        <ButtonLink variant="secondary" href={`${base}/history.csv`} download>Download CSV</ButtonLink>
+        <ButtonLink variant="secondary" href={`${base}/history.csv`} download>Download readings and treatments (CSV)</ButtonLink>
         <ButtonLink variant="secondary" href={`${base}/trends`}>Trends</ButtonLink>
       </div>
       {total === 0 ? (
