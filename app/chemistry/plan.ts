@@ -62,6 +62,8 @@ export interface PlanOptions {
   products?: Product[];
   /** IANA time zone for the "retest after HH:MM" words; UTC by default. */
   timeZone?: string;
+  /** BCP 47 locale for those words ("en-GB": 14:35, "en-US": 2:35 PM); en-GB by default. */
+  locale?: string;
   guidance?: Guidance;
   units?: Units;
   mode?: Mode;
@@ -93,9 +95,22 @@ const r2 = (x: number) => Math.round(x * 100) / 100;
 const unitOf = (p: Parameter) => (p === "ph" ? "" : " mg/L");
 const fmt = (p: Parameter, x: number) => (p === "ph" ? r2(x).toFixed(1) : String(r1(x)));
 
-function timeWords(d: Date, timeZone: string): string {
+/** When a dose went in, in the same zone and locale as the retest time: "at 14:35", or "on Tue 2 Dec, 14:35" on another day. */
+function addedWords(d: Date, now: Date, timeZone: string, locale = "en-GB"): string {
   try {
-    const s = new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone }).format(d);
+    const day = (x: Date) => new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(x);
+    if (day(d) === day(now)) return `at ${timeWords(d, timeZone, locale)}`;
+    const s = new Intl.DateTimeFormat(locale, { weekday: "short", day: "numeric", month: "short", hour: "numeric", minute: "2-digit", timeZone }).format(d);
+    return `on ${s}${timeZone === "UTC" ? " UTC" : ""}`;
+  } catch {
+    return `at ${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+  }
+}
+
+/** A clock time in the zone and the locale, as the app writes times (Intl, timeStyle short). */
+function timeWords(d: Date, timeZone: string, locale = "en-GB"): string {
+  try {
+    const s = new Intl.DateTimeFormat(locale, { timeStyle: "short", timeZone }).format(d);
     return timeZone === "UTC" ? `${s} UTC` : s;
   } catch {
     return `${d.toISOString().slice(11, 16)} UTC`;
@@ -208,6 +223,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
   const val = (x: number | null | undefined) => (finite(x) ? x : null);
   const now = options.now ?? (input.now ? new Date(input.now) : new Date());
   const timeZone = options.timeZone ?? "UTC";
+  const locale = options.locale ?? "en-GB";
 
   // Calcium: a calcium reading, or total hardness as an upper bound (calcium is part of it).
   const chMeasured = val(rd.calcium_hardness);
@@ -292,9 +308,9 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
     notes.push("One product at a time: never add the next product until the retest for the one before.");
     notes.push(AUTHORITY_NOTE);
     const waterBalance = balance(ph, ta, chForBalance, temperatureC, setTemperatureC, water, input.tds, targets, taJudged, chMeasured === null && th !== null);
-    const predicted = predict(ctx, { now, timeZone, lockUntil, temperatureC, setTemperatureC, chEstimated: chMeasured === null, th, tds: input.tds });
+    const predicted = predict(ctx, { now, timeZone, locale, lockUntil, temperatureC, setTemperatureC, chEstimated: chMeasured === null, th, tds: input.tds });
     const trends = slowTrends(ctx, input, { cya, ch: chMeasured, products, bathersPerDay: finite(input.bathersPerDay) ? input.bathersPerDay : 2 });
-    const headline = makeHeadline(ctx, { judgements, lockUntil, timeZone, predicted, san, combined, guidanceMax: guidance.combinedChlorineMax, mode });
+    const headline = makeHeadline(ctx, { judgements, lockUntil, timeZone, locale, predicted, san, combined, guidanceMax: guidance.combinedChlorineMax, mode });
     return {
       headline,
       steps: ctx.steps,
@@ -332,7 +348,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
       retestAfterHours: hoursLeft,
       retestAt: lock.until,
       shock: lock.shock,
-      words: `Wait — retest after ${timeWords(at, timeZone)}. ${lock.productName} was added ${lock.addedAt.slice(0, 16).replace("T", " ")} UTC${lock.shock ? " as a shock" : ""} and needs time to mix and act.`,
+      words: `Wait — retest after ${timeWords(at, timeZone, locale)}. ${lock.productName} was added ${addedWords(new Date(lock.addedAt), now, timeZone, locale)}${lock.shock ? " as a shock" : ""} and needs time to mix and act.`,
       sideEffects: [],
       cautions: [
         "Do not add another product (or a second dose) until the retest.",
@@ -803,7 +819,7 @@ function pushAerationStep(ctx: Ctx, ph: number, toPh: number, why: string) {
 
 function predict(
   ctx: Ctx,
-  o: { now: Date; timeZone: string; lockUntil: Date | null; temperatureC: number; setTemperatureC: number; chEstimated: boolean; th: number | null; tds: number | undefined },
+  o: { now: Date; timeZone: string; locale: string; lockUntil: Date | null; temperatureC: number; setTemperatureC: number; chEstimated: boolean; th: number | null; tds: number | undefined },
 ): PredictedWater {
   const s = ctx.sim;
   const sanRange = ctx.targets[ctx.sanitiser === "chlorine" ? "free_chlorine" : "bromine"];
@@ -827,8 +843,8 @@ function predict(
   } else if (o.lockUntil) {
     usableAfter = sanOk && phOk ? o.lockUntil.toISOString() : null;
     usableWords = usableAfter
-      ? `After the retest at ${timeWords(o.lockUntil, o.timeZone)}, if ${sanName} and pH read in range.`
-      : `Not until the retest at ${timeWords(o.lockUntil, o.timeZone)} shows ${sanName} and pH in range.`;
+      ? `After the retest at ${timeWords(o.lockUntil, o.timeZone, o.locale)}, if ${sanName} and pH read in range.`
+      : `Not until the retest at ${timeWords(o.lockUntil, o.timeZone, o.locale)} shows ${sanName} and pH in range.`;
   } else if (s.san === null || s.ph === null) {
     usableWords = `Unknown: ${s.san === null ? sanName : "pH"} was not measured. Test before anyone uses the tub.`;
   } else if (s.san > sanRange.max && !shockStep) {
@@ -842,8 +858,8 @@ function predict(
     const at = new Date(o.now.getTime() + totalHours * 3600_000);
     usableAfter = at.toISOString();
     usableWords = shockStep
-      ? `After the shock: once ${sanName} is back to ${sanRange.max} mg/L or below, about ${timeWords(at, o.timeZone)} if every step is done now (retest first).`
-      : `About ${timeWords(at, o.timeZone)} if every step is done now, once the last retest shows ${sanName} and pH in range.`;
+      ? `After the shock: once ${sanName} is back to ${sanRange.max} mg/L or below, about ${timeWords(at, o.timeZone, o.locale)} if every step is done now (retest first).`
+      : `About ${timeWords(at, o.timeZone, o.locale)} if every step is done now, once the last retest shows ${sanName} and pH in range.`;
   }
   return {
     free_chlorine: ctx.sanitiser === "chlorine" && s.san !== null ? r2(s.san) : null,
@@ -915,7 +931,7 @@ function slowTrends(ctx: Ctx, input: WaterInput, o: { cya: number | null; ch: nu
 
 function makeHeadline(
   ctx: Ctx,
-  o: { judgements: Judgement[]; lockUntil: Date | null; timeZone: string; predicted: PredictedWater; san: number | null; combined: number | null; guidanceMax: number; mode: Mode },
+  o: { judgements: Judgement[]; lockUntil: Date | null; timeZone: string; locale: string; predicted: PredictedWater; san: number | null; combined: number | null; guidanceMax: number; mode: Mode },
 ): Headline {
   const sanParam = ctx.sanitiser === "chlorine" ? "free_chlorine" : "bromine";
   const sanName = analyteName(sanParam);
@@ -924,7 +940,7 @@ function makeHeadline(
   const todo = first ? (first.kind === "dose" ? `First: ${first.words.split(":")[0]}: ${first.amountText ?? ""}.`.replace(/: \./, ".") : first.words.split(". ")[0] + ".") : "";
   const usable = o.predicted.usableWords;
   if (o.lockUntil)
-    return { tone: "caution", title: `Wait: nothing goes in until ${timeWords(o.lockUntil, o.timeZone)}`, detail: `Retest then. Keep everyone out until the retest shows the water in range.`, usableNow: false };
+    return { tone: "caution", title: `Wait: nothing goes in until ${timeWords(o.lockUntil, o.timeZone, o.locale)}`, detail: `Retest then. Keep everyone out until the retest shows the water in range.`, usableNow: false };
   if (o.san !== null && o.san > range.max)
     return {
       tone: "alert",

@@ -65,12 +65,22 @@ export function dateSettingsFor(request: Request): DateSettings {
 }
 
 const cache = new Map<string, Intl.DateTimeFormat>();
-function formatter(locale: string, timeZone: string, kind: "dateTime" | "date" | "time") {
+type Kind = "dateTime" | "date" | "time" | "weekday" | "hour" | "day" | "month";
+const STYLES: Record<Kind, Intl.DateTimeFormatOptions> = {
+  dateTime: { dateStyle: "medium", timeStyle: "short" },
+  date: { dateStyle: "medium" },
+  time: { timeStyle: "short" },
+  weekday: { weekday: "short", day: "numeric", month: "short" },
+  // chart ticks, as short as the step between them allows
+  hour: { hour: "2-digit", minute: "2-digit" },
+  day: { day: "numeric", month: "short" },
+  month: { month: "short", year: "2-digit" },
+};
+function formatter(locale: string, timeZone: string, kind: Kind) {
   const key = `${locale}|${timeZone}|${kind}`;
   let f = cache.get(key);
   if (!f) {
-    const style: Intl.DateTimeFormatOptions =
-      kind === "dateTime" ? { dateStyle: "medium", timeStyle: "short" } : kind === "date" ? { dateStyle: "medium" } : { timeStyle: "short" };
+    const style = STYLES[kind];
     f = new Intl.DateTimeFormat(locale, { ...style, timeZone });
     cache.set(key, f);
   }
@@ -85,6 +95,21 @@ export function formatDateTime(at: Date | string | number, locale: string, timeZ
 /** "2 Dec 2026" (en-GB). */
 export function formatDate(at: Date | string | number, locale: string, timeZone: string): string {
   return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", "date").format(new Date(at));
+}
+
+/** "14:05" (en-GB), "2:05 PM" (en-US). */
+export function formatTime(at: Date | string | number, locale: string, timeZone: string): string {
+  return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", "time").format(new Date(at));
+}
+
+/** "Wed 2 Dec" (en-GB), "Wed, Dec 2" (en-US): a day this week or next. */
+export function formatWeekday(at: Date | string | number, locale: string, timeZone: string): string {
+  return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", "weekday").format(new Date(at));
+}
+
+/** A chart tick on a time axis whose ticks are `unit` apart: "14:00", "3 Dec", "Dec 26". */
+export function formatTick(at: Date | string | number, locale: string, timeZone: string, unit: "hour" | "day" | "month"): string {
+  return formatter(locale, isTimeZone(timeZone) ? timeZone : "UTC", unit).format(new Date(at));
 }
 
 /** A calendar day stored as "YYYY-MM-DD" (or a timestamp meaning that day), with no time zone shift. */
@@ -134,6 +159,7 @@ export function timeWords(request: Request) {
     /** a tub's time, in the tub's zone */
     tub: (at: Date | string | number, zone: string) => formatDateTime(at, locale, zone),
     tubDate: (at: Date | string | number, zone: string) => formatDate(at, locale, zone),
+    tubTime: (at: Date | string | number, zone: string) => formatTime(at, locale, zone),
     /** the user's own time, in their browser's zone (null until the browser has told us its zone) */
     own: (at: Date | string | number) => (timeZone ? formatDateTime(at, locale, timeZone) : null),
     ownDate: (at: Date | string | number) => (timeZone ? formatDate(at, locale, timeZone) : null),

@@ -1,6 +1,7 @@
-// Times in the tub's time zone, with the platform's Intl only: shared by the plan's server
-// code and its screens.
-import { isTimeZone } from "./dates";
+// Times in the tub's time zone, shared by the plan's server code and its screens. Words for
+// people go through the app's one Intl formatter (./dates) in the reader's locale; loaders pass
+// the locale from timeWords(request).locale.
+import { DEFAULT_LOCALE, formatDateTime, formatDay, formatTime, formatWeekday, isTimeZone } from "./dates";
 
 // Making an Intl formatter is slow next to using one (a list of a hundred treatments formats
 // hundreds of times): one formatter per style and zone, kept.
@@ -39,19 +40,19 @@ export function safeZone(timeZone: string | null | undefined): string {
   return isTimeZone(timeZone) ? timeZone : "UTC";
 }
 
-/** "14:35" in the time zone. */
-export function clock(d: Date | string, timeZone: string): string {
-  return fmt("clock", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+/** "14:35" (en-GB), "2:35 PM" (en-US) in the time zone. */
+export function clock(d: Date | string, timeZone: string, locale = DEFAULT_LOCALE): string {
+  return formatTime(d, locale, safeZone(timeZone));
 }
 
-/** "Tue 3 Jun, 14:35" in the time zone. */
-export function dayAndClock(d: Date | string, timeZone: string): string {
-  return fmt("dayAndClock", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hour12: false, timeZone: safeZone(timeZone) }).format(new Date(d));
+/** "3 Jun 2025, 14:35" (en-GB) in the time zone. */
+export function dayAndClock(d: Date | string, timeZone: string, locale = DEFAULT_LOCALE): string {
+  return formatDateTime(d, locale, safeZone(timeZone));
 }
 
-/** "3 June 2025" from a date-only string or a time. */
-export function longDate(d: Date | string): string {
-  return fmt("longDate", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(new Date(d));
+/** "3 Jun 2025" (en-GB) from a date-only string, with no zone shift. */
+export function longDate(d: Date | string, locale = DEFAULT_LOCALE): string {
+  return formatDay(typeof d === "string" ? d : d.toISOString(), locale);
 }
 
 /** The value of a datetime-local input for this instant in the time zone: "2025-06-03T14:35". */
@@ -88,7 +89,7 @@ export function remainingWords(ms: number): string {
   return h > 0 ? `${h} h ${String(m).padStart(2, "0")} min` : `${m} min`;
 }
 
-/** "Wed 2 Dec" in the time zone. */
-export function dayOnly(d: Date | string, timeZone: string): string {
-  return fmt("dayName", { weekday: "short", day: "numeric", month: "short", timeZone: safeZone(timeZone) }).format(new Date(d));
+/** "Wed 2 Dec" (en-GB) in the time zone. */
+export function dayOnly(d: Date | string, timeZone: string, locale = DEFAULT_LOCALE): string {
+  return formatWeekday(d, locale, safeZone(timeZone));
 }

@@ -4,7 +4,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { CartesianGrid, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { StatusBadge, STATUS_WORDS, UnconfirmedMark } from "~/components/status";
-import { formatDateTime, useDateSettings } from "~/lib/dates";
+import { formatDateTime, formatTick, useDateSettings } from "~/lib/dates";
 import { ButtonLink, Card, EmptyState, Notice } from "~/components/ui";
 import { rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { timeTicks, valueTicks } from "./trend-scale";
@@ -81,8 +81,8 @@ export function TrendCharts({ tubId, timeZone, days }: { tubId: string; timeZone
   const pad = Math.max((hi - lo) * 0.04, 2 * hour);
   const domain: [number, number] = [lo - pad, hi + pad];
   const xt = timeTicks(domain[0], domain[1], timeZone);
-  const tickFmt = (t: number) =>
-    new Date(t).toLocaleString(locale, xt.unit === "hour" ? { timeZone, hour: "2-digit", minute: "2-digit" } : xt.unit === "day" ? { timeZone, day: "numeric", month: "short" } : { timeZone, month: "short", year: "2-digit" });
+  // Rendered in the browser only (the data come after hydration), through the app's one formatter.
+  const tickFmt = (t: number) => formatTick(t, locale, timeZone, xt.unit === "hour" ? "hour" : xt.unit === "day" ? "day" : "month");
   const fullFmt = (t: number) => formatDateTime(t, locale, timeZone);
   const numbered = treatments.map((t, i) => ({ ...t, n: i + 1 }));
   return (

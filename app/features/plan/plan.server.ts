@@ -102,7 +102,7 @@ export interface Timer {
 }
 
 /** The lock in force: the same rule the plan, the treatment log and the first-fill routine honour. */
-export function activeTimer(t: Pick<Tub, "volumeLitres" | "timeZone">, rows: TreatmentRow[], products: Product[], now: Date): Timer | null {
+export function activeTimer(t: Pick<Tub, "volumeLitres" | "timeZone">, rows: TreatmentRow[], products: Product[], now: Date, locale?: string): Timer | null {
   const zone = safeZone(t.timeZone);
   const log = rows
     .filter((r) => r.addedAt.getTime() <= now.getTime() + 60_000 && r.addedAt.getTime() >= now.getTime() - 7 * 86400_000)
@@ -116,8 +116,8 @@ export function activeTimer(t: Pick<Tub, "volumeLitres" | "timeZone">, rows: Tre
     productName: named?.productName ?? lock.productName,
     addedAt: lock.addedAt,
     retestAt: lock.until,
-    retestClock: clock(lock.until, zone),
-    retestDay: dayOnly(lock.until, zone),
+    retestClock: clock(lock.until, zone, locale),
+    retestDay: dayOnly(lock.until, zone, locale),
     shock: lock.shock,
   };
 }
@@ -218,6 +218,7 @@ export function runEngine(
   log: LoggedTreatment[],
   now: Date,
   units: Units = "metric",
+  locale?: string,
 ): { plan: WaterPlan | null; error: string | null } {
   try {
     const input = validateWaterInput({
@@ -229,7 +230,7 @@ export function runEngine(
       // only the analytes the engine knows: a chart may carry other pads
       readings: Object.fromEntries(Object.entries(readings).filter(([k]) => (ENGINE_READINGS as readonly string[]).includes(k))),
     });
-    const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone), guidance: tubGuidance(t), units });
+    const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone), guidance: tubGuidance(t), units, locale });
     if (hasNonFinite(plan)) return { plan: null, error: "The plan could not be computed for these readings; please check them." };
     return { plan, error: null };
   } catch (e) {
@@ -253,13 +254,13 @@ export function parseWhatIf(params: URLSearchParams): { readings: Readings | nul
   return { readings, error: null };
 }
 
-export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | null; units?: Units } = {}): Promise<TubPlan> {
+export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | null; units?: Units; locale?: string } = {}): Promise<TubPlan> {
   const now = opts.now ?? new Date();
   const zone = safeZone(t.timeZone);
   const [products, rows, latest] = await Promise.all([ownerProducts(t.ownerId), recentTreatments(t.id, 20), latestReading(t.id)]);
   const log = await treatmentLog(t.id, now);
   const readings = opts.whatIf ?? latest?.readings ?? null;
-  const { plan, error } = readings ? runEngine(t, readings, products, log, now, opts.units) : { plan: null, error: null };
+  const { plan, error } = readings ? runEngine(t, readings, products, log, now, opts.units, opts.locale) : { plan: null, error: null };
   const overrides = tubOverrides(t);
   return {
     tub: {
@@ -280,7 +281,7 @@ export async function tubPlan(t: Tub, opts: { now?: Date; whatIf?: Readings | nu
     error,
     targets: resolveTargets(t.sanitiser, overrides, tubGuidance(t)),
     overridden: Object.keys(overrides) as Parameter[],
-    timer: activeTimer(t, rows, products, now),
+    timer: activeTimer(t, rows, products, now, opts.locale),
     units: opts.units ?? "metric",
     guidance: tubGuidance(t),
     now: now.toISOString(),
@@ -304,7 +305,7 @@ const logSchema = z.object({
 
 export type LogResult = { ok: true; id: string; retestAt: Date } | { ok: false; fields: Record<string, string>; locked?: boolean };
 
-export async function recordTreatment(t: Tub, userId: string, form: FormData, now = new Date()): Promise<LogResult> {
+export async function recordTreatment(t: Tub, userId: string, form: FormData, now = new Date(), locale?: string): Promise<LogResult> {
   const parsed = logSchema.safeParse(Object.fromEntries(form));
   if (!parsed.success) {
     const fields: Record<string, string> = {};
@@ -340,7 +341,7 @@ export async function recordTreatment(t: Tub, userId: string, form: FormData, no
   }
   if (Object.keys(fields).length || !product) return { ok: false, fields };
   // The lock: nothing else goes in before the retest. Recording a dose already added stays possible, on purpose.
-  const lockNow = activeTimer(t, await recentTreatments(t.id, 20), products, now);
+  const lockNow = activeTimer(t, await recentTreatments(t.id, 20), products, now, locale);
   if (lockNow && form.get("alreadyAdded") !== "1")
     return {
       ok: false,

@@ -54,7 +54,7 @@ export function readiness(t: Tub, latest: LatestReading | null, run: RunRow | nu
   return { ready: reasons.length === 0, reasons };
 }
 
-export async function setupView(t: Tub, now = new Date(), units: Units = "metric") {
+export async function setupView(t: Tub, now = new Date(), units: Units = "metric", locale?: string) {
   const zone = safeZone(t.timeZone);
   const [products, latest, run, rows] = await Promise.all([ownerProducts(t.ownerId), latestReading(t.id), currentRun(t.id), recentTreatments(t.id, 20)]);
   const o = { volumeLitres: t.volumeLitres, sanitiser: t.sanitiser, products, temperatureC: t.temperatureC, units, guidance: tubGuidance(t) };
@@ -72,7 +72,7 @@ export async function setupView(t: Tub, now = new Date(), units: Units = "metric
   }
   const state = (run?.state ?? {}) as RunState;
   // One lock for the plan, the log and this routine: the routine's own timer or a logged dose's wait, whichever ends later.
-  const lock = activeTimer(t, rows, products, now);
+  const lock = activeTimer(t, rows, products, now, locale);
   const own = state.timerEndsAt && Date.parse(state.timerEndsAt) > now.getTime() ? state.timerEndsAt : null;
   const timerEndsAt = own && (!lock || Date.parse(own) >= Date.parse(lock.retestAt)) ? own : (lock?.retestAt ?? null);
   const drain = t.bathersPerDay > 0 ? drainIntervalDays(t.volumeLitres, t.bathersPerDay) : null;
@@ -82,7 +82,7 @@ export async function setupView(t: Tub, now = new Date(), units: Units = "metric
     run: run ? { id: run.id, stepIndex: run.stepIndex, startedAt: run.startedAt.toISOString(), done: state.done ?? [] } : null,
     steps,
     stepsError,
-    timer: timerEndsAt ? { endsAt: timerEndsAt, clock: clock(timerEndsAt, zone), why: lock && timerEndsAt === lock.retestAt ? `${lock.productName} was added${lock.shock ? " as a shock" : ""}: nothing else goes in until then` : "Timer for the last step" } : null,
+    timer: timerEndsAt ? { endsAt: timerEndsAt, clock: clock(timerEndsAt, zone, locale), why: lock && timerEndsAt === lock.retestAt ? `${lock.productName} was added${lock.shock ? " as a shock" : ""}: nothing else goes in until then` : "Timer for the last step" } : null,
     ownTimerRunning: Boolean(own),
     doseLocked: Boolean(lock),
     readiness: readiness(t, latest, run, products),

@@ -269,7 +269,7 @@ export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<U
           const p = r.pads?.[a];
           cells.push(p?.[0] ?? "", p?.[1] ?? "", p?.[2] ?? "");
         }
-        if (r.record === "treatment") cells.push(r.product, r.chemical, r.parameter ? parameterLabel(r.parameter) : "", r.amount, r.unit, r.shock ? "yes" : "no", r.note ?? "");
+        if (r.record === "treatment") cells.push(r.product, r.chemical, r.parameter ? analyteName(r.parameter) : "", r.amount, r.unit, r.shock ? "yes" : "no", r.note ?? "");
         else cells.push(...TREATMENT_COLUMNS.map(() => ""));
         lines.push(csvLine(cells));
       }

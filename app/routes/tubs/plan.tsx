@@ -9,6 +9,7 @@ import { READING_KEYS, TARGET_PARAMETERS } from "~/features/plan/shared";
 import { analyteLabel, analyteName } from "~/chemistry";
 import { dayAndClock } from "~/lib/tub-time";
 import { tubGuard } from "~/lib/tub-access.server";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/plan";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Plan · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
@@ -17,11 +18,12 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
   const url = new URL(request.url);
   const whatIf = parseWhatIf(url.searchParams);
-  const view = await tubPlan(tub, { whatIf: whatIf.readings, units: await userUnits(user.id) });
-  // Times as words from the server only (the browser's zone rules may differ).
+  const { locale } = timeWords(request);
+  const view = await tubPlan(tub, { whatIf: whatIf.readings, units: await userUnits(user.id), locale });
+  // Times as words from the server only (the browser's zone rules may differ), in the user's locale.
   const words = {
-    reading: view.reading ? dayAndClock(view.reading.takenAt, view.tub.timeZone) : null,
-    timerAdded: view.timer ? dayAndClock(view.timer.addedAt, view.tub.timeZone) : null,
+    reading: view.reading ? dayAndClock(view.reading.takenAt, view.tub.timeZone, locale) : null,
+    timerAdded: view.timer ? dayAndClock(view.timer.addedAt, view.tub.timeZone, locale) : null,
   };
   return { ...view, words, relation, whatIfError: whatIf.error, whatIfValues: whatIf.readings || whatIf.error ? Object.fromEntries(url.searchParams) : null, saved: url.searchParams.get("saved") === "targets" };
 }

@@ -3,7 +3,9 @@ import { volumeWords, type RoutineStep } from "~/chemistry";
 import { Cautions, RetestTimer, TubTabs } from "~/components/plan/plan-ui";
 import { Button, Card, Notice, PageTitle, cx } from "~/components/ui";
 import { completeSetup, finishStep, refilled, setupView, startRun } from "~/features/plan/routines.server";
-import { dayAndClock, longDate } from "~/lib/tub-time";
+import { Day } from "~/components/When";
+import { dayAndClock } from "~/lib/tub-time";
+import { timeWords } from "~/lib/dates";
 import { userUnits } from "~/features/plan/units.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import type { Route } from "./+types/setup";
@@ -12,9 +14,10 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Routines 
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
-  const view = await setupView(tub, new Date(), await userUnits(user.id));
-  // Times as words from the server only (the browser's zone rules may differ).
-  const finishedWords = view.tub.firstFillCompletedAt ? dayAndClock(view.tub.firstFillCompletedAt, view.tub.timeZone) : null;
+  const { locale } = timeWords(request);
+  const view = await setupView(tub, new Date(), await userUnits(user.id), locale);
+  // Times as words from the server only (the browser's zone rules may differ), in the user's locale.
+  const finishedWords = view.tub.firstFillCompletedAt ? dayAndClock(view.tub.firstFillCompletedAt, view.tub.timeZone, locale) : null;
   return { ...view, finishedWords, relation };
 }
 
@@ -150,7 +153,7 @@ export default function SetupPage({ loaderData, actionData }: Route.ComponentPro
             </p>
             {drain.dueOn ? (
               <p className={cx("mt-1 font-bold", drain.overdue ? "text-alert" : "text-well-900")}>
-                {drain.overdue ? "Overdue since" : "Next due"} {longDate(drain.dueOn)} (filled {longDate(tub.fillDate!)}).
+                {drain.overdue ? "Overdue since" : "Next due"} <Day day={drain.dueOn} /> (filled <Day day={tub.fillDate!} />).
               </p>
             ) : (
               <p className="mt-1 text-ink-soft">No fill date recorded yet.</p>

@@ -6,6 +6,7 @@ import { activeTimer, deleteTreatment, recentTreatments, recordTreatment } from 
 import { dayAndClock, safeZone, toLocalInput } from "~/lib/tub-time";
 import { safeRedirect } from "~/lib/session.server";
 import { tubGuard } from "~/lib/tub-access.server";
+import { timeWords } from "~/lib/dates";
 import type { Route } from "./+types/treatments";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Treatments · ${loaderData?.tub.name ?? "Tub"} · Dipwell` }];
@@ -14,14 +15,15 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { tub, relation } = await tubGuard({ context, request, params }, "view");
   const now = new Date();
   const zone = safeZone(tub.timeZone);
+  const { locale } = timeWords(request);
   const [rows, products] = await Promise.all([recentTreatments(tub.id, 100), ownerProducts(tub.ownerId)]);
-  const timer = activeTimer(tub, rows, products, now);
+  const timer = activeTimer(tub, rows, products, now, locale);
   return {
     relation,
     tub: { id: tub.id, name: tub.name, timeZone: zone, firstFillCompletedAt: tub.firstFillCompletedAt?.toISOString() ?? null },
     timer,
     // Times as words from the server only (the browser's zone rules may differ).
-    timerAddedWords: timer ? dayAndClock(timer.addedAt, zone) : null,
+    timerAddedWords: timer ? dayAndClock(timer.addedAt, zone, locale) : null,
     treatments: rows.map((r) => ({
       id: r.id,
       productName: r.productName,
@@ -29,8 +31,8 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
       amount: r.amount,
       unit: r.unit,
       addedAt: r.addedAt.toISOString(),
-      addedWords: dayAndClock(r.addedAt, zone),
-      retestWords: r.retestAt ? dayAndClock(r.retestAt, zone) : null,
+      addedWords: dayAndClock(r.addedAt, zone, locale),
+      retestWords: r.retestAt ? dayAndClock(r.retestAt, zone, locale) : null,
       note: r.note,
     })),
     products: products.map((p) => ({ id: p.id, name: p.name, form: p.form })),
@@ -48,7 +50,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
     return redirect(`/tubs/${tub.id}/treatments`);
   }
   if (intent !== "log") return data({ fields: {} as Record<string, string>, form: "Unknown action.", values: {} as Record<string, string>, locked: false }, { status: 400 });
-  const result = await recordTreatment(tub, user.id, form);
+  const result = await recordTreatment(tub, user.id, form, new Date(), timeWords(request).locale);
   if (!result.ok) {
     const values = Object.fromEntries([...form].map(([k, v]) => [k, String(v)]));
     return data({ fields: result.fields, form: result.fields.form ?? "The treatment was not saved; please fix what is marked.", values, locked: result.locked ?? false }, { status: 400 });
