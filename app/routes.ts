@@ -41,6 +41,7 @@ export default [
     route("tubs/:tubId/photos/:photoId", "routes/tubs/photo.ts"),
     route("tubs/:tubId/history", "routes/tubs/history.tsx"),
     route("tubs/:tubId/history.csv", "routes/tubs/history-csv.ts"),
+    route("tubs/:tubId/report", "routes/tubs/report.tsx"),
     route("tubs/:tubId/trends", "routes/tubs/trends.tsx"),
     route("tubs/:tubId/plan", "routes/tubs/plan.tsx"),
     route("tubs/:tubId/treatments", "routes/tubs/treatments.tsx"),

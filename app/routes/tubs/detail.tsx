@@ -93,6 +93,7 @@ export default function TubDetail({ loaderData }: Route.ComponentProps) {
           ["Treatments", `${base}/treatments`],
           ["First-fill setup", `${base}/setup`],
           ["Visit notes", `${base}/notes`],
+          ["Visit report", `${base}/report`],
           ...(relation === "owner" || relation === "admin" ? [["Sharing", `${base}/sharing`], ["Settings", `${base}/edit`]] : []),
         ].map(([label, href]) => (
           <a key={href} href={href} className="rounded-xl border border-line bg-shell px-4 py-3 text-center font-bold no-underline hover:border-well-300">
