@@ -16,6 +16,7 @@ import * as s from "~/db/schema";
 import { createChart } from "~/features/charts/charts.server";
 import { PHOTO_MESSAGES } from "~/features/photos/rules";
 import { db } from "~/lib/db.server";
+import { env } from "~/lib/env.server";
 import { TEST_PORTS } from "~/ops/ports";
 import { waitForPort } from "~/ops/services";
 import { registerBatchPhoto, uploadBatchPhoto } from "../support/batch-photos";
@@ -29,6 +30,10 @@ const store = vi.hoisted(() => {
   process.env.S3_ENDPOINT = `http://127.0.0.1:${port}`;
   return { port, before };
 });
+
+// The test setup may have read the environment already (its cache is per test file): point it here too.
+const storedEndpoint = env().S3_ENDPOINT;
+env().S3_ENDPOINT = `http://127.0.0.1:${store.port}`;
 
 const dir = mkdtempSync(path.join(tmpdir(), "dipwell-outage-s3-"));
 let server: S3rver | null = null;
@@ -46,6 +51,7 @@ async function stopStorage() {
 afterAll(async () => {
   if (server) await stopStorage();
   rmSync(dir, { recursive: true, force: true });
+  env().S3_ENDPOINT = storedEndpoint;
   if (store.before === undefined) delete process.env.S3_ENDPOINT;
   else process.env.S3_ENDPOINT = store.before;
 });
