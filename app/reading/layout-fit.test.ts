@@ -1,19 +1,12 @@
 // The chart's layout fitted along a drawn strip's profile: offset, scale and which end is the tip.
 import { describe, expect, it } from "vitest";
-import { drawScene, sceneChart, type SceneStrip } from "../../tests/reading/strip-scene";
+import { drawScene, sceneChart, type SceneStrip, threePadStrip } from "../../tests/reading/strip-scene";
 import { alongProfile } from "./axis-profile";
 import { parseChart } from "./chart";
 import { chartLayout, colourTrust, placementColourCost, pxPerMm, searchLayout, tAt } from "./layout-fit";
 import { plasticDifference } from "./plastic-difference";
 
-const strip: SceneStrip = {
-  cx: 200, cy: 100, angleDeg: 180, pxPerMm: 3.5, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
-  pads: [
-    { centerMm: 4, sizeMm: 5, color: [220, 150, 90] },
-    { centerMm: 11, sizeMm: 5, color: [150, 170, 210] },
-    { centerMm: 18, sizeMm: 5, color: [200, 120, 160] },
-  ],
-};
+const strip: SceneStrip = threePadStrip({ cx: 200, cy: 100, angleDeg: 180, pxPerMm: 3.5 });
 const chart = parseChart(sceneChart(strip));
 
 describe("chartLayout", () => {

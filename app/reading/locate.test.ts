@@ -1,19 +1,12 @@
 // The whole locator on drawn scenes whose true geometry is known: rotations (23° among them), a
 // strip along a dark grout line, and a photo with no strip.
 import { describe, expect, it } from "vitest";
-import { drawScene, sceneChart, scenePoint, type SceneLine, type SceneStrip } from "../../tests/reading/strip-scene";
+import { drawScene, sceneChart, scenePoint, type SceneLine, type SceneStrip, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { ReadingError } from "./image";
 import { locateStrip } from "./locate";
 
-const base: SceneStrip = {
-  cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
-  pads: [
-    { centerMm: 4, sizeMm: 5, color: [220, 150, 90] },
-    { centerMm: 11, sizeMm: 5, color: [150, 170, 210] },
-    { centerMm: 18, sizeMm: 5, color: [200, 120, 160] },
-  ],
-};
+const base: SceneStrip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(base));
 
 function expectPadsPlaced(strip: SceneStrip, surface: [number, number, number], lines: SceneLine[] = []) {

@@ -19,6 +19,18 @@ export type SceneStrip = {
   pads: { centerMm: number; sizeMm: number; color: [number, number, number] }[];
 };
 
+/** A plain 80 mm strip with three pads (orange, blue, pink) near its tip; place and size it with `at`. */
+export function threePadStrip(at: Pick<SceneStrip, "cx" | "cy" | "angleDeg" | "pxPerMm">): SceneStrip {
+  return {
+    ...at, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
+    pads: [
+      { centerMm: 4, sizeMm: 5, color: [220, 150, 90] },
+      { centerMm: 11, sizeMm: 5, color: [150, 170, 210] },
+      { centerMm: 18, sizeMm: 5, color: [200, 120, 160] },
+    ],
+  };
+}
+
 /** A horizontal line across the surface (grout, a seam), drawn under the strip. */
 export type SceneLine = { y: number; thickness: number; color: [number, number, number] };
 
