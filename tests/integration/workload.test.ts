@@ -314,6 +314,32 @@ describe("every list that grows with the business pages, and a bad page number i
     }
   });
 
+  it("a tub's visit notes: 20 a page, newest visit first, a bad page gives page 1", async () => {
+    // 45 visits a week apart, written with SQL: three pages.
+    await sql(
+      `insert into visit_note (tub_id, author_id, body, visited_at)
+       select $1, $2, 'Visit ' || lpad(g::text, 2, '0'), timestamptz '2026-01-01 12:00Z' + g * interval '7 days'
+       from generate_series(1, 45) g`,
+      [firstTub, tech.id],
+    );
+    const mod = await importRoute("routes/tubs/notes.tsx");
+    const get = async (q: string) => {
+      const r = await callRoute(mod.loader!, { url: `/tubs/${firstTub}/notes?${q}`, params: { tubId: firstTub }, user: owner });
+      expect(r.status, q).toBe(200);
+      return r.data as { page: { page: number; pages: number; total: number }; notes: { body: string }[] };
+    };
+    const pages = [await get("page=1"), await get("page=2"), await get("page=3")];
+    expect(pages[0].page).toEqual({ page: 1, pages: 3, total: 45 });
+    expect(pages.map((p) => p.notes.length)).toEqual([20, 20, 5]);
+    const bodies = pages.flatMap((p) => p.notes.map((n) => n.body));
+    expect(bodies).toEqual(Array.from({ length: 45 }, (_, i) => `Visit ${String(45 - i).padStart(2, "0")}`));
+    for (const q of BAD) {
+      const d = await get(q);
+      expect(d.page.page, q).toBe(1);
+      expect(d.notes.map((n) => n.body), q).toEqual(pages[0].notes.map((n) => n.body));
+    }
+  });
+
   it("the dashboard and the review queue stop once the browser has gone away", async () => {
     const gone = AbortSignal.abort();
     for (const work of [dashboard(asTech(tech), { signal: gone }), reviewQueue(asTech(tech), { signal: gone })]) {

@@ -3,7 +3,7 @@
 import { randomBytes } from "node:crypto";
 import { isUuid } from "~/lib/ids";
 import { padsByReading, padsOf } from "~/features/readings/pads.server";
-import { and, desc, eq, inArray, isNull } from "drizzle-orm";
+import { and, count, desc, eq, inArray, isNull } from "drizzle-orm";
 import type { Range } from "~/chemistry";
 import { tubTargets } from "~/features/plan/plan.server";
 import { chartVersion, invitation, notification, reading, readingPad, tub, tubAccess, user as userTable, visitNote } from "~/db/schema";
@@ -423,13 +423,21 @@ export async function markReviewed(user: SessionUser, readingId: string, correct
 
 // ---------------------------------------------------------------- visit notes
 
-export async function notesFor(t: Tub) {
-  return db
+export const NOTES_PAGE_SIZE = 20;
+
+/** One page of a tub's visit notes, newest visit first (years of visits are never sent at once). */
+export async function notesFor(t: Tub, pageAsked = 1) {
+  const [{ total }] = await db.select({ total: count() }).from(visitNote).where(eq(visitNote.tubId, t.id));
+  const page = pageOf(total, NOTES_PAGE_SIZE, pageAsked);
+  const rows = await db
     .select({ id: visitNote.id, body: visitNote.body, visitedAt: visitNote.visitedAt, authorId: visitNote.authorId, author: userTable.name })
     .from(visitNote)
     .leftJoin(userTable, eq(userTable.id, visitNote.authorId))
     .where(eq(visitNote.tubId, t.id))
-    .orderBy(desc(visitNote.visitedAt));
+    .orderBy(desc(visitNote.visitedAt), desc(visitNote.id))
+    .limit(page.size)
+    .offset(page.offset);
+  return { rows, page };
 }
 
 export async function addNote(user: SessionUser, t: Tub, body: string, visitedAt: Date) {

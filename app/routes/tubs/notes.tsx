@@ -5,6 +5,8 @@ import { addNote, ClientInputError, deleteNote, notesFor, updateNote } from "~/f
 import { can } from "~/lib/permissions";
 import { tubGuard } from "~/lib/tub-access.server";
 import { Day } from "~/components/When";
+import { Pager } from "~/components/Pager";
+import { askedPage } from "~/lib/paging";
 import type { Route } from "./+types/notes";
 
 export const meta: Route.MetaFunction = () => [{ title: "Visit notes · Dipwell" }];
@@ -20,13 +22,15 @@ function todayAt(timeZone: string, now = new Date()) {
 
 export async function loader({ context, request, params }: Route.LoaderArgs) {
   const { user, tub, relation } = await tubGuard({ context, request, params }, "view");
-  const notes = await notesFor(tub);
+  const url = new URL(request.url);
+  const { rows: notes, page } = await notesFor(tub, askedPage(url));
   const admin = can(user, { note: ["edit-any"] });
   return {
     tub: { id: tub.id, name: tub.name },
     relation,
     today: todayAt(tub.timeZone),
-    edited: new URL(request.url).searchParams.get("done"),
+    edited: url.searchParams.get("done"),
+    page: { page: page.page, pages: page.pages, total: page.total },
     notes: notes.map((n) => ({
       id: n.id, body: n.body, author: n.author ?? "",
       visitedOn: n.visitedAt.toISOString().slice(0, 10),
@@ -78,7 +82,7 @@ export async function action({ context, request, params }: Route.ActionArgs) {
 type ActionShape = { intent?: string; noteId?: string; form?: string; fields?: Record<string, string>; body?: string; visitedOn?: string } | undefined;
 
 export default function Notes({ loaderData, actionData }: Route.ComponentProps) {
-  const { tub, notes, today, relation, edited } = loaderData;
+  const { tub, notes, today, relation, edited, page } = loaderData;
   const a = actionData as ActionShape;
   const adding = !a || a.intent === "add";
   const canWrite = relation !== null;
@@ -147,6 +151,7 @@ export default function Notes({ loaderData, actionData }: Route.ComponentProps) 
           })}
         </ul>
       )}
+      <Pager page={page.page} pages={page.pages} href={(p) => `?page=${p}`} label="Pages of visit notes" />
     </div>
   );
 }
