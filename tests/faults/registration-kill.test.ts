@@ -10,7 +10,7 @@ import { db } from "~/lib/db.server";
 import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
-import { createTub, createUser, type TestUser } from "../support/fixtures";
+import { createTub, createUser, type TestUser, createChartBatch } from "../support/fixtures";
 import { APP_PORT, APP_URL, kill, sleep, startStack, until, type Stack } from "./support";
 import { waitForPort } from "../../app/ops/services";
 
@@ -21,11 +21,8 @@ let tubId: string;
 
 beforeAll(async () => {
   owner = await createUser("owner");
-  const [c] = await db.insert(s.stripChart).values({ name: `Fault chart ${owner.id.slice(0, 6)}` }).returning();
-  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot: "F-1" }).returning();
-  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition: parseChart(chartJson), source: "import" }).returning();
-  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
-  tubId = (await createTub(owner.id, { batchId: b.id })).id;
+  const made = await createChartBatch(`Fault chart ${owner.id.slice(0, 6)}`, "F-1", parseChart(chartJson));
+  tubId = (await createTub(owner.id, { batchId: made.batchId })).id;
   stack = await startStack({ env: { SMTP_URL: process.env.SMTP_URL! } });
 });
 

@@ -17,7 +17,7 @@ import { bucket, s3 } from "~/lib/storage.server";
 import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
-import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
+import { callRoute, createTub, createUser, type TestUser, createChartBatch } from "../support/fixtures";
 import { presignBatchUpload, registerBatchPhoto, uploadBatchPhoto } from "../support/batch-photos";
 import { createChart } from "~/features/charts/charts.server";
 import { env } from "~/lib/env.server";
@@ -50,11 +50,8 @@ async function exists(key: string) {
 beforeAll(async () => {
   owner = await createUser("owner");
   const chart = parseChart(chartJson);
-  const [c] = await db.insert(s.stripChart).values({ name: `Safety chart ${owner.id.slice(0, 6)}` }).returning();
-  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot: "S-1" }).returning();
-  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition: chart, source: "import" }).returning();
-  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
-  tubId = (await createTub(owner.id, { batchId: b.id })).id;
+  const made = await createChartBatch(`Safety chart ${owner.id.slice(0, 6)}`, "S-1", chart);
+  tubId = (await createTub(owner.id, { batchId: made.batchId })).id;
   jpeg = (await renderStripPhoto(asRenderChart(chartJson), { seed: 11, surface: "paper", cast: "daylight" })).jpeg;
 });
 

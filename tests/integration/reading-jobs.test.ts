@@ -16,7 +16,7 @@ import { db } from "~/lib/db.server";
 import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
-import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
+import { callRoute, createTub, createUser, type TestUser, createChartBatch } from "../support/fixtures";
 import { importRoute } from "../support/routes";
 
 const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
@@ -67,11 +67,8 @@ async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined |
 beforeAll(async () => {
   owner = await createUser("owner");
   const chart = parseChart(chartJson);
-  const [c] = await db.insert(s.stripChart).values({ name: `Jobs chart ${owner.id.slice(0, 6)}` }).returning();
-  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot: "J-1" }).returning();
-  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition: chart, source: "import" }).returning();
-  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
-  batchId = b.id;
+  const made = await createChartBatch(`Jobs chart ${owner.id.slice(0, 6)}`, "J-1", chart);
+  batchId = made.batchId;
   tubId = (await createTub(owner.id, { batchId })).id;
 });
 

@@ -12,7 +12,7 @@ import { env } from "~/lib/env.server";
 import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
-import { callRoute, createTub, createUser, type TestUser } from "../support/fixtures";
+import { callRoute, createTub, createUser, type TestUser, createChartBatch } from "../support/fixtures";
 import { importRoute } from "../support/routes";
 import { readPendingReading } from "~/features/readings/read-job.server";
 
@@ -51,12 +51,9 @@ async function readingCount() {
 
 beforeAll(async () => {
   owner = await createUser("owner");
-  const [c] = await db.insert(s.stripChart).values({ name: `Test chart ${owner.id.slice(0, 6)}` }).returning();
-  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot: "T-1" }).returning();
-  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition: chart, source: "import" }).returning();
-  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
-  batchId = b.id;
-  versionId = v.id;
+  const made = await createChartBatch(`Test chart ${owner.id.slice(0, 6)}`, "T-1", chart);
+  batchId = made.batchId;
+  versionId = made.versionId;
   tubId = (await createTub(owner.id, { batchId })).id;
   // A clean daylight photo on paper, values on the chart's swatches (renderer: tests/render/strip-photo.ts).
   strip = await renderStripPhoto(asRenderChart(chartJson), { seed: 3, surface: "paper", cast: "daylight", values: { free_chlorine: 3, ph: 7.6, total_alkalinity: 80 } });

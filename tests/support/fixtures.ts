@@ -2,6 +2,7 @@
 // roles, their session cookies, tubs, and a way to call a route's loader or
 // action exactly as React Router does (root middleware first).
 import { randomUUID } from "node:crypto";
+import { eq } from "drizzle-orm";
 import { hashPassword } from "better-auth/crypto";
 import { RouterContextProvider } from "react-router";
 import * as s from "~/db/schema";
@@ -33,6 +34,15 @@ export async function createTub(ownerId: string, values: Partial<typeof s.tub.$i
     .values({ ownerId, name: `Tub ${randomUUID().slice(0, 6)}`, volumeLitres: 1200, sanitiser: "chlorine", ...values })
     .returning();
   return row;
+}
+
+/** A strip chart with one batch whose current version is `definition` (an imported chart). */
+export async function createChartBatch(name: string, lot: string, definition: typeof s.chartVersion.$inferInsert["definition"]) {
+  const [c] = await db.insert(s.stripChart).values({ name }).returning();
+  const [b] = await db.insert(s.stripBatch).values({ chartId: c.id, lot }).returning();
+  const [v] = await db.insert(s.chartVersion).values({ chartId: c.id, batchId: b.id, version: 1, definition, source: "import" }).returning();
+  await db.update(s.stripBatch).set({ currentVersionId: v.id }).where(eq(s.stripBatch.id, b.id));
+  return { chartId: c.id, batchId: b.id, versionId: v.id };
 }
 
 export async function shareTub(tubId: string, technicianId: string, grantedBy: string) {
