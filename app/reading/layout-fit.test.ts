@@ -43,6 +43,11 @@ describe("searchLayout", () => {
     expect(right).toBeLessThan(1);
     expect(wrong).toBeGreaterThan(right + 5);
   });
+  it("gives the highest cost, not an error, to a placement whose gaps hold no light (a turned photo's black corner)", () => {
+    const black = { width: 400, height: 200, data: new Uint8Array(400 * 200 * 3) };
+    const dark = alongProfile(black, axis, -190, 190);
+    expect(placementColourCost(chart, layout, dark, [0, 0, 0], best!)).toBe(50);
+  });
   it("trusts a placement less as its colours lie further from the chart", () => {
     expect(colourTrust(3)).toBe(1);
     expect(colourTrust(13)).toBeCloseTo(0.5, 6);

@@ -148,6 +148,8 @@ export function placementColourCost(chart: StripChart, layout: Layout, profile: 
     for (let i = i0; i <= i1; i++) if (profile.valid[i]) for (let ch = 0; ch < 3; ch++) gapChannels[ch].push(profile.inner[i * 3 + ch]);
   }
   const bareLin = gapChannels[0].length ? gapChannels.map((a) => srgbToLinear(median(a) / 255)) : bare.map((v) => srgbToLinear(v / 255));
+  // Gaps with next to no light in them (the black fill beyond a turned photo's edge) are no plastic.
+  if (!(bareLin[0] + bareLin[1] + bareLin[2] > 3e-3)) return 50;
   const wm = whiteCorrectionMatrix(bareLin, stripLin);
   chart.pads.forEach((p, pi) => {
     const [a, b] = layout.pads[pi];

@@ -45,6 +45,8 @@ function axisOf(c: StripCandidate, s: SearchCopy): Axis {
 const settled = (g: StripGeometry | null) => !!g && g.convincing && g.rank > 15 && (g.lengthOk || g.colourCost <= SETTLED_COLOUR_COST);
 /** Mean ΔE00 from the placed pads to their swatch paths below which a placement settles the search. */
 const SETTLED_COLOUR_COST = 5;
+/** Mean ΔE00 beyond which a placement's colours are no longer trusted in full (layout-fit.ts colourTrust). */
+const FAR_COLOUR_COST = 8;
 
 export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): StripGeometry {
   const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
@@ -78,8 +80,9 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
     }
   }
   // Strips the bright components missed (merged with a pale surface or a line beside them):
-  // pairs of long parallel edges.
-  if (!best || !best.lengthOk || !best.convincing) {
+  // pairs of long parallel edges. Also when the best placement's colours lie far from every
+  // swatch: a pad-like pattern along some other bright edge (a sheet of paper's border).
+  if (!best || !best.lengthOk || !best.convincing || best.colourCost > FAR_COLOUR_COST) {
     for (const c of edgePairCandidates(search, chart)) {
       traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
       const g = fit(axisOf(c, search));

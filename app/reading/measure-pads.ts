@@ -89,7 +89,8 @@ export type StripMeasurement = { pads: PadMeasurement[]; warnings: string[] };
 /** Samples and white-corrects every chart pad at its placement. */
 export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, trace?: (msg: string) => void): StripMeasurement {
   const warnings: string[] = [];
-  const found = bareSamples(img, g);
+  // Samples with next to no light in them (beyond a turned photo's edge) are no plastic.
+  const found = bareSamples(img, g).filter((b) => luminance(b.s.linear) > 1e-3);
   if (!found.length)
     throw new ReadingError("no_strip", "The strip was found, but no bare plastic could be seen next to its pads to judge the light. Take the photo again with the whole strip in view.");
   const bare = consistentBare(found);
