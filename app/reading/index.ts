@@ -6,12 +6,12 @@
 //    from the bare plastic on both sides of it, von Kries per linear channel (measure-pads.ts)
 // -> CIELAB D65 -> CIEDE2000 match along the analyte's colour path; an analyte on several pads
 //    is matched jointly along their joint path (joint-match.ts) -> one value and one confidence.
-import type { ChartPad, StripChart } from "./chart";
+import type { StripChart } from "./chart";
 import { ChartError, parseChart } from "./chart";
-import { labToHex, type Lab } from "./colour";
 import { locateStrip } from "./locate";
 import { ReadingError, cropPad, cropStrip, decodePhoto } from "./image";
-import { analyteGroups, matchJoint } from "./joint-match";
+import { analyteGroups } from "./joint-match";
+import { judgeAnalyte, type PadReading } from "./judge";
 import { matchSwatches } from "./match";
 import { measurePads, type PadMeasurement } from "./measure-pads";
 
@@ -21,40 +21,8 @@ export { parseChart, exportChart, ChartError, type StripChart, type ChartPad } f
 export { matchSwatches } from "./match";
 export { matchJoint, analyteGroups } from "./joint-match";
 
-/** One pad of an analyte's reading: what was measured there. */
-export type PadPart = {
-  /** Index of the pad in the chart's pad list. */
-  chartIndex: number;
-  lab: Lab;
-  hex: string;
-  /** ΔE00 from this pad's colour to its own path at the analyte's read position. */
-  deltaE: number;
-  /** Pad centre in the original photo's pixels (after EXIF orientation). */
-  centre: [number, number];
-  crop?: Buffer;
-};
+export { REVIEW_BELOW, judgeAnalyte, type PadPart, type PadReading } from "./judge";
 
-/** One reading per analyte (an analyte on several pads is read jointly from all of them). */
-export type PadReading = {
-  analyte: string;
-  label: string;
-  unit: string;
-  value: number;
-  confidence: number;
-  needsReview: boolean;
-  reason?: string;
-  /** Measured colour (the first pad's, for an analyte on several pads; all are in `parts`). */
-  lab: Lab;
-  hex: string;
-  deltaE: number;
-  swatchIndex: number;
-  /** The pad's crop; for an analyte on several pads, their crops side by side. */
-  crop?: Buffer;
-  /** Pad centre in the original photo's pixels (the first pad's for an analyte on several pads). */
-  centre: [number, number];
-  /** Every pad this analyte was read from, in chart order (one entry for a single pad). */
-  parts: PadPart[];
-};
 export type StripReading = {
   pads: PadReading[];
   strip: {
@@ -107,64 +75,6 @@ function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boo
       `This strip shows fewer test pads than the chart expects (${shown} of ${chart.pads.length}; no pad where the chart puts ${[...new Set(missing)].join(", ")}). Check that the chosen chart matches this strip.`,
     );
   }
-}
-
-/** Readings less confident than this go to review. */
-const REVIEW_BELOW = 0.6;
-
-/** One analyte's value, confidence and reasons from its pads' measurements. */
-function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): PadReading {
-  const first = chartPads[0];
-  const match = matchJoint(chartPads, ms.map((m) => m.lab));
-  const reasons: string[] = [];
-  const rel = match.deltaE / match.halfStep;
-  let conf = Math.exp(-0.5 * rel * rel);
-  if (rel > 1) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
-  const relS = Math.max(...ms.map((m) => m.spread)) / match.halfStep;
-  conf *= Math.exp(-0.5 * relS * relS);
-  if (relS > 0.8) reasons.push("its colour is uneven (glare, shadow or a drip on the pad)");
-  if (match.rivalDeltaE < match.deltaE + 1) {
-    conf *= 0.5;
-    reasons.push("its colour also resembles another part of the chart");
-  }
-  if (ms.some((m) => m.sample.clippedFraction > 0.3)) {
-    conf *= 0.7;
-    reasons.push("the photo is overexposed there");
-  }
-  if (ms.some((m) => m.sample.glareFraction > 0.25)) {
-    conf *= 0.8;
-    reasons.push("there is glare on the pad");
-  }
-  // A placement in doubt: whatever the colours say, a person checks the reading.
-  if (doubts.length) {
-    conf = Math.min(conf, REVIEW_BELOW - 0.01);
-    reasons.push(...doubts);
-  }
-  conf = Math.max(0, Math.min(1, conf));
-  const needsReview = conf < REVIEW_BELOW;
-  const parts: PadPart[] = ms.map((m, j) => ({
-    chartIndex: indices[j],
-    lab: m.lab,
-    hex: labToHex(m.lab),
-    deltaE: match.padDeltaE[j],
-    centre: [m.centre[0] * k, m.centre[1] * k],
-  }));
-  const reading: PadReading = {
-    analyte,
-    label: first.label,
-    unit: first.unit,
-    value: match.value,
-    confidence: conf,
-    needsReview,
-    lab: ms[0].lab,
-    hex: parts[0].hex,
-    deltaE: match.deltaE,
-    swatchIndex: match.swatchIndex,
-    centre: parts[0].centre,
-    parts,
-  };
-  if (needsReview) reading.reason = `Please check ${first.label}: ${reasons.length ? reasons.join("; ") : "the reading is uncertain"}.`;
-  return reading;
 }
 
 export async function readStrip(photo: Buffer, chartIn: StripChart, options: ReadOptions = {}): Promise<StripReading> {

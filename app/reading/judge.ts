@@ -1,0 +1,101 @@
+// The verdict on one analyte: its value from the joint match of its pads, a confidence, and
+// whether a person should check it, with the reasons in plain words. A reading goes to review when
+// its colours lie far from the chart's path, a pad is uneven, the colours also resemble another
+// part of the chart, the photo is overexposed or glared there, or the strip's placement itself is
+// in doubt (strip-fit.ts doubts).
+import type { ChartPad } from "./chart";
+import { labToHex, type Lab } from "./colour";
+import { matchJoint } from "./joint-match";
+import type { PadMeasurement } from "./measure-pads";
+
+/** One pad of an analyte's reading: what was measured there. */
+export type PadPart = {
+  /** Index of the pad in the chart's pad list. */
+  chartIndex: number;
+  lab: Lab;
+  hex: string;
+  /** ΔE00 from this pad's colour to its own path at the analyte's read position. */
+  deltaE: number;
+  /** Pad centre in the original photo's pixels (after EXIF orientation). */
+  centre: [number, number];
+  crop?: Buffer;
+};
+
+/** One reading per analyte (an analyte on several pads is read jointly from all of them). */
+export type PadReading = {
+  analyte: string;
+  label: string;
+  unit: string;
+  value: number;
+  confidence: number;
+  needsReview: boolean;
+  reason?: string;
+  /** Measured colour (the first pad's, for an analyte on several pads; all are in `parts`). */
+  lab: Lab;
+  hex: string;
+  deltaE: number;
+  swatchIndex: number;
+  /** The pad's crop; for an analyte on several pads, their crops side by side. */
+  crop?: Buffer;
+  /** Pad centre in the original photo's pixels (the first pad's for an analyte on several pads). */
+  centre: [number, number];
+  /** Every pad this analyte was read from, in chart order (one entry for a single pad). */
+  parts: PadPart[];
+};
+/** Readings less confident than this go to review. */
+export const REVIEW_BELOW = 0.6;
+
+/** One analyte's value, confidence and reasons from its pads' measurements. */
+export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): PadReading {
+  const first = chartPads[0];
+  const match = matchJoint(chartPads, ms.map((m) => m.lab));
+  const reasons: string[] = [];
+  const rel = match.deltaE / match.halfStep;
+  let conf = Math.exp(-0.5 * rel * rel);
+  if (rel > 1) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
+  const relS = Math.max(...ms.map((m) => m.spread)) / match.halfStep;
+  conf *= Math.exp(-0.5 * relS * relS);
+  if (relS > 0.8) reasons.push("its colour is uneven (glare, shadow or a drip on the pad)");
+  if (match.rivalDeltaE < match.deltaE + 1) {
+    conf *= 0.5;
+    reasons.push("its colour also resembles another part of the chart");
+  }
+  if (ms.some((m) => m.sample.clippedFraction > 0.3)) {
+    conf *= 0.7;
+    reasons.push("the photo is overexposed there");
+  }
+  if (ms.some((m) => m.sample.glareFraction > 0.25)) {
+    conf *= 0.8;
+    reasons.push("there is glare on the pad");
+  }
+  // A placement in doubt: whatever the colours say, a person checks the reading.
+  if (doubts.length) {
+    conf = Math.min(conf, REVIEW_BELOW - 0.01);
+    reasons.push(...doubts);
+  }
+  conf = Math.max(0, Math.min(1, conf));
+  const needsReview = conf < REVIEW_BELOW;
+  const parts: PadPart[] = ms.map((m, j) => ({
+    chartIndex: indices[j],
+    lab: m.lab,
+    hex: labToHex(m.lab),
+    deltaE: match.padDeltaE[j],
+    centre: [m.centre[0] * k, m.centre[1] * k],
+  }));
+  const reading: PadReading = {
+    analyte,
+    label: first.label,
+    unit: first.unit,
+    value: match.value,
+    confidence: conf,
+    needsReview,
+    lab: ms[0].lab,
+    hex: parts[0].hex,
+    deltaE: match.deltaE,
+    swatchIndex: match.swatchIndex,
+    centre: parts[0].centre,
+    parts,
+  };
+  if (needsReview) reading.reason = `Please check ${first.label}: ${reasons.length ? reasons.join("; ") : "the reading is uncertain"}.`;
+  return reading;
+}
