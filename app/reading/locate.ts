@@ -64,10 +64,9 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
     return g;
   };
   const search = makeSearchCopy(img);
-  let best: StripGeometry | null = null;
+  let best = null as StripGeometry | null;
   const tried: StripCandidate[] = [];
-  // First the wide background scale; the narrow one only if no convincing strip was found.
-  for (const div of [16, 40]) {
+  const tryBright = (div: number) => {
     let n = 0;
     for (const c of brightCandidates(search, chart, div)) {
       if (n >= CANDIDATES_PER_SCALE) break;
@@ -76,20 +75,28 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
       n++;
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
-      if (settled(best)) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
+      if (settled(best)) return true;
     }
-  }
+    return false;
+  };
   // Strips the bright components missed (merged with a pale surface or a line beside them):
   // pairs of long parallel edges. Also when the best placement's colours lie far from every
   // swatch: a pad-like pattern along some other bright edge (a sheet of paper's border).
-  if (!best || !best.lengthOk || !best.convincing || best.colourCost > FAR_COLOUR_COST) {
+  let edgesTried = false;
+  const needEdges = () => !edgesTried && (!best || !best.lengthOk || !best.convincing || best.colourCost > FAR_COLOUR_COST);
+  const tryEdges = () => {
+    edgesTried = true;
     for (const c of edgePairCandidates(search, chart)) {
       traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
-      if (settled(best)) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
+      if (settled(best)) return true;
     }
-  }
+    return false;
+  };
+  // The wide background scale first, then the edge pairs, then the narrow scale (and the edge
+  // pairs after it if they were not needed before): each only while nothing has settled the search.
+  if (tryBright(16) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges())) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
   if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
