@@ -391,8 +391,8 @@ export async function readingStatus(t: Tub, readingId: string) {
   return { id: r.id, status: r.status, stage, ahead };
 }
 
-/** The latest reading of a tub, for the tub page. */
-export async function latestReading(t: Tub) {
+/** The latest reading of a tub as the tub page shows it: each pad against its target range. */
+export async function latestReadingCard(t: Tub) {
   const r = await db.query.reading.findFirst({ where: eq(reading.tubId, t.id), orderBy: desc(reading.takenAt) });
   if (!r) return null;
   const pads = await padsOf(r.id);

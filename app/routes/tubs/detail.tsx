@@ -1,6 +1,6 @@
 import { UnconfirmedMark, ValueTile } from "~/components/status";
 import { ButtonLink, Card, EmptyState, Notice, PageTitle, BackLink } from "~/components/ui";
-import { latestReading } from "~/features/readings/readings.server";
+import { latestReadingCard } from "~/features/readings/readings.server";
 import { batchExpired, currentChartFor, displayVolume, tubTargets } from "~/features/tubs/tubs.server";
 import { db } from "~/lib/db.server";
 import { tubGuard } from "~/lib/tub-access.server";
@@ -25,7 +25,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
       stripsExpiredOn: current && batchExpired(current.batch.expiresOn) ? current.batch.expiresOn : null,
     },
     targets: tubTargets(tub),
-    latest: await latestReading(tub),
+    latest: await latestReadingCard(tub),
     latestWhen: null as string | null,
   };
   const latest = out.latest;
