@@ -30,6 +30,22 @@ export interface Readings {
   borate?: number | null;
 }
 
+/** Every reading the engine takes, in the order screens list them (checked against `Readings` below). */
+export const READING_NAMES = [
+  "free_chlorine",
+  "total_chlorine",
+  "bromine",
+  "ph",
+  "total_alkalinity",
+  "total_hardness",
+  "calcium_hardness",
+  "cyanuric_acid",
+  "borate",
+] as const satisfies readonly (keyof Readings)[];
+// A reading added to `Readings` but not to the list above fails the type check here.
+const everyReadingNamed: Record<Exclude<keyof Readings, (typeof READING_NAMES)[number]>, never> = {};
+void everyReadingNamed;
+
 export type ProductForm = "granules" | "powder" | "liquid" | "tablets";
 
 export interface Product {

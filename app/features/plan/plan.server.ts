@@ -23,7 +23,7 @@ import {
   type WaterPlan,
 } from "~/chemistry";
 import { activeLock, waitHoursForLogged } from "~/chemistry/lock";
-import { GUIDANCE_IDS, type Guidance, type Units } from "~/chemistry";
+import { GUIDANCE_IDS, READING_NAMES, type Guidance, type Units } from "~/chemistry";
 import { reading, treatment, tub as tubTable } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Tub } from "~/lib/tub-access.server";
@@ -208,8 +208,6 @@ export interface TubPlan {
   now: string;
 }
 
-const ENGINE_READINGS = ["free_chlorine", "total_chlorine", "bromine", "ph", "total_alkalinity", "total_hardness", "calcium_hardness", "cyanuric_acid", "borate"] as const;
-
 /** Runs the engine for this tub; bad readings become an error in plain words, never a NaN dose. */
 export function runEngine(
   t: Pick<Tub, "volumeLitres" | "temperatureC" | "sanitiser" | "bathersPerDay" | "timeZone" | "targets" | "guidance">,
@@ -228,7 +226,7 @@ export function runEngine(
       sanitiser: t.sanitiser,
       bathersPerDay: t.bathersPerDay > 0 ? t.bathersPerDay : undefined,
       // only the analytes the engine knows: a chart may carry other pads
-      readings: Object.fromEntries(Object.entries(readings).filter(([k]) => (ENGINE_READINGS as readonly string[]).includes(k))),
+      readings: Object.fromEntries(Object.entries(readings).filter(([k]) => (READING_NAMES as readonly string[]).includes(k))),
     });
     const plan = planTreatment(input, { products, treatmentLog: log, targets: tubOverrides(t), now, timeZone: safeZone(t.timeZone), guidance: tubGuidance(t), units, locale });
     if (hasNonFinite(plan)) return { plan: null, error: "The plan could not be computed for these readings; please check them." };

@@ -1,16 +1,8 @@
 // Constants of the plan pages used on both server and browser.
-import type { Parameter, ProductForm } from "~/chemistry";
+import { READING_NAMES, type Parameter, type ProductForm } from "~/chemistry/types";
 
-export const READING_KEYS = [
-  "free_chlorine",
-  "total_chlorine",
-  "bromine",
-  "ph",
-  "total_alkalinity",
-  "total_hardness",
-  "calcium_hardness",
-  "cyanuric_acid",
-] as const;
+/** The readings the what-if form takes: every reading the engine knows but borate, which no strip or kit here reads. */
+export const READING_KEYS = READING_NAMES.filter((k): k is Exclude<(typeof READING_NAMES)[number], "borate"> => k !== "borate");
 export type ReadingKey = (typeof READING_KEYS)[number];
 
 export const TARGET_PARAMETERS = (sanitiser: "chlorine" | "bromine"): Parameter[] => [
