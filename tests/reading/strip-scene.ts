@@ -34,16 +34,22 @@ export function threePadStrip(at: Pick<SceneStrip, "cx" | "cy" | "angleDeg" | "p
 /** A horizontal line across the surface (grout, a seam), drawn under the strip. */
 export type SceneLine = { y: number; thickness: number; color: [number, number, number] };
 
-/** A scene of `width` × `height` px: the surface colour, optional horizontal lines, the strip. */
-export function drawScene(width: number, height: number, surface: [number, number, number], strip: SceneStrip, lines: SceneLine[] = []): RgbImage {
+/**
+ * A scene of `width` × `height` px: the surface colour, optional horizontal lines, the strip.
+ * `view`: a homography (row-major 3×3) from the flat scene's pixels to the photo's, for a camera
+ * held at a tilt; each photo pixel shows the flat scene's point it comes from.
+ */
+export function drawScene(width: number, height: number, surface: [number, number, number], strip: SceneStrip, lines: SceneLine[] = [], view?: number[]): RgbImage {
   const data = new Uint8Array(width * height * 3);
   const a = (strip.angleDeg * Math.PI) / 180, ux = Math.cos(a), uy = Math.sin(a);
   const halfL = (strip.lengthMm * strip.pxPerMm) / 2, halfW = (strip.widthMm * strip.pxPerMm) / 2;
+  const back = view ? inverse3(view) : null;
   for (let y = 0; y < height; y++)
     for (let x = 0; x < width; x++) {
       let c = surface;
-      for (const l of lines) if (Math.abs(y + 0.5 - l.y) <= l.thickness / 2) c = l.color;
-      const dx = x + 0.5 - strip.cx, dy = y + 0.5 - strip.cy;
+      const [fx, fy] = back ? viewPoint(back, x + 0.5, y + 0.5) : [x + 0.5, y + 0.5];
+      for (const l of lines) if (Math.abs(fy - l.y) <= l.thickness / 2) c = l.color;
+      const dx = fx - strip.cx, dy = fy - strip.cy;
       const t = dx * ux + dy * uy, s = -dx * uy + dy * ux; // t from the centre towards the handle
       if (Math.abs(t) <= halfL && Math.abs(s) <= halfW) {
         c = strip.color;
@@ -53,6 +59,29 @@ export function drawScene(width: number, height: number, surface: [number, numbe
       data.set(c, (y * width + x) * 3);
     }
   return { width, height, data };
+}
+
+/** A point through a homography (row-major 3×3). */
+export function viewPoint(H: number[], x: number, y: number): [number, number] {
+  const w = H[6] * x + H[7] * y + H[8];
+  return [(H[0] * x + H[1] * y + H[2]) / w, (H[3] * x + H[4] * y + H[5]) / w];
+}
+
+function inverse3(m: number[]): number[] {
+  const [a, b, c, d, e, f, g, h, i] = m;
+  const A = e * i - f * h, B = f * g - d * i, C = d * h - e * g;
+  const k = 1 / (a * A + b * B + c * C);
+  return [A * k, (c * h - b * i) * k, (b * f - c * e) * k, B * k, (a * i - c * g) * k, (c * d - a * f) * k, C * k, (b * g - a * h) * k, (a * e - b * d) * k];
+}
+
+/**
+ * A camera tilted along x: the flat scene's right side seen (1 − `amount`) × as tall as its left
+ * (further away), its left and right sides and its horizontal middle line kept in place:
+ * x' = α·x/(1 + q·x), y' = (q·h/2·x + y)/(1 + q·x), a homography.
+ */
+export function keystoneView(width: number, height: number, amount: number): number[] {
+  const q = amount / (width * (1 - amount)), alpha = 1 / (1 - amount);
+  return [alpha, 0, 0, (q * height) / 2, 1, 0, q, 0, 1];
 }
 
 /** Where the scene puts a point `mm` from the tip on the strip's axis. */
