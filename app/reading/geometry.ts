@@ -16,6 +16,8 @@ export type PadPlacement = {
   centre: [number, number];
   halfAlong: number;
   halfAcross: number;
+  /** The pad's inner 60 % as seen through the strip's plane, when perspective was fitted (corners, px). */
+  inner?: [number, number][];
 };
 
 export type StripGeometry = {
@@ -34,6 +36,8 @@ export type StripGeometry = {
   /** Bare-plastic intervals (t) usable as white reference, sorted by t. */
   bare: Interval[];
   fitScore: number;
+  /** The strip's plane when perspective was fitted: chart mm (x from the tip, y across) to working px, row-major 3×3. */
+  plane?: number[];
   /** Mean ΔE00 from the placed pads' colours to their swatch paths (white-corrected from the gaps). */
   colourCost: number;
   /** Length of the blob the axis was fitted over (working-image px). */

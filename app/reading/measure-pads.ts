@@ -99,7 +99,7 @@ export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, 
   const stripLinear = hexToRgb(chart.strip.color).map(srgbToLinear);
   const pads = chart.pads.map((cp, i): PadMeasurement => {
     const pl = g.pads[i];
-    const sample = sampleQuad(img, quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6));
+    const sample = sampleQuad(img, pl.inner ?? quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6));
     if (!sample) throw new ReadingError("no_strip", "Part of the strip lies outside the photo. Take the photo again with the whole strip in view.");
     const white = whiteAt(bare, pl.t, maxBareY);
     const m: Mat3 = whiteCorrectionMatrix(white, stripLinear);

@@ -6,9 +6,11 @@ import { traceLine, type Axis, type Interval, type PadPlacement, type StripGeome
 import type { RgbImage } from "./image";
 import { colourTrust, placementColourCost, pxPerMm, searchLayout, tAt, type Layout, type LayoutFit } from "./layout-fit";
 import { plasticDifference, type PlasticDifference } from "./plastic-difference";
+import { applyMap } from "./projective-1d";
 import { median } from "./stats";
 import { refineAxis } from "./strip-axis";
 import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
+import { fitStripPlane, planePoint } from "./strip-plane";
 
 /** One candidate axis, refined, with its profile: what both ways of finding the ends share. */
 export type PreparedAxis = {
@@ -98,17 +100,28 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   if (free) doubts.push("neither end of the strip could be seen clearly, so the pads were placed from their colours alone");
   const s = pxPerMm(best);
   const widthMm = chart.strip.widthMm;
+  // The strip's plane in perspective, when its pads' boundaries follow one clearly better.
+  const plane = fitStripPlane(chart, layout, profile, axis, best, trace);
+  const tOf = (mm: number) => (plane ? applyMap(plane.map, mm) : tAt(best, mm));
   const pads: PadPlacement[] = chart.pads.map((p) => {
-    const t = tAt(best, p.centerMm);
-    return {
-      t,
-      centre: [axis.cx + t * axis.ux, axis.cy + t * axis.uy],
-      halfAlong: (p.sizeMm / 2) * s,
-      halfAcross: (Math.min(p.sizeMm, widthMm) / 2) * (widthPx / widthMm),
-    };
+    const t = tOf(p.centerMm);
+    const along = p.sizeMm / 2, across = Math.min(p.sizeMm, widthMm) / 2;
+    if (plane) {
+      const at = (x: number, y: number) => planePoint(plane.H, p.centerMm + x, y);
+      const [a, b, c] = [at(-along, 0), at(along, 0), at(0, across)];
+      const centre = at(0, 0);
+      return {
+        t,
+        centre,
+        halfAlong: Math.hypot(b[0] - a[0], b[1] - a[1]) / 2,
+        halfAcross: Math.hypot(c[0] - centre[0], c[1] - centre[1]),
+        inner: [at(-0.6 * along, -0.6 * across), at(0.6 * along, -0.6 * across), at(0.6 * along, 0.6 * across), at(-0.6 * along, 0.6 * across)],
+      };
+    }
+    return { t, centre: [axis.cx + t * axis.ux, axis.cy + t * axis.uy], halfAlong: along * s, halfAcross: across * (widthPx / widthMm) };
   });
   const bare: Interval[] = layout.gaps.map(([a, b]) => {
-    const t0 = tAt(best, a), t1 = tAt(best, b);
+    const t0 = tOf(a), t1 = tOf(b);
     return t0 < t1 ? [t0, t1] : [t1, t0];
   });
   bare.sort((x, y) => x[0] - y[0]);
@@ -117,13 +130,14 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     u: [axis.ux, axis.uy],
     v: [-axis.uy, axis.ux],
     dir: best.dir,
-    tipT: tAt(best, 0),
+    tipT: tOf(0),
     handleT: tAt(best, chart.strip.lengthMm),
     widthPx,
     pxPerMm: s,
     pads,
     bare,
     fitScore: best.score,
+    ...(plane ? { plane: plane.H } : {}),
     rank: best.score * (lengthOk ? 1 : 0.6) * colourTrust(chosenCost),
     colourCost: chosenCost,
     axisSpan: axis.length,
