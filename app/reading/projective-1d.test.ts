@@ -6,7 +6,7 @@
 // and normalisation of the DLT; sections from memory). The expected positions below come from a
 // plane homography of a tilted camera, read off along its centre line.
 import { describe, expect, it } from "vitest";
-import { applyMap, consensusMap, fitMap, invertMap, mapSlope, matchLandmarks, type Candidates, type Map1D } from "./projective-1d";
+import { applyMap, consensusMap, fitMap, invertMap, mapSlope, matchLandmarks, through3, type Candidates, type Map1D } from "./projective-1d";
 
 /** Image x of the point (m, 0) under a homography H (row-major 3×3) of a tilted camera. */
 const H = [3.2, 0.4, 180, -0.3, 3.1, 240, 0.0021, -0.0004, 1];
@@ -16,6 +16,8 @@ describe("fitMap", () => {
   it("recovers a homography's map along a line from three points, and from many by least squares", () => {
     const exact = fitMap([0, 40, 95], [lineX(0), lineX(40), lineX(95)])!;
     for (const m of [5, 20, 60, 90]) expect(applyMap(exact, m)).toBeCloseTo(lineX(m), 6);
+    const direct = through3([0, 40, 95], [lineX(0), lineX(40), lineX(95)])!;
+    for (const m of [5, 20, 60, 90]) expect(applyMap(direct, m)).toBeCloseTo(lineX(m), 6);
     const ms = [0, 4, 9, 14, 21, 33, 47, 60, 88];
     const many = fitMap(ms, ms.map(lineX))!;
     for (const m of [2, 50, 94]) expect(applyMap(many, m)).toBeCloseTo(lineX(m), 6);

@@ -42,7 +42,8 @@ export function fitMap(ms: number[], ts: number[], affine = false): Map1D | null
   const [m0, sm] = norm(ms), [t0, st] = norm(ts);
   const x = ms.map((m) => (m - m0) / sm), y = ts.map((t) => (t - t0) / st);
   let a = 0, b = 0, c = 0;
-  for (let pass = 0; pass < (affine ? 1 : 3); pass++) {
+  // Through exactly three points the fit is exact whatever the weights: one pass.
+  for (let pass = 0; pass < (affine || n === 3 ? 1 : 3); pass++) {
     // Normal equations of rows [x, 1, −x·y] · [a, b, c] = y.
     const A = new Array(9).fill(0), r = [0, 0, 0];
     for (let i = 0; i < n; i++) {
@@ -66,6 +67,19 @@ export function fitMap(ms: number[], ts: number[], affine = false): Map1D | null
 
 /** The same map with d = 1 (when d is not zero). */
 const scaled = (p: Map1D): Map1D => ({ a: p.a / p.d, b: p.b / p.d, c: p.c / p.d, d: 1 });
+
+/** The map through exactly three points (Cramer's rule on a·m + b − c·m·t = t, no allocation). */
+export function through3(ms: number[], ts: number[]): Map1D | null {
+  const [m0, m1, m2] = ms, [t0, t1, t2] = ts;
+  const q0 = -m0 * t0, q1 = -m1 * t1, q2 = -m2 * t2;
+  // Rows [m, 1, −m·t] · [a, b, c] = t.
+  const D = m0 * (q2 - q1) - (m1 * q2 - m2 * q1) + q0 * (m1 - m2);
+  if (!(Math.abs(D) > 1e-9)) return null;
+  const a = (t0 * (q2 - q1) - (t1 * q2 - t2 * q1) + q0 * (t1 - t2)) / D;
+  const b = (m0 * (t1 * q2 - t2 * q1) - t0 * (m1 * q2 - m2 * q1) + q0 * (m1 * t2 - m2 * t1)) / D;
+  const c = (m0 * (t2 - t1) - (m1 * t2 - m2 * t1) + t0 * (m1 - m2)) / D;
+  return Number.isFinite(a + b + c) ? { a, b, c, d: 1 } : null;
+}
 
 /** One landmark of the model (mm) and the positions in the photo that might be it (px). */
 export type Candidates = { mm: number; ts: number[] };
@@ -105,49 +119,61 @@ function msacCost(p: Map1D, cands: Candidates[], tol: number): number {
 /**
  * The map agreeing with the most landmarks: every minimal set (three landmarks for a projective
  * map, two for a uniform scale), each with every choice of their candidates, up to `maxTrials`
- * sets spread evenly over all of them; the best by MSAC cost refitted on its inliers twice.
+ * drawn at random when there are more; the best by MSAC cost refitted on its inliers twice.
  * `range` (mm): maps that fold or blow up within it are rejected.
  */
 export function consensusMap(cands: Candidates[], tol: number, opts: { affine?: boolean; range: [number, number]; maxTrials?: number }): ConsensusFit | null {
   const k = opts.affine ? 2 : 3;
   const usable = cands.filter((c) => c.ts.length > 0);
   if (usable.length < k) return null;
-  const sets: number[][] = [];
-  const rec = (start: number, chosen: number[]) => {
-    if (chosen.length === k) return void sets.push(chosen);
-    for (let i = start; i < usable.length; i++) rec(i + 1, [...chosen, i]);
-  };
-  rec(0, []);
-  const maxTrials = opts.maxTrials ?? 400;
-  const stride = Math.max(1, sets.length / maxTrials);
+  const maxTrials = opts.maxTrials ?? 300;
   const ok = (p: Map1D | null): p is Map1D => {
     if (!p) return false;
     const [lo, hi] = opts.range;
     // The denominator keeps its sign over the range, and the map runs one way only.
     return (p.c * lo + p.d) * (p.c * hi + p.d) > 0 && mapSlope(p, lo) * mapSlope(p, hi) > 0;
   };
-  let best: Map1D | null = null, bestCost = Infinity;
-  for (let s = 0; s < sets.length; s += stride) {
-    const set = sets[Math.floor(s)];
-    // Every combination of the chosen landmarks' candidates.
-    const counts = set.map((i) => usable[i].ts.length);
-    const total = counts.reduce((x, y) => x * y, 1);
-    for (let combo = 0; combo < total; combo++) {
-      let rest = combo;
-      const ms: number[] = [], ts: number[] = [];
+  const top: { map: Map1D | null; cost: number } = { map: null, cost: Infinity };
+  const ms = new Array<number>(k), ts = new Array<number>(k);
+  const tryIt = () => {
+    const p = opts.affine ? fitMap(ms, ts, true) : through3(ms, ts);
+    if (!ok(p)) return;
+    const cost = msacCost(p, usable, tol);
+    if (cost < top.cost) (top.cost = cost), (top.map = p);
+  };
+  // Every minimal set with every choice of its candidates when they are few; else as many drawn
+  // at random (a fixed seed: the same photo always gives the same fit).
+  const sets: number[][] = [];
+  const rec = (start: number, chosen: number[]) => {
+    if (chosen.length === k) return void sets.push(chosen);
+    for (let i = start; i < usable.length; i++) rec(i + 1, [...chosen, i]);
+  };
+  rec(0, []);
+  const total = sets.reduce((acc, set) => acc + set.reduce((x, i) => x * usable[i].ts.length, 1), 0);
+  if (total <= maxTrials) {
+    for (const set of sets) {
+      const counts = set.map((i) => usable[i].ts.length);
+      const n = counts.reduce((x, y) => x * y, 1);
+      for (let combo = 0; combo < n; combo++) {
+        let rest = combo;
+        for (let j = 0; j < k; j++) (ms[j] = usable[set[j]].mm), (ts[j] = usable[set[j]].ts[rest % counts[j]]), (rest = Math.floor(rest / counts[j]));
+        tryIt();
+      }
+    }
+  } else {
+    let state = 0x9e3779b9;
+    const rand = (n: number) => ((state = (Math.imul(state, 1664525) + 1013904223) >>> 0), Math.floor((state / 4294967296) * n));
+    for (let trial = 0; trial < maxTrials; trial++) {
+      const set = sets[rand(sets.length)];
       for (let j = 0; j < k; j++) {
         const c = usable[set[j]];
-        ms.push(c.mm), ts.push(c.ts[rest % counts[j]]);
-        rest = Math.floor(rest / counts[j]);
+        (ms[j] = c.mm), (ts[j] = c.ts[rand(c.ts.length)]);
       }
-      const p = fitMap(ms, ts, opts.affine);
-      if (!ok(p)) continue;
-      const cost = msacCost(p, usable, tol);
-      if (cost < bestCost) (bestCost = cost), (best = p);
+      tryIt();
     }
   }
-  if (!best) return null;
-  let map: Map1D = best;
+  if (!top.map) return null;
+  let map: Map1D = top.map;
   for (let it = 0; it < 2; it++) {
     const inl = matchLandmarks(map, usable, tol);
     const refit = fitMap(inl.map((x) => x.mm), inl.map((x) => x.t), opts.affine);

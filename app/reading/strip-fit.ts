@@ -100,8 +100,11 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   if (free) doubts.push("neither end of the strip could be seen clearly, so the pads were placed from their colours alone");
   const s = pxPerMm(best);
   const widthMm = chart.strip.widthMm;
-  // The strip's plane in perspective, when its pads' boundaries follow one clearly better.
-  const plane = fitStripPlane(chart, layout, profile, axis, best, trace);
+  // Searched for anywhere along the axis, the best of many placements must stand out further.
+  const convincing = free ? best.score >= Math.max(10, 2 * best.gapScore) : best.score >= Math.max(4, best.gapScore);
+  // The strip's plane in perspective (for a placement that may be chosen), when its pads' edges
+  // follow one clearly better.
+  const plane = convincing ? fitStripPlane(chart, layout, profile, axis, best, trace) : null;
   const tOf = (mm: number) => (plane ? applyMap(plane.map, mm) : tAt(best, mm));
   const pads: PadPlacement[] = chart.pads.map((p) => {
     const t = tOf(p.centerMm);
@@ -142,8 +145,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     colourCost: chosenCost,
     axisSpan: axis.length,
     lengthOk,
-    // Searched for anywhere along the axis, the best of many placements must stand out further.
-    convincing: free ? best.score >= Math.max(10, 2 * best.gapScore) : best.score >= Math.max(4, best.gapScore),
+    convincing,
     warnings,
     doubts,
   };

@@ -102,15 +102,19 @@ export function fitStripPlane(chart: StripChart, layout: Layout, profile: Profil
   const tA = tAt(fit, -2), tB = tAt(fit, padEnd + 2);
   const steps = colourSteps(profile, Math.max(1, Math.round(0.25 * s)), Math.floor(Math.min(tA, tB) - profile.t0), Math.ceil(Math.max(tA, tB) - profile.t0));
   const win = Math.max(3, 1.5 * s), tol = Math.max(1.5, 0.2 * s);
-  const near = (at: (mm: number) => number): Candidates[] => marks.map((mm) => ({ mm, ts: steps.filter((st) => Math.abs(st.t - at(mm)) <= win).map((st) => st.t) }));
+  // Each landmark's candidates: the four strongest steps within the window.
+  const near = (at: (mm: number) => number): Candidates[] =>
+    marks.map((mm) => ({ mm, ts: steps.filter((st) => Math.abs(st.t - at(mm)) <= win).sort((x, y) => y.strength - x.strength).slice(0, 4).map((st) => st.t) }));
   const range: [number, number] = [0, chart.strip.lengthMm];
   let found = consensusMap(near((mm) => tAt(fit, mm)), tol, { range });
   if (!found) return null;
   // Around the first model's own positions once more: the far boundaries may lie beyond the
   // window around the uniform fit's.
   const first = found.map;
-  const again = consensusMap(near((mm) => applyMap(first, mm)), tol, { range });
-  if (again && again.inliers.length > found.inliers.length) found = again;
+  if (found.inliers.length < marks.length) {
+    const again = consensusMap(near((mm) => applyMap(first, mm)), tol, { range });
+    if (again && again.inliers.length > found.inliers.length) found = again;
+  }
   const { inliers } = found;
   const rmsOf = (p: Map1D | null) => (p ? Math.sqrt(inliers.reduce((acc, x) => acc + (applyMap(p, x.mm) - x.t) ** 2, 0) / inliers.length) : Infinity);
   const rmsUniform = Math.sqrt(inliers.reduce((acc, x) => acc + (tAt(fit, x.mm) - x.t) ** 2, 0) / inliers.length);
