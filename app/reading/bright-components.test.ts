@@ -1,6 +1,6 @@
 // Connected components and candidate scoring on small synthetic masks.
 import { describe, expect, it } from "vitest";
-import { brightCandidates, components, scoreCandidate } from "./bright-components";
+import { brightCandidates, components, kthLargestAbove, scoreCandidate } from "./bright-components";
 import { parseChart } from "./chart";
 
 const chart = parseChart({
@@ -57,5 +57,18 @@ describe("brightCandidates", () => {
     expect(best.cx).toBeCloseTo(94.5, 0);
     expect(best.cy).toBeCloseTo(58.5, 0);
     expect(best.length).toBeGreaterThan(120);
+  });
+});
+
+describe("kthLargestAbove", () => {
+  it("agrees with a full sort (the definition of the k-th largest) on random values", () => {
+    let seed = 7;
+    const rnd = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31) * 3;
+    const values = Float32Array.from({ length: 5000 }, rnd);
+    const above = [...values].filter((v) => v > 1).sort((a, b) => b - a);
+    for (const k of [1, 5, 150, above.length]) expect(kthLargestAbove(values, 1, k)).toBe(above[k - 1]);
+  });
+  it("is NaN when fewer than k values lie above the floor", () => {
+    expect(kthLargestAbove(Float32Array.from([0.5, 2, 3]), 1, 3)).toBeNaN();
   });
 });

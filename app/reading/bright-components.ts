@@ -104,34 +104,62 @@ export function scoreCandidate(c: StripCandidate, chart: StripChart): number {
 }
 
 /**
+ * The k-th largest of the values above `floor` (k ≥ 1), or NaN when fewer lie above it: a small
+ * min-heap of the k largest seen, one comparison for most values.
+ */
+export function kthLargestAbove(values: Float32Array, floor: number, k: number): number {
+  const heap = new Float64Array(k);
+  let n = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!(v > floor)) continue;
+    if (n < k) {
+      // Sift up.
+      let j = n++;
+      while (j > 0) {
+        const p = (j - 1) >> 1;
+        if (heap[p] <= v) break;
+        heap[j] = heap[p];
+        j = p;
+      }
+      heap[j] = v;
+    } else if (v > heap[0]) {
+      // Replace the smallest and sift down.
+      let j = 0;
+      for (;;) {
+        const l = 2 * j + 1;
+        if (l >= k) break;
+        const c = l + 1 < k && heap[l + 1] < heap[l] ? l + 1 : l;
+        if (heap[c] >= v) break;
+        heap[j] = heap[c];
+        j = c;
+      }
+      heap[j] = v;
+    }
+  }
+  return n === k ? heap[0] : NaN;
+}
+
+/**
  * Candidates at one background scale (the box mean's radius is the long side / `div`), best
- * first. Thresholds: a fixed ladder of log ratios and two shares of the 99.9th percentile.
+ * first. Levels of the log ratio of whiteness to background: a fixed ladder and two shares of
+ * its 99.9th percentile (in steps of 1/200, the top step at most 511/200). The ratio itself is
+ * compared with e^level: the same test without a logarithm per pixel.
  */
 export function brightCandidates(s: SearchCopy, chart: StripChart, div: number): StripCandidate[] {
   const { w, h, whiteness } = s;
   const cands: StripCandidate[] = [];
   const minArea = Math.max(12, Math.round((w * h) / 20000));
-  const logRatio = new Float32Array(w * h);
   const r = Math.max(5, Math.round(Math.max(w, h) / div));
-  const bg = boxMean(whiteness, w, h, r);
-  const hist = new Uint32Array(512);
-  for (let i = 0; i < logRatio.length; i++) {
-    const v = Math.log(whiteness[i] / bg[i]);
-    logRatio[i] = v;
-    if (v > 0) hist[Math.min(511, (v * 200) | 0)]++;
-  }
-  let top = 0;
-  for (let b = 511, acc = 0; b >= 0; b--) {
-    acc += hist[b];
-    if (acc >= logRatio.length * 0.001) {
-      top = (b + 0.5) / 200;
-      break;
-    }
-  }
+  const ratio = boxMean(whiteness, w, h, r);
+  for (let i = 0; i < ratio.length; i++) ratio[i] = whiteness[i] / ratio[i];
+  // The 99.9th percentile of the positive log ratios, as the middle of its 1/200 step.
+  const kth = kthLargestAbove(ratio, 1, Math.max(1, Math.ceil(ratio.length * 0.001)));
+  const top = Number.isNaN(kth) ? 0 : (Math.min(511, Math.floor(Math.log(kth) * 200)) + 0.5) / 200;
   const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
   const thresholds = [...ladder, top * 0.35, top * 0.55].filter((t) => t > 0.02 && t < top);
   for (const t of thresholds) {
-    for (const c of components(logRatio, t, w, h, minArea)) {
+    for (const c of components(ratio, Math.exp(t), w, h, minArea)) {
       c.score = scoreCandidate(c, chart);
       if (c.score > 0) cands.push(c);
     }
