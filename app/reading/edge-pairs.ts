@@ -119,6 +119,13 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const order = new Uint32Array(nPairs);
   for (let i = 0; i < nPairs; i++) order[i] = i;
   order.sort((a, b) => pairScore[b] - pairScore[a] || a - b);
+  // Edge pixels grouped by their angle step (a counting sort), so that a pair's extent looks only
+  // at the pixels within reach of its angle.
+  const byAngle = new Int32Array(nT + 1);
+  for (let j = 0; j < et.length; j++) byAngle[et[j] + 1]++;
+  for (let k = 0; k < nT; k++) byAngle[k + 1] += byAngle[k];
+  const fill = byAngle.slice(0, nT), sorted = new Int32Array(et.length);
+  for (let j = 0; j < et.length; j++) sorted[fill[et[j]]++] = j;
   const out: StripCandidate[] = [];
   const chosen: Pair[] = [];
   const sAlong: number[] = [];
@@ -132,15 +139,17 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     const c = cosT[p.k], sn = sinT[p.k];
     sAlong.length = 0;
     let n1 = 0, n2 = 0;
-    for (let j = 0; j < ex.length; j++) {
-      const dk = Math.abs(et[j] - p.k);
-      if (Math.min(dk, nT - dk) > ANGLE_REACH + 1) continue;
-      const r = ex[j] * c + ey[j] * sn + diag;
-      const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
-      if (!on1 && !on2) continue;
-      if (on1) n1++;
-      else n2++;
-      sAlong.push(-ex[j] * sn + ey[j] * c);
+    for (let dk = -(ANGLE_REACH + 1); dk <= ANGLE_REACH + 1; dk++) {
+      const k = (p.k + dk + nT) % nT;
+      for (let m = byAngle[k]; m < byAngle[k + 1]; m++) {
+        const j = sorted[m];
+        const r = ex[j] * c + ey[j] * sn + diag;
+        const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
+        if (!on1 && !on2) continue;
+        if (on1) n1++;
+        else n2++;
+        sAlong.push(-ex[j] * sn + ey[j] * c);
+      }
     }
     if (n1 < 5 || n2 < 5) continue;
     sAlong.sort((a, b) => a - b);
