@@ -186,17 +186,21 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     }
     if (nKeep === 0) keep.fill(1), (nKeep = n);
   }
-  const ch = [new Float32Array(nKeep), new Float32Array(nKeep), new Float32Array(nKeep)];
-  let m = 0;
+  // Each channel's kept values in ascending order: a count per 8-bit code, then the codes in
+  // order through the (increasing) transfer function; the same as sorting the linear values.
+  const counts = new Uint32Array(3 * 256);
   for (let k = 0; k < n; k++) {
     if (!keep[k]) continue;
     const o = idx[k];
-    ch[0][m] = SRGB8_TO_LINEAR[data[o]];
-    ch[1][m] = SRGB8_TO_LINEAR[data[o + 1]];
-    ch[2][m] = SRGB8_TO_LINEAR[data[o + 2]];
-    m++;
+    counts[data[o]]++;
+    counts[256 + data[o + 1]]++;
+    counts[512 + data[o + 2]]++;
   }
-  for (const c of ch) c.sort();
+  const ch = [0, 1, 2].map((c) => {
+    const sorted = new Float32Array(nKeep);
+    for (let v = 0, m = 0; v < 256; v++) sorted.fill(SRGB8_TO_LINEAR[v], m, (m += counts[c * 256 + v]));
+    return sorted;
+  });
   const linear: Rgb = opts.whiteReference
     ? [quantile(ch[0], 0.5), quantile(ch[1], 0.5), quantile(ch[2], 0.5)]
     : [trimmedMean(ch[0], 0.25), trimmedMean(ch[1], 0.25), trimmedMean(ch[2], 0.25)];
