@@ -12,7 +12,7 @@ let labelBuffer = new Int32Array(0);
  * image moments, in one pass: moments are gathered per provisional label and merged by root.
  * Each component comes back as its moment rectangle (centre, angle, length, width, pixel count).
  */
-export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number): StripCandidate[] {
+export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number, rowMax?: Float32Array): StripCandidate[] {
   if (labelBuffer.length < w * h) labelBuffer = new Int32Array(w * h);
   const labels = labelBuffer;
   let cap = 1024;
@@ -26,6 +26,11 @@ export function components(values: Float32Array, threshold: number, w: number, h
   let next = 1;
   for (let y = 0; y < h; y++) {
     const row = y * w;
+    // A row with nothing above the threshold (its maximum given) holds no component.
+    if (rowMax && !(rowMax[y] > threshold)) {
+      labels.fill(0, row, row + w);
+      continue;
+    }
     for (let x = 0; x < w; x++) {
       const i = row + x;
       if (!(values[i] > threshold)) {
@@ -152,14 +157,22 @@ export function brightCandidates(s: SearchCopy, chart: StripChart, div: number):
   const minArea = Math.max(12, Math.round((w * h) / 20000));
   const r = Math.max(5, Math.round(Math.max(w, h) / div));
   const ratio = boxMean(whiteness, w, h, r);
-  for (let i = 0; i < ratio.length; i++) ratio[i] = whiteness[i] / ratio[i];
+  const rowMax = new Float32Array(h);
+  for (let y = 0; y < h; y++) {
+    let m = 0;
+    for (let i = y * w; i < (y + 1) * w; i++) {
+      const v = (ratio[i] = whiteness[i] / ratio[i]);
+      if (v > m) m = v;
+    }
+    rowMax[y] = m;
+  }
   // The 99.9th percentile of the positive log ratios, as the middle of its 1/200 step.
   const kth = kthLargestAbove(ratio, 1, Math.max(1, Math.ceil(ratio.length * 0.001)));
   const top = Number.isNaN(kth) ? 0 : (Math.min(511, Math.floor(Math.log(kth) * 200)) + 0.5) / 200;
   const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
   const thresholds = [...ladder, top * 0.35, top * 0.55].filter((t) => t > 0.02 && t < top);
   for (const t of thresholds) {
-    for (const c of components(ratio, Math.exp(t), w, h, minArea)) {
+    for (const c of components(ratio, Math.exp(t), w, h, minArea, rowMax)) {
       c.score = scoreCandidate(c, chart);
       if (c.score > 0) cands.push(c);
     }

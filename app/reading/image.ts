@@ -1,6 +1,7 @@
 // Photo decoding and robust region sampling.
 import sharp, { type Metadata, type OutputInfo } from "sharp";
 import { SRGB8_TO_LINEAR, linearRgbToLab, deltaE2000, type Rgb } from "./colour";
+import { quantileOf } from "./stats";
 
 export type ReadingErrorCode = "not_an_image" | "truncated" | "too_small" | "too_large" | "no_strip" | "too_few_pads" | "bad_chart";
 
@@ -138,6 +139,9 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     area += ax * by - bx * ay;
   }
   const sgn = area >= 0 ? 1 : -1;
+  // Each side as its start point and direction, for the inside test.
+  const sx0 = corners.map((c) => c[0]), sy0 = corners.map((c) => c[1]);
+  const sdx = corners.map((c, i) => corners[(i + 1) % 4][0] - c[0]), sdy = corners.map((c, i) => corners[(i + 1) % 4][1] - c[1]);
   const cap = (ix1 - ix0 + 1) * (iy1 - iy0 + 1);
   const idx = new Int32Array(cap);
   let n = 0;
@@ -146,10 +150,7 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     for (let x = ix0; x <= ix1; x++) {
       const px = x + 0.5;
       let inside = true;
-      for (let i = 0; i < 4 && inside; i++) {
-        const [ax, ay] = corners[i], [bx, by] = corners[(i + 1) % 4];
-        if (sgn * ((bx - ax) * (py - ay) - (by - ay) * (px - ax)) < 0) inside = false;
-      }
+      for (let i = 0; i < 4 && inside; i++) if (sgn * (sdx[i] * (py - sy0[i]) - sdy[i] * (px - sx0[i])) < 0) inside = false;
       if (inside) idx[n++] = (y * W + x) * 3;
     }
   }
@@ -167,8 +168,7 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     const mx = Math.max(r, g, b), mn = Math.min(r, g, b);
     C[k] = (mx - mn) / (mx + 1);
   }
-  const ys = Float32Array.from(Y).sort(), cs = Float32Array.from(C).sort();
-  const medY = quantile(ys, 0.5), medC = quantile(cs, 0.5);
+  const medY = quantileOf(Y, 0.5), medC = quantileOf(C, 0.5);
   const keep = new Uint8Array(n);
   let nGlare = 0, nKeep = 0;
   for (let k = 0; k < n; k++) {
