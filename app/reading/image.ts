@@ -55,9 +55,14 @@ export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (!Buffer.isBuffer(photo) && !((photo as unknown) instanceof Uint8Array))
     throw new ReadingError("not_an_image", "No photo was given.");
   if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
+  // The header and the decode both start at once (sharp runs them on its own threads); the
+  // header's checks still come first. A photo over the pixel cap is refused by both.
+  const metaP = sharp(photo, sharpInputOptions()).metadata();
+  const outP = workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
+  outP.catch(() => {}); // awaited below, unless the header already refused the photo
   let meta: Metadata;
   try {
-    meta = await sharp(photo, sharpInputOptions()).metadata();
+    meta = await metaP;
   } catch (e) {
     throw explain(e);
   }
@@ -72,7 +77,7 @@ export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   const swap = (meta.orientation ?? 1) >= 5;
   let out: { data: Buffer; info: OutputInfo };
   try {
-    out = await workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
+    out = await outP;
   } catch (e) {
     throw explain(e);
   }
