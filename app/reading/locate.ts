@@ -7,6 +7,7 @@ import { edgePairCandidates } from "./edge-pairs";
 import { traceLine, type Axis, type StripCandidate, type StripGeometry, type Trace } from "./geometry";
 import { ReadingError, type RgbImage } from "./image";
 import { chartLayout } from "./layout-fit";
+import { padRowCandidates } from "./pad-row";
 import { makeSearchCopy, type SearchCopy } from "./search-copy";
 import { fitAnyLength, refitWholeStrip } from "./strip-fit";
 
@@ -94,9 +95,21 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
     }
     return false;
   };
+  // A pale strip lost on a pale, lined surface: its pads, a row of coloured blobs.
+  const tryPadRows = () => {
+    for (const c of padRowCandidates(img, search.factor, chart)) {
+      traceLine(trace, "pad row", { cx: +c.cx.toFixed(1), cy: +c.cy.toFixed(1), a: +c.angle.toFixed(2), l: +c.length.toFixed(1), w: +c.width.toFixed(1), n: c.n });
+      const g = fit(axisOf(c, search));
+      if (g && better(g, best)) best = g;
+      if (settled(best)) return true;
+    }
+    return false;
+  };
   // The wide background scale first, then the edge pairs, then the narrow scale (and the edge
-  // pairs after it if they were not needed before): each only while nothing has settled the search.
-  if (tryBright(16) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges())) return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
+  // pairs after it if they were not needed before), then the pad rows: each only while nothing
+  // has settled the search.
+  if (tryBright(16) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges()) || tryPadRows())
+    return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
   if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
