@@ -109,6 +109,8 @@ export type SmtpRelay = {
   stall: () => void;
   /** pass bytes again (held bytes of cut connections are dropped) */
   resume: () => void;
+  /** connections that hold stalled bytes and are still open (a killed client's close arrives later than its exit) */
+  holding: () => number;
   /** connections open now */
   open: () => number;
   close: () => Promise<void>;
@@ -118,7 +120,7 @@ export type SmtpRelay = {
 export async function smtpRelay(): Promise<SmtpRelay> {
   let stalled = false;
   const sockets = new Set<net.Socket>();
-  const held: (() => void)[] = [];
+  const held: { client: net.Socket; write: () => void }[] = [];
   const server = net.createServer((client) => {
     const upstream = net.connect(REAL_SMTP_PORT, "127.0.0.1");
     sockets.add(client);
@@ -134,7 +136,7 @@ export async function smtpRelay(): Promise<SmtpRelay> {
     upstream.on("data", (d) => client.write(d));
     client.on("data", (d) => {
       if (!stalled) return void upstream.write(d);
-      held.push(() => !upstream.destroyed && upstream.write(d));
+      held.push({ client, write: () => !client.destroyed && !upstream.destroyed && upstream.write(d) });
     });
   });
   await new Promise<void>((r) => server.listen(PROXY_PORT, "127.0.0.1", r));
@@ -142,8 +144,9 @@ export async function smtpRelay(): Promise<SmtpRelay> {
     stall: () => void (stalled = true),
     resume: () => {
       stalled = false;
-      for (const write of held.splice(0)) write();
+      for (const h of held.splice(0)) h.write();
     },
+    holding: () => new Set(held.filter((h) => !h.client.destroyed).map((h) => h.client)).size,
     open: () => [...sockets].length / 2,
     close: async () => {
       for (const s of sockets) s.destroy();

@@ -62,6 +62,10 @@ describe("the worker killed mid-send", () => {
       before = now;
     }
     const dead = await kill(stack.worker);
+    // The relay learns of the dead worker's closed connections a moment after its exit; only then
+    // may the held bytes go on (else a message's end-of-data mark would reach the catcher for a
+    // conversation nobody is left to finish, which no real server would deliver).
+    await until("the dead worker's connections to close", async () => relay.holding() === 0 || undefined, 10_000);
     relay.resume();
     expect(before.sending, `stuck: ${JSON.stringify(stuck)}`).toBeGreaterThan(0);
     expect(before.sent ?? 0).toBeLessThan(count);
