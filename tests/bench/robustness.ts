@@ -4,6 +4,10 @@
  * the silent misreads (a pad more than one step off that was not flagged for review).
  *
  *   npx tsx tests/bench/robustness.ts [--n 60] [--seed0 7000] [--cache /tmp/dipwell-robustness]
+ *     [--charts a.json,b.json] [--harsh]
+ *
+ * --charts replaces the four charts swept; --harsh renders every photo in harsher conditions
+ * (strong perspective, blur, noise, glare, uneven light, under- and overexposure, low JPEG quality).
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -17,7 +21,8 @@ const N = Number(opt("--n", "60")), seed0 = Number(opt("--seed0", "7000"));
 const cache = opt("--cache", "/tmp/dipwell-robustness");
 fs.mkdirSync(cache, { recursive: true });
 
-const chartFiles = ["calibration/demo-3pad.json", "calibration/demo-6pad.json", "calibration/demo-bromine-4pad.json", "../shared/eval/charts/practice-3pad.json"];
+const harsh = args.includes("--harsh");
+const chartFiles = opt("--charts", "calibration/demo-3pad.json,calibration/demo-6pad.json,calibration/demo-bromine-4pad.json,../shared/eval/charts/practice-3pad.json").split(",");
 const charts = chartFiles.map((f) => JSON.parse(fs.readFileSync(f, "utf8")));
 const surfaces = ["paper", "counter", "wood", "cloth", "tiles"] as const;
 const casts = ["daylight", "warm", "cool", "fluorescent"] as const;
@@ -34,7 +39,7 @@ let pads = 0, in05 = 0, in1 = 0, silent = 0;
 const fails: string[] = [], worst: string[] = [];
 for (let i = 0; i < N; i++) {
   const seed = seed0 + i;
-  const ci = i % 4, chart = charts[ci];
+  const ci = i % charts.length, chart = charts[ci];
   const surface = surfaces[Math.floor(i / 4) % 5]!;
   const o = {
     seed,
@@ -43,9 +48,13 @@ for (let i = 0; i < N; i++) {
     cast: casts[(i + Math.floor(i / 20)) % 4],
     shadow: i % 5 === 2,
     glare: i % 7 === 3 ? 2 : undefined,
+    ...(harsh
+      ? { perspective: 0.07, blur: 1.4, noise: 1.8, quality: 68, glare: 1 + (i % 4), shadow: i % 2 === 0, exposure: [0.7, 1, 1.3][i % 3], light: { gradient: 0.5, vignette: 0.35 } }
+      : {}),
   };
-  const tag = `${seed} ${path.basename(chartFiles[ci]!, ".json")} ${surface}${o.surfaceColor ?? ""} ${o.cast}${o.shadow ? " shadow" : ""}${o.glare ? " glare" : ""}`;
-  const file = path.join(cache, `${seed}.jpg`), tfile = path.join(cache, `${seed}.json`);
+  const tag = `${seed}${harsh ? " harsh" : ""} ${path.basename(chartFiles[ci]!, ".json")} ${surface}${o.surfaceColor ?? ""} ${o.cast}${o.shadow ? " shadow" : ""}${o.glare ? " glare" : ""}`;
+  const key = `${seed}${harsh ? "-harsh" : ""}-${path.basename(chartFiles[ci]!, ".json")}`;
+  const file = path.join(cache, `${key}.jpg`), tfile = path.join(cache, `${key}.json`);
   let truth: { analyte: string; index: number }[], rot: number;
   if (fs.existsSync(file) && fs.existsSync(tfile)) ({ truth, rot } = JSON.parse(fs.readFileSync(tfile, "utf8")));
   else {
