@@ -6,7 +6,7 @@ import fs from "node:fs";
 import { describe, expect, it } from "vitest";
 import { parseChart, type ChartPad } from "./chart";
 import { lerpLab, type Lab } from "./colour";
-import { judgeAnalyte, REVIEW_BELOW } from "./judge";
+import { FAR_FROM_PATH, judgeAnalyte, REVIEW_BELOW } from "./judge";
 import { matchSwatches } from "./match";
 import type { PadMeasurement } from "./measure-pads";
 
@@ -51,6 +51,24 @@ describe("judgeAnalyte: when a reading goes to review", () => {
     const r = judge(pads, [measured(clean), measured({ l: 45, a: 10, b: -55 })]);
     expect(r.needsReview).toBe(true);
     expect(r.reason).toMatch(/its pads' colours are far from every set of colours printed on the chart/);
+  });
+  it("a colour far from the path between two very different printed colours is flagged, though within half their step", () => {
+    const wide = parseChart({
+      format: "strip-chart/1",
+      name: "two far-apart colours (made up for this check)",
+      strip: { widthMm: 5, lengthMm: 80, color: "#f4f4f0" },
+      pads: [{ analyte: "y", label: "Y", unit: "u", centerMm: 4, sizeMm: 5, swatches: [{ value: 2, color: "#e0b020" }, { value: 10, color: "#302850" }] }],
+    }).pads;
+    const mid = lerpLab(wide[0].swatches[0].lab, wide[0].swatches[1].lab, 0.5);
+    const off: Lab = { l: mid.l, a: mid.a + 30, b: mid.b };
+    const m = matchSwatches(wide[0], off);
+    expect(m.deltaE).toBeLessThan(m.halfStep);
+    expect(m.deltaE).toBeGreaterThan(FAR_FROM_PATH);
+    const r = judge(wide, [measured(off)]);
+    expect(r.needsReview).toBe(true);
+    expect(r.reason).toMatch(/its colour is far from every colour printed on the chart/);
+    // On the path, the same chart reads cleanly.
+    expect(judge(wide, [measured(mid)]).needsReview).toBe(false);
   });
   it("an uneven pad (spread near a half step) is flagged as uneven", () => {
     const r = judge([ph], [measured(clean, { spread: 1.2 * halfStep })]);

@@ -45,6 +45,9 @@ export type PadReading = {
 /** Readings less confident than this go to review. */
 export const REVIEW_BELOW = 0.6;
 
+/** ΔE00 (root mean square over an analyte's pads) from the chart's colour path beyond which a reading goes to review, however wide the chart's steps. */
+export const FAR_FROM_PATH = 12;
+
 /** One analyte's value, confidence and reasons from its pads' measurements. */
 export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): PadReading {
   const first = chartPads[0];
@@ -52,7 +55,12 @@ export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeas
   const reasons: string[] = [];
   const rel = match.deltaE / match.halfStep;
   let conf = Math.exp(-0.5 * rel * rel);
-  if (rel > 1) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
+  // Far also in absolute terms: on a chart with few, very different colours half a step is wide,
+  // and a colour halfway between two printed ones yet far from both their path is no reading.
+  const perPad = match.deltaE / Math.sqrt(chartPads.length);
+  const farAbsolute = perPad > FAR_FROM_PATH;
+  if (rel > 1 || farAbsolute) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
+  if (farAbsolute) conf = Math.min(conf, REVIEW_BELOW - 0.01);
   const relS = Math.max(...ms.map((m) => m.spread)) / match.halfStep;
   conf *= Math.exp(-0.5 * relS * relS);
   if (relS > 0.8) reasons.push("its colour is uneven (glare, shadow or a drip on the pad)");

@@ -7,7 +7,10 @@
  * for review).
  *
  *   npx tsx tests/bench/real-transforms.ts [--set DIR] [--out /tmp/dipwell-real-transforms]
- *     [--only r23,warm] [--analyte ph] [--list]
+ *     [--only r23,warm] [--analyte ph] [--list] [--calib-too]
+ *
+ * --calib-too: the calibration photos are turned and cast the same way as the photos read (a
+ * whole batch taken that way), and the chart is refit for each transformation.
  *
  * The folder it writes follows the photo naming of the shared real-photo scorer
  * (`7p00_05-r23.jpg`), so that scorer can be run on it too: `--set <out> --base <set>/chart-base.json`.
@@ -72,7 +75,8 @@ const test = photos.filter((f) => truthOf(f)!.index >= 5);
 fs.mkdirSync(out, { recursive: true });
 for (const f of calib) if (!fs.existsSync(path.join(out, f))) fs.symlinkSync(path.join(set, f), path.join(out, f));
 if (!fs.existsSync(path.join(out, "chart-base.json"))) fs.symlinkSync(path.join(set, "chart-base.json"), path.join(out, "chart-base.json"));
-for (const f of test)
+const calibToo = args.includes("--calib-too");
+for (const f of calibToo ? [...calib, ...test] : test)
   for (const n of names) {
     const dest = path.join(out, f.replace(/\.jpe?g$/i, `-${n}.jpg`));
     if (!fs.existsSync(dest)) fs.writeFileSync(dest, await transform(path.join(set, f), transforms[n]!));
@@ -81,13 +85,17 @@ if (args.includes("--list")) process.exit(0);
 
 const base = parseChart(JSON.parse(fs.readFileSync(path.join(set, "chart-base.json"), "utf8")));
 const samples = calib.map((f) => ({ photo: fs.readFileSync(path.join(set, f)), known: { [analyte]: truthOf(f)!.value }, name: f }));
-const refit = await refitFromSolutions(base, samples);
-const chart = parseChart(refit.definition);
+const refit = async (n: string) => {
+  const from = calibToo ? samples.map((x) => ({ ...x, photo: fs.readFileSync(path.join(out, x.name.replace(/\.jpe?g$/i, `-${n}.jpg`))) })) : samples;
+  return parseChart((await refitFromSolutions(base, from)).definition);
+};
+const shared = calibToo ? null : await refit("r0");
 
 type Tally = { n: number; within: number; failed: number; silent: number; flagged: number; se: number };
 const tally = new Map<string, Tally>();
 const lines: string[] = [];
-for (const n of names)
+for (const n of names) {
+  const chart = shared ?? (await refit(n));
   for (const f of test) {
     const file = f.replace(/\.jpe?g$/i, `-${n}.jpg`);
     const truth = truthOf(f)!.value;
@@ -109,6 +117,7 @@ for (const n of names)
       lines.push(`  ${file}: FAIL ${(e as Error).message.slice(0, 90)}`);
     }
   }
+}
 const all: Tally = { n: 0, within: 0, failed: 0, silent: 0, flagged: 0, se: 0 };
 for (const [n, t] of tally) {
   for (const k of Object.keys(all) as (keyof Tally)[]) all[k] += t[k];

@@ -35,7 +35,7 @@ function toIndex(sw: { value: number }[], v: number): number {
   return sw.length - 1;
 }
 
-let pads = 0, in05 = 0, in1 = 0, silent = 0;
+let pads = 0, in05 = 0, in1 = 0, silent = 0, flagged = 0;
 const fails: string[] = [], worst: string[] = [];
 for (let i = 0; i < N; i++) {
   const seed = seed0 + i;
@@ -74,6 +74,7 @@ for (let i = 0; i < N; i++) {
       if (e <= 1) in1++;
       // A silent misread: more than one step off, yet not flagged for review.
       if (e > 1 && !p.needsReview) silent++;
+      if (p.needsReview) flagged++;
       if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
     }
   } catch (e) {
@@ -81,6 +82,6 @@ for (let i = 0; i < N; i++) {
     fails.push(`${tag} rot ${rot}: ${(e as Error).message.slice(0, 60)}`);
   }
 }
-console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  silent misreads ${silent}`);
+console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  flagged pads ${flagged}  silent misreads ${silent}`);
 for (const f of fails) console.log("  FAIL", f);
 for (const w of worst) console.log("  off ", w);
