@@ -18,7 +18,8 @@ export type ColourStep = { t: number; strength: number };
 
 /**
  * Steps of the inner band's colour: local maxima of |colour(t + h) − colour(t − h)| standing
- * clearly above the profile's usual change (texture, noise), to a tenth of a pixel.
+ * clearly above the profile's usual change (texture, noise), to a tenth of a pixel; two within
+ * 2h + 1 px of each other count as one.
  */
 export function colourSteps(profile: Profile, h: number, from = 0, to = profile.n - 1): ColourStep[] {
   const { inner, valid } = profile;
@@ -40,13 +41,22 @@ export function colourSteps(profile: Profile, h: number, from = 0, to = profile.
     if (!peak) continue;
     const den = d[j - 1] - 2 * v + d[j + 1];
     const off = den < -1e-6 ? Math.max(-0.5, Math.min(0.5, (0.5 * (d[j - 1] - d[j + 1])) / den)) : 0;
-    out.push({ t: profile.t0 + i0 + j + off, strength: v });
+    const t = profile.t0 + i0 + j + off, last = out[out.length - 1];
+    // Two steps closer than the difference's reach are one boundary seen twice: two pads that
+    // nearly touch, with a sliver of plastic between them (the strength-weighted middle).
+    if (last && t - last.t <= 2 * h + 1) {
+      (last.t = (last.t * last.strength + t * v) / (last.strength + v)), (last.strength = Math.max(last.strength, v));
+    } else out.push({ t, strength: v });
   }
   return out;
 }
 
-/** The chart's landmarks along the strip (mm): the tip, and each pad's edges (one where pads touch). */
-export function chartBoundaries(layout: Layout): number[] {
+/**
+ * The chart's landmarks along the strip (mm): the tip, and each pad's edges (one where pads touch,
+ * less than 0.4 mm apart). Two landmarks closer than `resolveMm` whose steps would be seen as one
+ * (the tip just before a pad's edge) are both left out: which of them a step is cannot be told.
+ */
+export function chartBoundaries(layout: Layout, resolveMm = 0.4): number[] {
   const edges = layout.pads.flatMap(([a, b]) => [a, b]).sort((x, y) => x - y);
   const out: number[] = [0];
   for (const e of edges) {
@@ -54,7 +64,7 @@ export function chartBoundaries(layout: Layout): number[] {
     if (e - last < 0.4) out[out.length - 1] = (last + e) / 2;
     else out.push(e);
   }
-  return out;
+  return out.filter((m, i) => !(i > 0 && m - out[i - 1] < resolveMm) && !(i < out.length - 1 && out[i + 1] - m < resolveMm));
 }
 
 export type StripPlane = {
@@ -96,11 +106,12 @@ export function planeHomography(axis: Axis, map: Map1D, widthMm: number): number
  */
 export function fitStripPlane(chart: StripChart, layout: Layout, profile: Profile, axis: Axis, fit: LayoutFit, trace?: Trace): StripPlane | null {
   const s = pxPerMm(fit);
-  const marks = chartBoundaries(layout);
+  const h = Math.max(1, Math.round(0.25 * s));
+  const marks = chartBoundaries(layout, (2 * h + 1) / s);
   const padEnd = Math.max(...layout.pads.map((p) => p[1]));
   // Steps only over the pads' stretch of the profile (and a little beyond), a few px apart.
   const tA = tAt(fit, -2), tB = tAt(fit, padEnd + 2);
-  const steps = colourSteps(profile, Math.max(1, Math.round(0.25 * s)), Math.floor(Math.min(tA, tB) - profile.t0), Math.ceil(Math.max(tA, tB) - profile.t0));
+  const steps = colourSteps(profile, h, Math.floor(Math.min(tA, tB) - profile.t0), Math.ceil(Math.max(tA, tB) - profile.t0));
   const win = Math.max(3, 1.5 * s), tol = Math.max(1.5, 0.2 * s);
   // Each landmark's candidates: the four strongest steps within the window.
   const near = (at: (mm: number) => number): Candidates[] =>

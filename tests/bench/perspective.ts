@@ -46,6 +46,7 @@ for (let i = 0; i < N; i++) {
       const e = Math.abs(toIndex(chart.pads.find((q: { analyte: string }) => q.analyte === t.analyte).swatches, p.value) - t.index);
       pads++;
       if (e <= 0.5) in05++;
+      else line += ` | ${t.analyte} ${e.toFixed(2)} steps off${p.needsReview ? " (flagged)" : ""}`;
       if (e > 1 && !p.needsReview) silent++;
     }
   } catch (e) {
