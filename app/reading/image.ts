@@ -51,15 +51,30 @@ function explain(err: unknown): ReadingError {
 
 export type DecodedPhoto = { image: RgbImage; original: { width: number; height: number } };
 
+/** A decode under way: the header already checked, the working copy still being decoded. */
+export type StartedDecode = {
+  original: { width: number; height: number };
+  /** The working copy's expected size (sharp's fit inside the long side, never enlarged). */
+  working: { width: number; height: number };
+  decoded: Promise<DecodedPhoto>;
+};
+
 export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Promise<DecodedPhoto> {
+  return (await startDecode(photo, longSide)).decoded;
+}
+
+/**
+ * Reads and checks the photo's header while its decode to the working size starts (sharp runs
+ * both on its own threads); resolves once the header is checked, with the decode still running.
+ */
+export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Promise<StartedDecode> {
   if (!Buffer.isBuffer(photo) && !((photo as unknown) instanceof Uint8Array))
     throw new ReadingError("not_an_image", "No photo was given.");
   if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
-  // The header and the decode both start at once (sharp runs them on its own threads); the
-  // header's checks still come first. A photo over the pixel cap is refused by both.
+  // The header's checks come first; a photo over the pixel cap is refused by both.
   const metaP = sharp(photo, sharpInputOptions()).metadata();
   const outP = workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
-  outP.catch(() => {}); // awaited below, unless the header already refused the photo
+  outP.catch(() => {}); // awaited later, unless the header already refused the photo
   let meta: Metadata;
   try {
     meta = await metaP;
@@ -75,17 +90,21 @@ export async function decodePhoto(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (Math.min(w0, h0) < MIN_SIDE)
     throw new ReadingError("too_small", `This image is too small (${w0} × ${h0} pixels) to show a test strip. Please send a photo at least ${MIN_SIDE} pixels on each side.`);
   const swap = (meta.orientation ?? 1) >= 5;
-  let out: { data: Buffer; info: OutputInfo };
-  try {
-    out = await outP;
-  } catch (e) {
-    throw explain(e);
-  }
-  if (out.info.channels !== 3) throw new ReadingError("not_an_image", "This photo has an unusual colour format the reader cannot use.");
-  return {
-    image: { width: out.info.width, height: out.info.height, data: new Uint8Array(out.data.buffer, out.data.byteOffset, out.data.length) },
-    original: swap ? { width: h0, height: w0 } : { width: w0, height: h0 },
-  };
+  const original = swap ? { width: h0, height: w0 } : { width: w0, height: h0 };
+  const k = Math.min(1, longSide / Math.max(original.width, original.height));
+  const working = { width: Math.round(original.width * k), height: Math.round(original.height * k) };
+  const decoded = outP.then(
+    (out: { data: Buffer; info: OutputInfo }) => {
+      if (out.info.channels !== 3) throw new ReadingError("not_an_image", "This photo has an unusual colour format the reader cannot use.");
+      const image = { width: out.info.width, height: out.info.height, data: new Uint8Array(out.data.buffer, out.data.byteOffset, out.data.length) };
+      return { image, original };
+    },
+    (e) => {
+      throw explain(e);
+    },
+  );
+  decoded.catch(() => {}); // the caller awaits it when it needs the pixels
+  return { original, working, decoded };
 }
 
 export type RegionSample = {

@@ -8,8 +8,10 @@
 //    is matched jointly along their joint path (joint-match.ts) -> one value and one confidence.
 import type { StripChart } from "./chart";
 import { ChartError, parseChart } from "./chart";
-import { locateStrip } from "./locate";
-import { ReadingError, cropPad, cropStrip, decodePhoto } from "./image";
+import { brightCandidates } from "./bright-components";
+import { WIDE_DIV, locateStrip } from "./locate";
+import { decodeSearchCopy } from "./search-decode";
+import { ReadingError, cropPad, cropStrip, startDecode } from "./image";
 import { analyteGroups } from "./joint-match";
 import { judgeAnalyte, type PadReading } from "./judge";
 import { matchSwatches } from "./match";
@@ -84,9 +86,14 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   } catch (e) {
     throw new ReadingError("bad_chart", e instanceof ChartError ? e.message : "The colour chart could not be used.");
   }
-  const { image: img, original } = await decodePhoto(photo);
+  // The search copy is decoded small beside the working copy; its wide-scale candidates are
+  // found while the working copy is still being decoded.
+  const started = await startDecode(photo);
+  const search = await decodeSearchCopy(photo, started.working);
+  const early = search ? { search, wide: brightCandidates(search, chart, WIDE_DIV) } : undefined;
+  const { image: img, original } = await started.decoded;
   const k = original.width / img.width; // working px -> original px
-  const g = locateStrip(img, chart, options.trace);
+  const g = locateStrip(img, chart, options.trace, early);
   const measured = measurePads(img, chart, g, options.trace);
   const warnings = [...g.warnings, ...measured.warnings];
   checkStripShown(chart, measured.pads, options.checkPads !== false);

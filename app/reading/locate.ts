@@ -23,6 +23,9 @@ const NO_STRIP =
  */
 export const MIN_STRIP_SHARE = 0.2;
 
+/** The wide background scale (the box mean's radius is the search copy's long side over this), tried first. */
+export const WIDE_DIV = 16;
+
 /** Candidates tried per background scale. */
 const CANDIDATES_PER_SCALE = 5;
 
@@ -49,7 +52,10 @@ const SETTLED_COLOUR_COST = 5;
 /** Mean ΔE00 beyond which a placement's colours are no longer trusted in full (layout-fit.ts colourTrust). */
 const FAR_COLOUR_COST = 8;
 
-export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): StripGeometry {
+/** Search work done before the working image was decoded (readStrip): the search copy and its wide-scale candidates. */
+export type EarlySearch = { search: SearchCopy; wide?: StripCandidate[] };
+
+export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, early?: EarlySearch): StripGeometry {
   const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
@@ -64,12 +70,12 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
     }
     return g;
   };
-  const search = makeSearchCopy(img);
+  const search = early?.search ?? makeSearchCopy(img);
   let best = null as StripGeometry | null;
   const tried: StripCandidate[] = [];
   const tryBright = (div: number) => {
     let n = 0;
-    for (const c of brightCandidates(search, chart, div)) {
+    for (const c of div === WIDE_DIV && early?.wide ? early.wide : brightCandidates(search, chart, div)) {
       if (n >= CANDIDATES_PER_SCALE) break;
       if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
       tried.push(c);
@@ -108,7 +114,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace): St
   // The wide background scale first, then the edge pairs, then the narrow scale (and the edge
   // pairs after it if they were not needed before), then the pad rows: each only while nothing
   // has settled the search.
-  if (tryBright(16) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges()) || tryPadRows())
+  if (tryBright(WIDE_DIV) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges()) || tryPadRows())
     return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
   if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
   // No candidate shows the chart's pads standing out from bare plastic between them.

@@ -1,6 +1,6 @@
 // The search copy: a reduced image (long side about 400 px) holding each pixel's "whiteness",
 // on which candidate strips are searched before anything is sampled at the working size.
-import { srgbToLinear } from "./colour";
+import { SRGB8_TO_LINEAR, srgbToLinear } from "./colour";
 import type { RgbImage } from "./image";
 
 export type SearchCopy = {
@@ -26,8 +26,33 @@ const ENCODED_TO_LINEAR = (() => {
  * saturation). Both factors scale with the light, so a ratio against the local
  * background is unchanged by shadows and light falloff.
  */
+/** The whole reduction from a working image of this size to its search copy. */
+export function searchFactor(width: number, height: number, target = SEARCH_LONG_SIDE): number {
+  return Math.max(1, Math.round(Math.max(width, height) / target));
+}
+
+/** Whiteness of one pixel from its linear RGB (see makeSearchCopy). */
+function whitenessOf(r: number, g: number, b: number): number {
+  const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
+  const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
+  const sat = mx > 1e-4 ? (mx - mn) / mx : 0;
+  return (0.2126 * r + 0.7152 * g + 0.0722 * b) * (1 - 0.6 * sat) + 0.002;
+}
+
+/**
+ * The search copy from an image already reduced by `factor` from the working size (sharp's
+ * shrink-on-load decode of the photo, see search-decode.ts): whiteness per pixel.
+ */
+export function searchCopyFromReduced(rgb: RgbImage, factor: number): SearchCopy {
+  const { width: w, height: h, data } = rgb;
+  const whiteness = new Float32Array(w * h);
+  const lut = SRGB8_TO_LINEAR;
+  for (let i = 0, o = 0; i < w * h; i++, o += 3) whiteness[i] = whitenessOf(lut[data[o]], lut[data[o + 1]], lut[data[o + 2]]);
+  return { w, h, factor, whiteness };
+}
+
 export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): SearchCopy {
-  const f = Math.max(1, Math.round(Math.max(img.width, img.height) / target));
+  const f = searchFactor(img.width, img.height, target);
   const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
   const acc = new Uint32Array(w * 3);
   const whiteness = new Float32Array(w * h);
@@ -53,11 +78,7 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
       }
     }
     for (let sx = 0, k = 0; sx < w; sx++, k += 3) {
-      const r = lut[(acc[k] * inv * q + 0.5) | 0], g = lut[(acc[k + 1] * inv * q + 0.5) | 0], b = lut[(acc[k + 2] * inv * q + 0.5) | 0];
-      const mx = r > g ? (r > b ? r : b) : g > b ? g : b;
-      const mn = r < g ? (r < b ? r : b) : g < b ? g : b;
-      const sat = mx > 1e-4 ? (mx - mn) / mx : 0;
-      whiteness[sy * w + sx] = (0.2126 * r + 0.7152 * g + 0.0722 * b) * (1 - 0.6 * sat) + 0.002;
+      whiteness[sy * w + sx] = whitenessOf(lut[(acc[k] * inv * q + 0.5) | 0], lut[(acc[k + 1] * inv * q + 0.5) | 0], lut[(acc[k + 2] * inv * q + 0.5) | 0]);
     }
   }
   return { w, h, factor: f, whiteness };
