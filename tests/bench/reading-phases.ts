@@ -1,13 +1,16 @@
-// Where a read's time goes, per photo: decode, locate (with the number of candidate fits), measure,
-// in CPU milliseconds (decode's include libvips' worker threads).
+// Where a read's time goes, per photo, as readStrip spends it: decode (the working copy and the
+// search copy beside it), the wide-scale search on the search copy, locate (with the number of
+// candidate fits) and measure, in CPU milliseconds (decode's include libvips' worker threads).
 // The bench's photos are rendered once into a cache directory. Figures only, nothing asserted.
 //
 //   npx tsx tests/bench/reading-phases.ts [--cache /tmp/dipwell-bench-photos]
 import fs from "node:fs";
 import path from "node:path";
 import { parseChart } from "../../app/reading/chart";
-import { decodePhoto } from "../../app/reading/image";
-import { locateStrip } from "../../app/reading/locate";
+import { brightCandidates } from "../../app/reading/bright-components";
+import { startDecode } from "../../app/reading/image";
+import { WIDE_DIV, locateStrip } from "../../app/reading/locate";
+import { decodeSearchCopy } from "../../app/reading/search-decode";
 import { measurePads } from "../../app/reading/measure-pads";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
@@ -43,13 +46,18 @@ for (let pass = 0; pass < 2; pass++)
   for (const c of cases) {
     const buf = fs.readFileSync(c.file);
     let t = now();
-    const { image } = await decodePhoto(buf);
+    const started = await startDecode(buf);
+    const search = await decodeSearchCopy(buf, started.working);
+    const { image } = await started.decoded;
     const tDecode = ms(t);
+    t = now();
+    const early = search ? { search, wide: brightCandidates(search, c.chart, WIDE_DIV) } : undefined;
+    const tSearch = ms(t);
     let fits = 0;
     t = now();
     let tLocate = 0, tMeasure = 0, note = "";
     try {
-      const g = locateStrip(image, c.chart, (l) => l.startsWith("walk") && fits++);
+      const g = locateStrip(image, c.chart, (l) => l.startsWith("walk") && fits++, early);
       tLocate = ms(t);
       t = now();
       measurePads(image, c.chart, g);
@@ -58,5 +66,5 @@ for (let pass = 0; pass < 2; pass++)
       tLocate = ms(t);
       note = String((e as Error).message).slice(0, 40);
     }
-    if (pass === 1) console.log(`${c.name.padEnd(28)} decode ${tDecode.toFixed(1).padStart(6)}  locate ${tLocate.toFixed(1).padStart(7)} (${fits} fits)  measure ${tMeasure.toFixed(1).padStart(5)} ${note}`);
+    if (pass === 1) console.log(`${c.name.padEnd(28)} decode ${tDecode.toFixed(1).padStart(6)}  wide search ${tSearch.toFixed(1).padStart(5)}  locate ${tLocate.toFixed(1).padStart(7)} (${fits} fits)  measure ${tMeasure.toFixed(1).padStart(5)} ${note}`);
   }

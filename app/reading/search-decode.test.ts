@@ -1,0 +1,39 @@
+// The search copy decoded small by sharp, beside the working copy.
+import sharp from "sharp";
+import { describe, expect, it } from "vitest";
+import { startDecode } from "./image";
+import { decodeSearchCopy } from "./search-decode";
+import { makeSearchCopy } from "./search-copy";
+
+const grey = (width: number, height: number, v = 128) =>
+  sharp({ create: { width, height, channels: 3, background: { r: v, g: v, b: v } } }).jpeg({ quality: 95 }).toBuffer();
+
+describe("startDecode", () => {
+  it("predicts the working copy's size that the decode then gives", async () => {
+    for (const [w, h] of [[4032, 3024], [2999, 1999], [1000, 1334], [640, 480]]) {
+      const started = await startDecode(await grey(w, h));
+      const { image } = await started.decoded;
+      expect([image.width, image.height]).toEqual([started.working.width, started.working.height]);
+    }
+  });
+});
+
+describe("decodeSearchCopy", () => {
+  it("reduces by the same whole factor as the search copy made from the working copy", async () => {
+    const photo = await grey(1600, 1200);
+    const started = await startDecode(photo);
+    const s = await decodeSearchCopy(photo, started.working);
+    const fromWorking = makeSearchCopy((await started.decoded).image);
+    expect(s).not.toBeNull();
+    expect([s!.w, s!.h, s!.factor]).toEqual([fromWorking.w, fromWorking.h, fromWorking.factor]);
+    // sRGB 128 is 0.2158 in linear light (IEC 61966-2-1), a grey has no saturation, plus the floor 0.002.
+    expect(s!.whiteness[s!.w * 150 + 200]).toBeCloseTo(0.2178, 2);
+    expect(fromWorking.whiteness[s!.w * 150 + 200]).toBeCloseTo(0.2178, 2);
+  });
+  it("gives nothing for a photo already as small as a search copy", async () => {
+    expect(await decodeSearchCopy(await grey(500, 400), { width: 500, height: 400 })).toBeNull();
+  });
+  it("gives nothing for bytes that are no photo (the working decode reports the error)", async () => {
+    expect(await decodeSearchCopy(Buffer.from("not a photo at all"), { width: 1600, height: 1200 })).toBeNull();
+  });
+});
