@@ -9,7 +9,8 @@
 // It measures whatever the code does and asserts nothing about time.
 //
 // Options: --tubs 500 --readings 500 --samples 40 --mails 300 --reuse (keep an earlier seed of
-// the same size) --no-build (reuse build-bench/).
+// the same size) --no-build (reuse build-bench/) --pages dashboard,csv (time only the pages whose
+// name or address contains one of these words, and skip the uploads and e-mail).
 import { type ChildProcess } from "node:child_process";
 import { spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
@@ -42,6 +43,13 @@ const TUBS = num("tubs", 500);
 const READINGS = num("readings", 500);
 const SAMPLES = num("samples", 40);
 const MAILS = num("mails", 300);
+const PAGES = (() => {
+  const i = args.indexOf("--pages");
+  if (i < 0) return null;
+  const words = (args[i + 1] ?? "").split(",").map((w) => w.trim().toLowerCase()).filter(Boolean);
+  if (!words.length) throw new Error("--pages needs words naming pages, e.g. --pages dashboard,csv");
+  return words;
+})();
 const FINAL = new Set(["read", "failed", "confirmed", "manual"]);
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -82,6 +90,15 @@ async function measurePage(what: string, url: string, cookie: string): Promise<R
     last = r;
   }
   return { what, url, median: quantile(times, 0.5), p95: quantile(times, 0.95), status: last.status, kb: last.bytes / 1024 };
+}
+
+const pad = (s: string, n: number) => s.padEnd(n);
+const lpad = (s: string, n: number) => s.padStart(n);
+
+function printPages(rows: Row[]) {
+  console.log(`\nPages and APIs (technician with ${TUBS} client tubs × ${READINGS} readings; ms from request to last byte, ${SAMPLES} requests each)`);
+  console.log(`${pad("page", 32)}${lpad("median", 8)}${lpad("p95", 8)}${lpad("status", 8)}${lpad("KB", 8)}  url`);
+  for (const r of rows) console.log(`${pad(r.what, 32)}${lpad(ms(r.median), 8)}${lpad(ms(r.p95), 8)}${lpad(String(r.status), 8)}${lpad(r.kb.toFixed(0), 8)}  ${r.url}`);
 }
 
 async function main() {
@@ -152,6 +169,8 @@ async function main() {
     console.log("Timing pages…");
     const pages: [string, string, string][] = [
       ["dashboard (/clients)", "/clients", tech],
+      // The same page's data request (middleware and loaders, no rendering): the rest of the page's time is rendering.
+      ["dashboard data (/clients.data)", "/clients.data", tech],
       ["dashboard, page 10", "/clients?page=10", tech],
       ["dashboard, needing attention", "/clients?show=attention", tech],
       ["review queue", "/clients/review", tech],
@@ -176,8 +195,15 @@ async function main() {
       ["users, search (admin)", "/admin/users?q=owner-02", admin],
       ["e-mail log (admin)", "/admin/email", admin],
     ];
+    const chosen = PAGES ? pages.filter(([what, url]) => PAGES.some((w) => what.toLowerCase().includes(w) || url.toLowerCase().includes(w))) : pages;
+    if (!chosen.length) throw new Error(`No page matches --pages ${PAGES!.join(",")}.`);
     const rows: Row[] = [];
-    for (const [what, url, cookie] of pages) rows.push(await measurePage(what, url, cookie));
+    for (const [what, url, cookie] of chosen) rows.push(await measurePage(what, url, cookie));
+    if (PAGES) {
+      printPages(rows);
+      await sql.end();
+      return;
+    }
 
     // ------------------------------------------------------------ uploads
     console.log("Rendering the test photo and timing uploads…");
@@ -287,11 +313,7 @@ async function main() {
     const mailRate = (sentWhenQueued < MAILS / 2 ? sent - sentWhenQueued : sent) / Math.max(0.001, mailSeconds);
 
     // ------------------------------------------------------------ report
-    const pad = (s: string, n: number) => s.padEnd(n);
-    const lpad = (s: string, n: number) => s.padStart(n);
-    console.log(`\nPages and APIs (technician with ${TUBS} client tubs × ${READINGS} readings; ms from request to last byte, ${SAMPLES} requests each)`);
-    console.log(`${pad("page", 32)}${lpad("median", 8)}${lpad("p95", 8)}${lpad("status", 8)}${lpad("KB", 8)}  url`);
-    for (const r of rows) console.log(`${pad(r.what, 32)}${lpad(ms(r.median), 8)}${lpad(ms(r.p95), 8)}${lpad(String(r.status), 8)}${lpad(r.kb.toFixed(0), 8)}  ${r.url}`);
+    printPages(rows);
     console.log(`\nConcurrent photo uploads (3 MP JPEG; presign → PUT → register → reading stored)`);
     console.log(`${pad("uploads", 10)}${lpad("ready", 7)}${lpad("per s", 8)}${lpad("median", 9)}${lpad("p95", 9)}${lpad("register p95", 14)}${lpad("tub page p95", 14)}${lpad("idle p95", 10)}`);
     for (const u of uploads) {
@@ -316,7 +338,7 @@ async function main() {
   process.exit(0);
 }
 
-main().catch((error) => {
+main().then(() => process.exit(0)).catch((error) => {
   console.error(error instanceof Error ? error.message : error);
   for (const [what, file] of Object.entries(logs)) {
     const lines = existsSync(file) ? readFileSync(file, "utf8").trim().split("\n").filter((l) => !/^(GET|POST|PUT|HEAD) \//.test(l)) : [];
