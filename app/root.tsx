@@ -1,6 +1,7 @@
 import { useEffect } from "react";
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { StatusIconSprite } from "./components/status";
 import { availabilityMiddleware } from "./lib/availability.server";
 import { dateSettingsFor, rememberBrowserZone } from "./lib/dates";
 import { useNonce } from "./lib/nonce";
@@ -40,6 +41,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="min-h-screen">
+        <StatusIconSprite />
         {children}
         <ScrollRestoration nonce={nonce} />
         <Scripts nonce={nonce} />

@@ -17,7 +17,7 @@ import { can } from "~/lib/permissions";
 import { likePattern, pageOf, stopIfAborted } from "~/lib/paging";
 import type { Tub } from "~/lib/tub-access.server";
 import { parseChart } from "~/reading/chart";
-import { rangeStatus } from "~/lib/range-status";
+import { rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { analyteName } from "~/chemistry";
 import { analyteSwatches, type AnalyteSwatches } from "~/features/charts/analyte-swatches";
 
@@ -181,7 +181,8 @@ function bandsOf(t: { sanitiser: "chlorine" | "bromine"; targets: unknown; guida
  * treatment are fetched for the rows of the page only.
  *
  * The bands come from the chemistry code, once per distinct sanitiser, guidance and overrides
- * among the tubs (usually a handful), passed in as one JSON value.
+ * among the tubs (usually a handful), passed in as one JSON value and read out of it once (a
+ * materialized CTE: otherwise each tub's out-of-range check would unpack the JSON again).
  */
 async function dashboardPage(user: SessionUser, opts: { q: string; view: DashboardView; offset: number; signal?: AbortSignal }, now: Date) {
   const scope = [technicianParam(user), opts.q ? likePattern(opts.q) : null];
@@ -202,7 +203,7 @@ async function dashboardPage(user: SessionUser, opts: { q: string; view: Dashboa
     name: "dipwell-dashboard-page",
     text: `with kind as (
         select (k->>'i')::int as i, k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance from jsonb_array_elements($3::jsonb) k
-      ), band as (
+      ), band as materialized (
         select (b->>'i')::int as i, b->>'a' as analyte, (b->>'min')::float8 as min, (b->>'max')::float8 as max from jsonb_array_elements($4::jsonb) b
       ), scored as materialized (
         select x.*, (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
@@ -307,6 +308,63 @@ export async function dashboard(
     };
   });
   return { rows, page, totals };
+}
+
+/** A tub's card on the dashboard: only what the card says, its times already in words in the tub's zone. */
+export type DashboardCard = {
+  id: string;
+  name: string;
+  ownerName: string;
+  /** the current water (the last sure reading), or null before the first one */
+  water: null | {
+    /** each value outside its target band, in words with its unit and the aim */
+    outOfRange: string[];
+    /** low or high: the first value out of range, for the icon of the out-of-range line */
+    worst: "low" | "high";
+    values: { label: string; value: number; status: RangeStatus }[];
+    /** when the water was tested */
+    at: string;
+  };
+  /** when a newer reading, unsure and waiting for review, was taken */
+  unsureNewer: string | null;
+  overdue: boolean;
+  /** when the next test is due */
+  due: string | null;
+  waiting: number;
+  /** "Granular chlorine, 18 g on 12 Oct 2026, 11:57" */
+  lastTreatment: string | null;
+};
+
+/**
+ * The dashboard page's data: the page of tubs as cards (see dashboard), times put into words here
+ * with the request's words (the tub's zone), so the browser gets the sentences it shows and no
+ * field twice.
+ */
+export async function dashboardCards(
+  user: SessionUser,
+  opts: { page?: number; q?: string; view?: DashboardView; signal?: AbortSignal },
+  words: { tub: (at: string, zone: string) => string },
+) {
+  const board = await dashboard(user, opts);
+  const cards = board.rows.map((t): DashboardCard => {
+    const when = (iso: string | null) => (iso ? words.tub(iso, t.timeZone) : null);
+    const worst = t.statuses.find((v) => v.status === "low" || v.status === "high")?.status;
+    const tr = t.lastTreatment;
+    return {
+      id: t.id,
+      name: t.name,
+      ownerName: t.ownerName,
+      water: t.latestAt
+        ? { outOfRange: t.outOfRange, worst: worst === "low" ? "low" : "high", values: t.statuses.map((v) => ({ label: v.label, value: v.value, status: v.status })), at: when(t.latestAt)! }
+        : null,
+      unsureNewer: when(t.unsureNewerAt),
+      overdue: t.overdue,
+      due: when(t.dueAt),
+      waiting: t.waiting,
+      lastTreatment: tr ? `${tr.name}, ${tr.amount} ${tr.unit} on ${when(tr.at)}` : null,
+    };
+  });
+  return { rows: cards, page: { page: board.page.page, pages: board.page.pages }, totals: board.totals };
 }
 
 // ---------------------------------------------------------------- review

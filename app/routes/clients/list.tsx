@@ -1,7 +1,7 @@
 import { Pager, withParams } from "~/components/Pager";
 import { StatusBadge, UnconfirmedMark } from "~/components/status";
-import { Card, EmptyState, PageTitle, cx } from "~/components/ui";
-import { DASHBOARD_VIEWS, dashboard, type DashboardView } from "~/features/clients/clients.server";
+import { Card, EmptyState, PageTitle } from "~/components/ui";
+import { DASHBOARD_VIEWS, dashboardCards, type DashboardCard, type DashboardView } from "~/features/clients/clients.server";
 import { askedPage, searchText } from "~/lib/paging";
 import { requirePermission } from "~/lib/session.server";
 import { timeWords } from "~/lib/dates";
@@ -15,14 +15,8 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const q = searchText(url);
   const asked = url.searchParams.get("show");
   const view: DashboardView = (DASHBOARD_VIEWS as readonly string[]).includes(asked ?? "") ? (asked as DashboardView) : "all";
-  const board = await dashboard(user, { page: askedPage(url), q, view, signal: request.signal });
-  // Each tub's times in the tub's zone, put into words here on the server.
-  const words = timeWords(request);
-  const rows = board.rows.map((t) => {
-    const when = (iso: string | null | undefined) => (iso ? words.tub(iso, t.timeZone) : "");
-    return { ...t, words: { unsureNewer: when(t.unsureNewerAt), latest: when(t.latestAt), due: when(t.dueAt), treated: when(t.lastTreatment?.at) } };
-  });
-  return { ...board, rows, q, view };
+  const board = await dashboardCards(user, { page: askedPage(url), q, view, signal: request.signal }, timeWords(request));
+  return { ...board, q, view };
 }
 
 export default function Clients({ loaderData }: Route.ComponentProps) {
@@ -58,49 +52,58 @@ export default function Clients({ loaderData }: Route.ComponentProps) {
         <ul className="grid gap-3 sm:grid-cols-2" data-testid="client-tubs">
           {tubs.map((t) => (
             <li key={t.id}>
-              <Card className={cx(t.outOfRange.length || t.overdue ? "border-caution/50" : "")}>
-                <a href={`/tubs/${t.id}`} className="text-lg font-bold text-well-900">{t.name}</a>
-                <p className="text-sm text-ink-soft">{t.ownerName}</p>
-                <ul className="mt-2 space-y-1 text-sm">
-                  <li data-testid="client-water" className="space-y-1">
-                    {!t.latestAt ? (
-                      <span className="text-ink-soft">No sure reading yet</span>
-                    ) : (
-                      <>
-                        {t.outOfRange.length ? (
-                          <StatusBadge status={t.statuses.find((v) => v.status === "low" || v.status === "high")?.status ?? "high"}>Out of range: {t.outOfRange.join("; ")}</StatusBadge>
-                        ) : (
-                          <StatusBadge status="in">Water in range at the last sure reading</StatusBadge>
-                        )}
-                        <span className="flex flex-wrap gap-1">
-                          {t.statuses.map((v) => (
-                            <StatusBadge key={v.analyte} status={v.status} className="font-normal">{v.label} {v.value}{v.status === "low" ? " · low" : v.status === "high" ? " · high" : ""}</StatusBadge>
-                          ))}
-                        </span>
-                      </>
-                    )}
-                  </li>
-                  {t.unsureNewerAt && (
-                    <li className="font-bold text-caution" data-testid="unsure-newer">
-                      <UnconfirmedMark className="rounded-xl">Unconfirmed: a newer reading ({t.words.unsureNewer}) is unsure and waits for review; it is not counted as the water yet.</UnconfirmedMark>
-                    </li>
-                  )}
-                  <li className={t.overdue ? "font-bold text-caution" : ""}>
-                    {t.latestAt ? `Last test ${t.words.latest}` : t.unsureNewerAt ? "No sure test yet" : "Never tested"}
-                    {t.overdue ? " · test overdue" : t.dueAt ? ` · next due ${t.words.due}` : ""}
-                  </li>
-                  <li className={t.waiting ? "font-bold text-caution" : ""}>
-                    {t.waiting ? <a href="/clients/review">{t.waiting} reading{t.waiting === 1 ? "" : "s"} to review</a> : "Nothing to review"}
-                  </li>
-                  <li>{t.lastTreatment ? `Last treatment: ${t.lastTreatment.name}, ${t.lastTreatment.amount} ${t.lastTreatment.unit} on ${t.words.treated}` : "No treatments logged"}</li>
-                </ul>
-                <a href={`/tubs/${t.id}/notes`} className="mt-2 inline-block text-sm font-bold">Visit notes</a>
-              </Card>
+              <ClientCard t={t} />
             </li>
           ))}
         </ul>
       )}
       <Pager page={page.page} pages={page.pages} href={(p) => withParams(params, { page: p })} label="Pages of client tubs" />
     </div>
+  );
+}
+
+const SUFFIX = { low: " · low", high: " · high", in: "", unknown: "" } as const;
+
+/** One client tub: its water, a newer unsure reading, tests, readings to review, the last treatment. */
+function ClientCard({ t }: { t: DashboardCard }) {
+  const caution = t.overdue || (t.water?.outOfRange.length ?? 0) > 0;
+  return (
+    <Card className={caution ? "border-caution/50" : ""}>
+      <a href={`/tubs/${t.id}`} className="text-lg font-bold text-well-900">{t.name}</a>
+      <p className="text-sm text-ink-soft">{t.ownerName}</p>
+      <ul className="mt-2 space-y-1 text-sm">
+        <li data-testid="client-water" className="space-y-1">
+          {!t.water ? (
+            <span className="text-ink-soft">No sure reading yet</span>
+          ) : (
+            <>
+              {t.water.outOfRange.length ? (
+                <StatusBadge status={t.water.worst}>{`Out of range: ${t.water.outOfRange.join("; ")}`}</StatusBadge>
+              ) : (
+                <StatusBadge status="in">Water in range at the last sure reading</StatusBadge>
+              )}
+              <span className="flex flex-wrap gap-1">
+                {t.water.values.map((v) => (
+                  <StatusBadge key={v.label} status={v.status} className="font-normal">{`${v.label} ${v.value}${SUFFIX[v.status]}`}</StatusBadge>
+                ))}
+              </span>
+            </>
+          )}
+        </li>
+        {t.unsureNewer && (
+          <li className="font-bold text-caution" data-testid="unsure-newer">
+            <UnconfirmedMark className="rounded-xl">{`Unconfirmed: a newer reading (${t.unsureNewer}) is unsure and waits for review; it is not counted as the water yet.`}</UnconfirmedMark>
+          </li>
+        )}
+        <li className={t.overdue ? "font-bold text-caution" : undefined}>
+          {(t.water ? `Last test ${t.water.at}` : t.unsureNewer ? "No sure test yet" : "Never tested") + (t.overdue ? " · test overdue" : t.due ? ` · next due ${t.due}` : "")}
+        </li>
+        <li className={t.waiting ? "font-bold text-caution" : undefined}>
+          {t.waiting ? <a href="/clients/review">{`${t.waiting} reading${t.waiting === 1 ? "" : "s"} to review`}</a> : "Nothing to review"}
+        </li>
+        <li>{t.lastTreatment ? `Last treatment: ${t.lastTreatment}` : "No treatments logged"}</li>
+      </ul>
+      <a href={`/tubs/${t.id}/notes`} className="mt-2 inline-block text-sm font-bold">Visit notes</a>
+    </Card>
   );
 }
