@@ -13,7 +13,7 @@ import { appBoss } from "~/jobs/boss.server";
 import { queueRead } from "./read-job.server";
 import { READ_QUEUE } from "~/jobs/queues";
 import { headObject, putObject, readObject } from "~/lib/storage.server";
-import { csvLine } from "~/lib/csv";
+import { csvLine, csvNumberSql, csvTextSql } from "~/lib/csv";
 import { analyteSwatches } from "~/features/charts/analyte-swatches";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
@@ -208,72 +208,87 @@ export async function historyPage(t: Tub, opts: { sort: keyof typeof HISTORY_SOR
 }
 
 
-const CSV_BATCH = 500;
-
-type CsvPads = Record<string, [number | null, number | null, string | null]>;
-type CsvRow = {
-  record: "reading" | "treatment"; id: string; at: Date; atKey: string; status: string | null; person: string | null; confirmedAt: Date | null; pads: CsvPads | null;
-  product: string | null; chemical: string | null; parameter: string | null; amount: number | null; unit: string | null; shock: boolean | null; note: string | null;
-};
+const CSV_BATCH = 1000;
 
 const TREATMENT_COLUMNS = ["treatment_product", "treatment_chemical", "treatment_for", "treatment_amount", "treatment_unit", "treatment_shock", "treatment_note"];
+
+/** A timestamp as JavaScript's toISOString writes it (UTC, milliseconds). */
+const isoSql = (expr: string) => `to_char((${expr}) at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`;
+
+/**
+ * One batch of the export, in time order after the last row sent ($2 time, $3 id): each row's
+ * CSV line made by PostgreSQL. $4 rows at most; $5 the pad columns' analytes in order; $6 the
+ * empty pad cells of a treatment row; $7 the names of the parameters treatments were for. Readings
+ * and treatments are each walked along their tub-and-time index, the lines are made only for the
+ * rows of the batch, and each reading's pads are looked up once per column.
+ */
+const CSV_BATCH_SQL = `select h.at::text as "atKey", h.id,
+    case when h.record = 'reading' then
+      'reading,' || ${isoSql("h.at")} || ',' || ${csvTextSql("h.status")} || ',' || ${csvTextSql("h.person")} || ',' || coalesce(${isoSql("h.confirmed_at")}, '')
+        || coalesce(',' || (
+             select string_agg(case when p.id is null then ',,' else ${csvNumberSql("p.read_value")} || ',' || ${csvNumberSql("p.confirmed_value")} || ',' || ${csvTextSql("p.unit")} end, ',' order by a.i)
+               from unnest($5::text[]) with ordinality a(analyte, i)
+               left join reading_pad p on p.reading_id = h.id and p.analyte = a.analyte), '')
+        || ',,,,,,,'
+    else
+      'treatment,' || ${isoSql("h.at")} || ',,' || ${csvTextSql("h.person")} || ',' || $6::text || ','
+        || ${csvTextSql("h.product")} || ',' || ${csvTextSql("h.chemical")} || ',' || ${csvTextSql("$7::jsonb ->> nullif(h.parameter, '')")} || ','
+        || ${csvNumberSql("h.amount")} || ',' || ${csvTextSql("h.unit")} || ',' || (case when h.shock then 'yes' else 'no' end) || ',' || ${csvTextSql("h.note")}
+    end as line
+  from (
+    (select 'reading' as record, r.id, r.taken_at as at, r.status::text as status, u.name as person, r.confirmed_at,
+            null::text as product, null::text as chemical, null::text as parameter, null::float8 as amount, null::text as unit, null::boolean as shock, null::text as note
+       from reading r left join "user" u on u.id = r.confirmed_by
+      where r.tub_id = $1 and ($2::timestamptz is null or (r.taken_at >= $2::timestamptz and (r.taken_at, r.id) > ($2::timestamptz, $3::uuid)))
+      order by r.taken_at, r.id limit $4)
+    union all
+    (select 'treatment', x.id, x.added_at, null, u.name, null, x.product_name, x.chemical, x.parameter, x.amount, x.unit, x.shock, x.note
+       from treatment x left join "user" u on u.id = x.added_by
+      where x.tub_id = $1 and ($2::timestamptz is null or (x.added_at >= $2::timestamptz and (x.added_at, x.id) > ($2::timestamptz, $3::uuid)))
+      order by x.added_at, x.id limit $4)
+    order by at, id limit $4
+  ) h
+  order by h.at, h.id`;
 
 /**
  * The tub's history as CSV, oldest first: one row per reading (read and confirmed value per
  * parameter) and one per treatment (product, amount, who added it), in time order; the `record`
- * column says which. Streamed in batches (pads gathered per reading in SQL; readings and treatments
- * each walked along their tub-and-time index), so memory stays flat however long the history, and
- * it stops when the download is cancelled.
+ * column says which. PostgreSQL writes the lines (the pads pivoted into their columns, every cell
+ * quoted and made safe as csvCell does), a batch at a time when the download asks for more, so
+ * memory stays flat however long the history, and it stops when the download is cancelled.
  */
 export function historyCsvStream(t: Tub, signal?: AbortSignal): ReadableStream<Uint8Array> {
   const encoder = new TextEncoder();
-  let analytes: string[] | null = null;
+  let columns: { analytes: string[]; names: Record<string, string> } | null = null;
   // The last row's time as PostgreSQL's text (microseconds kept: a Date would round them off).
   let after: { at: string; id: string } | null = null;
   let finished = false;
   return new ReadableStream<Uint8Array>({
     async pull(controller) {
       if (signal?.aborted) return controller.close();
-      if (!analytes) {
-        const found = await db.$client.query<{ analyte: string }>(
-          "select distinct p.analyte from reading_pad p join reading r on r.id = p.reading_id where r.tub_id = $1 order by 1",
+      if (!columns) {
+        // The pad columns (every analyte the tub's readings have) and the parameters its treatments were for.
+        const found = await db.$client.query<{ kind: "pad" | "treatment"; key: string }>(
+          `select 'pad' as kind, a.analyte as key from (select distinct p.analyte from reading_pad p join reading r on r.id = p.reading_id where r.tub_id = $1) a
+           union all
+           select 'treatment', x.parameter from (select distinct parameter from treatment where tub_id = $1 and parameter <> '') x
+           order by 1, 2`,
           [t.id],
         );
-        analytes = found.rows.map((x) => x.analyte);
+        const analytes = found.rows.filter((x) => x.kind === "pad").map((x) => x.key);
+        const names = Object.fromEntries(found.rows.filter((x) => x.kind === "treatment").map((x) => [x.key, analyteName(x.key)]));
+        columns = { analytes, names };
         const header = ["record", "time", "status", "by", "confirmed_at", ...analytes.flatMap((a) => [`${a}_read`, `${a}_confirmed`, `${a}_unit`]), ...TREATMENT_COLUMNS];
         controller.enqueue(encoder.encode(csvLine(header) + "\r\n"));
         return;
       }
       if (finished) return controller.close();
-      const batch = await db.$client.query<CsvRow>(
-        `select h.*, h.at::text as "atKey" from (
-           (select 'reading' as record, r.id, r.taken_at as at, r.status, u.name as person, r.confirmed_at as "confirmedAt",
-                   (select json_object_agg(p.analyte, json_build_array(p.read_value, p.confirmed_value, p.unit)) from reading_pad p where p.reading_id = r.id) as pads,
-                   null::text as product, null::text as chemical, null::text as parameter, null::float8 as amount, null::text as unit, null::boolean as shock, null::text as note
-              from reading r left join "user" u on u.id = r.confirmed_by
-             where r.tub_id = $1 and ($2::timestamptz is null or (r.taken_at, r.id) > ($2::timestamptz, $3::uuid))
-             order by r.taken_at, r.id limit $4)
-           union all
-           (select 'treatment', x.id, x.added_at, null, u.name, null, null,
-                   x.product_name, x.chemical, x.parameter, x.amount, x.unit, x.shock, x.note
-              from treatment x left join "user" u on u.id = x.added_by
-             where x.tub_id = $1 and ($2::timestamptz is null or (x.added_at, x.id) > ($2::timestamptz, $3::uuid))
-             order by x.added_at, x.id limit $4)
-         ) h order by at, id limit $4`,
-        [t.id, after?.at ?? null, after?.id ?? null, CSV_BATCH],
-      );
-      const lines: string[] = [];
-      for (const r of batch.rows) {
-        const cells: unknown[] = [r.record, r.at.toISOString(), r.status ?? "", r.person ?? "", r.confirmedAt?.toISOString() ?? ""];
-        for (const a of analytes) {
-          const p = r.pads?.[a];
-          cells.push(p?.[0] ?? "", p?.[1] ?? "", p?.[2] ?? "");
-        }
-        if (r.record === "treatment") cells.push(r.product, r.chemical, r.parameter ? analyteName(r.parameter) : "", r.amount, r.unit, r.shock ? "yes" : "no", r.note ?? "");
-        else cells.push(...TREATMENT_COLUMNS.map(() => ""));
-        lines.push(csvLine(cells));
-      }
-      if (lines.length) controller.enqueue(encoder.encode(lines.join("\r\n") + "\r\n"));
+      const batch = await db.$client.query<{ atKey: string; id: string; line: string }>({
+        name: "dipwell-history-csv",
+        text: CSV_BATCH_SQL,
+        values: [t.id, after?.at ?? null, after?.id ?? null, CSV_BATCH, columns.analytes, ",".repeat(3 * columns.analytes.length), JSON.stringify(columns.names)],
+      });
+      if (batch.rows.length) controller.enqueue(encoder.encode(batch.rows.map((r) => r.line).join("\r\n") + "\r\n"));
       const last = batch.rows.at(-1);
       if (batch.rows.length < CSV_BATCH || !last) finished = true;
       else after = { at: last.atKey, id: last.id };
