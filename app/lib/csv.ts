@@ -48,8 +48,11 @@ export function csvNumberSql(expr: string): string {
       else m.sg || left(m.d, 1) || case when length(m.d) > 1 then '.' || substr(m.d, 2) else '' end || 'e' || case when m.e < 0 then '-' else '+' end || abs(m.e)::text
     end
     from (select case when s.t like '-%' then '-' else '' end as sg, replace(split_part(ltrim(s.t, '-'), 'e', 1), '.', '') as d, split_part(s.t, 'e', 2)::int as e) m)`;
-  return `(case when (${expr}) is null or (${expr}) in ('NaN'::float8, 'Infinity'::float8, '-Infinity'::float8) then ''
-    when (${expr}) = 0 then '0'
+  // Most values take the second branch (PostgreSQL orders NaN above every number, so NaN and the
+  // infinities fall through to their own branch).
+  return `(case when (${expr}) is null then ''
     when abs(${expr}) >= 1e-4 and abs(${expr}) < 1e15 then (${expr})::text
+    when (${expr}) = 0 then '0'
+    when (${expr}) in ('NaN'::float8, 'Infinity'::float8, '-Infinity'::float8) then ''
     else (select case when strpos(s.t, 'e') = 0 then s.t else ${rewrite} end from (select (${expr})::text as t) s) end)`;
 }
