@@ -342,8 +342,10 @@ describe("every list that grows with the business pages, and a bad page number i
 
   it("the dashboard and the review queue stop once the browser has gone away", async () => {
     const gone = AbortSignal.abort();
-    for (const work of [dashboard(asTech(tech), { signal: gone }), reviewQueue(asTech(tech), { signal: gone })]) {
-      const stopped = await work.then(() => null, (e: unknown) => e);
+    // Both start at once, each with its outcome caught at once (one may stop while the other is awaited).
+    const works = [dashboard(asTech(tech), { signal: gone }), reviewQueue(asTech(tech), { signal: gone })].map((w) => w.then(() => null, (e: unknown) => e));
+    for (const work of works) {
+      const stopped = await work;
       expect(stopped).toBeInstanceOf(Response);
       expect((stopped as Response).status).toBe(499);
     }
