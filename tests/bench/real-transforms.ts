@@ -27,7 +27,7 @@ const set = path.resolve(opt("--set", "../shared/eval/real"));
 const out = path.resolve(opt("--out", "/tmp/dipwell-real-transforms"));
 const analyte = opt("--analyte", "ph");
 
-type Transform = { rotate?: number; gains?: [number, number, number]; background?: string };
+type Transform = { rotate?: number; gains?: [number, number, number]; background?: string; scale?: number; quality?: number };
 const transforms: Record<string, Transform> = {
   r0: {},
   r90: { rotate: 90 },
@@ -39,9 +39,14 @@ const transforms: Record<string, Transform> = {
   warm2: { gains: [1.35, 1, 0.55] },
   cool: { gains: [0.8, 0.95, 1.2] },
   warmr23: { rotate: 23, gains: [1.18, 1, 0.72] },
+  tungsten: { gains: [1.5, 1, 0.45] },
+  dim: { gains: [0.45, 0.45, 0.45] },
+  small: { scale: 0.45, quality: 70 },
+  coolr90: { rotate: 90, gains: [0.8, 0.95, 1.2] },
 };
+const defaultNames = ["r0", "r90", "r180", "r23", "rm127", "r23w", "warm", "warm2", "cool", "warmr23"];
 const only = opt("--only", "").split(",").filter(Boolean);
-const names = only.length ? only : Object.keys(transforms);
+const names = only.length ? only : defaultNames;
 
 const truthOf = (f: string) => {
   const m = f.match(/^(\d+)p(\d+)_(\d\d)(-[^.]*)?\.jpe?g$/i);
@@ -66,7 +71,11 @@ async function transform(file: string, t: Transform): Promise<Buffer> {
     img = sharp(data, { raw: { width: info.width, height: info.height, channels: 3 } });
   }
   if (t.rotate) img = img.rotate(t.rotate, { background: t.background ?? "#000000" });
-  return img.jpeg({ quality: 92 }).toBuffer();
+  if (t.scale) {
+    const m = await sharp(file).metadata();
+    img = sharp(await img.png().toBuffer()).resize(Math.round(m.width! * t.scale));
+  }
+  return img.jpeg({ quality: t.quality ?? 92 }).toBuffer();
 }
 
 const photos = fs.readdirSync(set).filter((f) => truthOf(f) && !truthOf(f)!.variant).sort();
