@@ -167,6 +167,9 @@ export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, p
   return g;
 }
 
+/** Mean ΔE00 by which the whole strip's placement may lie further from the chart than the first. */
+const WHOLE_STRIP_COST_SLACK = 3;
+
 /**
  * The axis was fitted over the candidate's blob, often the handle alone; a small error of its
  * angle moves the pads at the far end off the strip. Fitted again over the whole strip as placed.
@@ -177,5 +180,7 @@ export function refitWholeStrip(img: RgbImage, chart: StripChart, layout: Layout
   const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
   const again = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
   if (again) traceLine(trace, "whole strip", { fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing });
-  return again && again.convincing && again.fitScore >= 0.9 * g.fitScore ? again : g;
+  // Nor may the whole strip's placement move the pads to colours clearly further from the chart
+  // (one pad along, onto the surface past the tip).
+  return again && again.convincing && again.fitScore >= 0.9 * g.fitScore && again.colourCost <= g.colourCost + WHOLE_STRIP_COST_SLACK ? again : g;
 }
