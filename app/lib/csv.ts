@@ -37,7 +37,9 @@ export function csvTextSql(expr: string): string {
  * PostgreSQL's shortest round-trip digits. Plain decimals between 1e-4 and 1e15 read the same in
  * both; outside that PostgreSQL writes an exponent ("1e-05", "1.5e+15") that is rewritten the way
  * JavaScript writes it ("0.00001", "1500000000000000", "1e-7", "1e+21"). Null, NaN and the
- * infinities give an empty cell, and minus zero "0", as csvCell does.
+ * infinities give an empty cell, and minus zero "0", as csvCell does. Exact for every value below
+ * 2^53 in size; above that PostgreSQL may write a whole number with more digits than JavaScript
+ * would (17 significant digits, the same number), far beyond any reading or amount.
  */
 export function csvNumberSql(expr: string): string {
   const rewrite = `(select case
