@@ -53,7 +53,7 @@ export type ReadOptions = {
 };
 
 /** Refuses a photo where no strip of this chart shows: bare plastic or alien colours where the pads should be. */
-function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boolean) {
+function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boolean, lengthSeen: boolean) {
   const missing = chart.pads.filter((_, i) => ms[i].missing).map((p) => p.label);
   const blank = ms.filter((m) => m.plasticLike).length;
   // Nothing but bare plastic (or a plain surface) where the chart puts every pad: no strip was seen.
@@ -66,12 +66,16 @@ function checkStripShown(chart: StripChart, ms: PadMeasurement[], checkPads: boo
     return m.deltaE > 12 && m.deltaE > 2.5 * m.halfStep;
   }).length;
   const shown = chart.pads.length - missing.length;
-  if (chart.pads.length > 1 && (alien >= Math.ceil((2 * chart.pads.length) / 3) || (shown > 0 && alien === shown)))
-    throw new ReadingError(
+  const noMatch = () =>
+    new ReadingError(
       "no_strip",
       `No test strip matching the chart${chart.name ? ` "${chart.name}"` : ""} was found in this photo. Check the chart, lay the strip flat on a plain surface with the whole strip in view, and take the photo again.`,
     );
+  if (chart.pads.length > 1 && (alien >= Math.ceil((2 * chart.pads.length) / 3) || (shown > 0 && alien === shown))) throw noMatch();
   if (checkPads && missing.length && missing.length >= Math.max(1, Math.ceil(chart.pads.length / 4))) {
+    // Pads missing from something not the chart's length (a surface's line, another strip): no
+    // strip of this chart was seen, rather than this chart's strip short of pads.
+    if (!lengthSeen) throw noMatch();
     throw new ReadingError(
       "too_few_pads",
       `This strip shows fewer test pads than the chart expects (${shown} of ${chart.pads.length}; no pad where the chart puts ${[...new Set(missing)].join(", ")}). Check that the chosen chart matches this strip.`,
@@ -96,7 +100,7 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   const g = locateStrip(img, chart, options.trace, early);
   const measured = measurePads(img, chart, g, options.trace);
   const warnings = [...g.warnings, ...measured.warnings];
-  checkStripShown(chart, measured.pads, options.checkPads !== false);
+  checkStripShown(chart, measured.pads, options.checkPads !== false, g.lengthOk);
 
   const pads: PadReading[] = [];
   for (const [analyte, indices] of analyteGroups(chart.pads)) {
