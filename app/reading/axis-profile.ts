@@ -25,7 +25,22 @@ export function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number)
   // A fixed, short reach (work pixels): a soft shadow edge has little contrast over it.
   const eD = Math.min(2, 0.1 * w), eIn = 0.5 * w - eD, eOut = 0.5 * w + eD;
   const px = new Float32Array(3);
-  for (let i = 0; i < n; i++) {
+  // Only the part of the axis whose centre line lies inside the photo (with a pixel to spare) can
+  // hold a valid sample: the rest of the profile stays invalid without being sampled.
+  let tLo = tMin, tHi = tMax;
+  const clip = (c: number, u: number, size: number) => {
+    if (Math.abs(u) < 1e-9) {
+      if (c < -1 || c > size + 1) (tLo = Infinity), (tHi = -Infinity);
+      return;
+    }
+    const ta = (-1 - c) / u, tb = (size + 1 - c) / u;
+    tLo = Math.max(tLo, Math.min(ta, tb));
+    tHi = Math.min(tHi, Math.max(ta, tb));
+  };
+  clip(a.cx, a.ux, img.width);
+  clip(a.cy, a.uy, img.height);
+  const iStart = Math.max(0, Math.floor(tLo - tMin) - 1), iEnd = Math.min(n - 1, Math.ceil(tHi - tMin) + 1);
+  for (let i = iStart; i <= iEnd; i++) {
     const t = tMin + i;
     const bx = a.cx + t * a.ux, by = a.cy + t * a.uy;
     let r = 0, g = 0, b = 0, ok = true;
@@ -67,14 +82,18 @@ export function alongProfile(img: RgbImage, a: Axis, tMin: number, tMax: number)
     presence[i] = Math.max(best, edges[i]);
     valid[i] = 1;
   }
-  // light smoothing of presence
+  // Light smoothing: the mean of the valid samples within ±k, from running sums (linear in n).
   const k = Math.max(1, Math.round(w * 0.08));
+  const count = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) count[i + 1] = count[i] + valid[i];
   const smooth = (src: Float32Array) => {
+    const sum = new Float64Array(n + 1);
+    for (let i = 0; i < n; i++) sum[i + 1] = sum[i] + (valid[i] ? src[i] : 0);
     const sm = new Float32Array(n);
     for (let i = 0; i < n; i++) {
-      let s = 0, c = 0;
-      for (let j = Math.max(0, i - k); j <= Math.min(n - 1, i + k); j++) if (valid[j]) (s += src[j]), c++;
-      sm[i] = c ? s / c : 0;
+      const j0 = Math.max(0, i - k), j1 = Math.min(n, i + k + 1);
+      const c = count[j1] - count[j0];
+      sm[i] = c ? (sum[j1] - sum[j0]) / c : 0;
     }
     return sm;
   };
