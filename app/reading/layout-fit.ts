@@ -62,6 +62,9 @@ export type LayoutSearch = {
   padEndMm: number;
 };
 
+/** Offsets tried per coarse offset step when refining around the coarse grid's best before the full grid. */
+const FINE_STEPS = 6;
+
 /** Every distinct best placement (one per anchor and direction), and the best of them. */
 export function searchLayout(chart: StripChart, layout: Layout, profile: Profile, diff: PlasticDifference, s: LayoutSearch): { fits: LayoutFit[]; best: LayoutFit | null } {
   const { plus, minus, scale, scaleFromWidth, lengthOk, free } = s;
@@ -114,11 +117,16 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         if (!found.fit || score > found.fit.score) found.fit = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
       };
       for (let ki = 0; ki < nK; ki += 2) for (let oi = 0; oi < nOff; oi += offStride) consider(ki, oi);
-      if (found.fit) {
-        const kBest = Math.round((found.fit.scaleFactor - (1 - scaleRange)) / 0.01), oBest = Math.round((found.fit.offset - offMin) / offStep);
-        for (let ki = Math.max(0, kBest - 2); ki <= Math.min(nK - 1, kBest + 2); ki++)
-          for (let oi = Math.max(0, oBest - offStride); oi <= Math.min(nOff - 1, oBest + offStride); oi++) consider(ki, oi);
-      }
+      // The full grid around it, in two steps when the coarse offsets lie far apart (a large
+      // scale): every few offsets over the coarse step, then every offset over that.
+      const refine = (kReach: number, oReach: number, oStep: number) => {
+        const kBest = Math.round((found.fit!.scaleFactor - (1 - scaleRange)) / 0.01), oBest = Math.round((found.fit!.offset - offMin) / offStep);
+        for (let ki = Math.max(0, kBest - kReach); ki <= Math.min(nK - 1, kBest + kReach); ki++)
+          for (let oi = Math.max(0, oBest - oReach); oi <= Math.min(nOff - 1, oBest + oReach); oi += oStep) consider(ki, oi);
+      };
+      const midStride = Math.ceil(offStride / FINE_STEPS);
+      if (found.fit) refine(2, offStride, midStride);
+      if (found.fit && midStride > 1) refine(1, midStride, 1);
       // Another anchor that lands on a placement already found adds nothing.
       const f = found.fit;
       if (f && !fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
