@@ -4,6 +4,7 @@ import { ChartEditor, type EditChart } from "~/components/charts/chart-editor";
 import { Button, ButtonLink, Card, Field, Input, Notice, PageTitle, Select } from "~/components/ui";
 import { addBatch, ChartInputError, loadChart, saveVersion, SOURCES, updateBatch } from "~/features/charts/charts.server";
 import { requireChartRole } from "~/features/charts/guard.server";
+import { expiresOnField } from "~/features/charts/batch-form";
 import { LocalTime } from "~/components/When";
 import { timeWords } from "~/lib/dates";
 import { batchExpired } from "~/features/tubs/tubs.server";
@@ -29,11 +30,7 @@ export async function loader({ context, request, params }: Route.LoaderArgs) {
 
 const batchForm = z.object({
   lot: z.string().trim().min(1, "Enter the lot number.").max(60, "Keep the lot number under 60 characters."),
-  expiresOn: z
-    .string()
-    .trim()
-    .refine((v) => v === "" || /^\d{4}-\d{2}-\d{2}$/.test(v), "Enter the expiry date as a date.")
-    .transform((v) => v || null),
+  expiresOn: expiresOnField,
 });
 
 export async function action({ context, request, params }: Route.ActionArgs) {

@@ -3,6 +3,7 @@ import { z } from "zod";
 import { Button, Card, EmptyState, Field, Input, Notice, PageTitle } from "~/components/ui";
 import { ChartInputError, createChart, listCharts } from "~/features/charts/charts.server";
 import { requireChartRole } from "~/features/charts/guard.server";
+import { expiresOnField } from "~/features/charts/batch-form";
 import type { Route } from "./+types/list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Charts · Dipwell" }];
@@ -15,11 +16,7 @@ export async function loader({ context, request }: Route.LoaderArgs) {
 const form = z.object({
   name: z.string().trim().min(1, "Give the chart a name.").max(120, "Keep the name under 120 characters."),
   lot: z.string().trim().min(1, "Enter the batch's lot number.").max(60, "Keep the lot number under 60 characters."),
-  expiresOn: z
-    .string()
-    .trim()
-    .refine((v) => v === "" || /^\d{4}-\d{2}-\d{2}$/.test(v), "Enter the expiry date as a date.")
-    .transform((v) => v || null),
+  expiresOn: expiresOnField,
 });
 
 export async function action({ context, request }: Route.ActionArgs) {
