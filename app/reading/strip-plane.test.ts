@@ -43,7 +43,6 @@ describe("fitStripPlane", () => {
     pads: [4, 11, 18, 25, 32, 39].map((c, i) => ({ centerMm: c, sizeMm: 5, color: [[220, 150, 90], [150, 170, 210], [200, 120, 160], [230, 200, 80], [120, 180, 140], [190, 140, 110]][i] as [number, number, number] })),
   };
   const chart = parseChart(sceneChart(strip));
-  const layout = chartLayout(chart);
   const fitIn = (view?: number[], scene: { strip: SceneStrip; surface: [number, number, number]; lines?: SceneLine[] } = { strip, surface }) => {
     const { strip } = scene;
     const chart = parseChart(sceneChart(strip));

@@ -5,11 +5,9 @@
 // stalled, so a worker can be killed while a message is on the wire.
 import type { ChildProcess } from "node:child_process";
 import net from "node:net";
-import path from "node:path";
 import { startPostgres, superviseService, waitForPort, type Supervised } from "../../app/ops/services";
 
 const root = process.cwd();
-const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
 export const APP_PORT = Number(process.env.DIPWELL_FAULT_APP_PORT);
 export const APP_URL = `http://127.0.0.1:${APP_PORT}`;
 const PROXY_PORT = Number(process.env.DIPWELL_FAULT_SMTP_PROXY_PORT);

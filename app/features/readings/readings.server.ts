@@ -1,10 +1,10 @@
 // Strip photos and readings: presigned upload, registration (checks, hash, duplicates),
 // the reader run, the owner's review, history, CSV and trends.
-import { and, asc, count, desc, eq, gte, inArray, lte, ne } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, inArray, lte } from "drizzle-orm";
 import { isUuid } from "~/lib/ids";
 import { padsByReading, padsOf } from "./pads.server";
 import sharp from "sharp";
-import { parseChart, readStrip, ReadingError, type StripChart } from "~/reading";
+import { parseChart, type StripChart } from "~/reading";
 import { chartVersion, photo, reading, readingPad, treatment, tub as tubTable, user as userTable } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
