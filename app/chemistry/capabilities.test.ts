@@ -5,7 +5,6 @@ import { planTreatment } from "./plan";
 import { DEFAULT_PRODUCTS } from "./products";
 import { firstFillRoutine } from "./routines";
 import { GUIDANCE } from "./targets";
-import type { WaterInput, WaterPlan } from "./types";
 import { celsiusFromFahrenheit, displayAmount, kitchenMeasure, litresFromImperialGallons } from "./units";
 import { langelier } from "./lsi";
 import { base, doses } from "./test-water";

@@ -5,7 +5,7 @@ import { ACID_ROUND_PH_FLOOR, planTreatment } from "./plan";
 import { DEFAULT_PRODUCTS, NON_CHLORINE_SHOCK, WAIT_HOURS, cautionsFor, roleOf } from "./products";
 import { activeLock } from "./lock";
 import { routineTopUp } from "./routines";
-import type { Product, WaterInput, WaterPlan } from "./types";
+import type { Product } from "./types";
 import { validateWaterInput, WaterInputError } from "./validate";
 import { ProductError } from "./doses";
 import { base, doses } from "./test-water";

@@ -297,7 +297,7 @@ export function planTreatment(input: WaterInput, options: PlanOptions = {}): Wat
     steps: [],
     units,
     sanitiser: input.sanitiser,
-    sim: { san, combined, ph, ta, ch: chMeasured ?? th, cya },
+    sim: { san, combined, ph, ta, ch: chBound, cya },
     acidDosed: false,
     baseDosed: false,
   };
