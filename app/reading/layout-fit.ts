@@ -62,13 +62,17 @@ export type LayoutSearch = {
   padEndMm: number;
 };
 
+/** Scale searched either side of the base scale (share of it): with the strip's length confirmed, and from its width alone. */
+export const SCALE_RANGE_LENGTH = 0.05;
+export const SCALE_RANGE_WIDTH = 0.12;
+
 /** Offsets tried per coarse offset step when refining around the coarse grid's best before the full grid. */
 const FINE_STEPS = 6;
 
 /** Every distinct best placement (one per anchor and direction), and the best of them. */
 export function searchLayout(chart: StripChart, layout: Layout, profile: Profile, diff: PlasticDifference, s: LayoutSearch): { fits: LayoutFit[]; best: LayoutFit | null } {
   const { plus, minus, scale, scaleFromWidth, lengthOk, free } = s;
-  const scaleRange = lengthOk ? 0.05 : 0.12;
+  const scaleRange = lengthOk ? SCALE_RANGE_LENGTH : SCALE_RANGE_WIDTH;
   const fits: LayoutFit[] = [];
   let best: LayoutFit | null = null;
   // Middles and half-lengths (mm) of the spans scored: 70 % of each pad, 60 % of each gap.

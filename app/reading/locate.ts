@@ -63,7 +63,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
     // The fitted scale lies within about ±25 % of the one the width gives: a candidate far too
     // narrow for a readable strip is not fitted at all.
     if ((axis0.width / chart.strip.widthMm) * 1.5 < minPxPerMm) return null;
-    const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
+    const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm);
     if (g && g.pxPerMm < minPxPerMm) {
       traceLine(trace, "too small", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
       return null;

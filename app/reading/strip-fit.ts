@@ -4,7 +4,7 @@ import { alongProfile, type Profile } from "./axis-profile";
 import type { StripChart } from "./chart";
 import { traceLine, type Axis, type Interval, type PadPlacement, type StripGeometry, type Trace } from "./geometry";
 import type { RgbImage } from "./image";
-import { colourTrust, placementColourCost, pxPerMm, searchLayout, tAt, type Layout, type LayoutFit } from "./layout-fit";
+import { SCALE_RANGE_LENGTH, SCALE_RANGE_WIDTH, colourTrust, placementColourCost, pxPerMm, searchLayout, tAt, type Layout, type LayoutFit } from "./layout-fit";
 import { plasticDifference, type PlasticDifference } from "./plastic-difference";
 import { applyMap } from "./projective-1d";
 import { median } from "./stats";
@@ -27,12 +27,26 @@ export type PreparedAxis = {
   maxGap: number;
 };
 
-/** Refines a candidate axis on both long edges and profiles along it; null when nothing strip-like is there. */
-export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis): PreparedAxis | null {
+/** The walked length confirms the chart's length within this share of the length the width gives. */
+const LENGTH_RATIO_MIN = 0.85, LENGTH_RATIO_MAX = 1.18;
+
+/**
+ * The largest px per mm a fit can reach over the width's: the confirmed length's scale at most
+ * LENGTH_RATIO_MAX times the width's, then searched a little either side (layout-fit.ts).
+ */
+export const MAX_SCALE_OVER_WIDTH = Math.max(LENGTH_RATIO_MAX * (1 + SCALE_RANGE_LENGTH), 1 + SCALE_RANGE_WIDTH);
+
+/**
+ * Refines a candidate axis on both long edges and profiles along it; null when nothing strip-like
+ * is there, or when the strip's width is too narrow for any fit to reach `minPxPerMm`.
+ */
+export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0): PreparedAxis | null {
   const axis = refineAxis(img, refineAxis(img, axis0));
   const widthPx = axis.width;
   if (!(widthPx > 5)) return null;
   const scaleFromWidth = widthPx / chart.strip.widthMm;
+  // Nothing fitted along this axis could be large enough: no profile is taken.
+  if (scaleFromWidth * MAX_SCALE_OVER_WIDTH * 1.01 < minPxPerMm) return null;
   const expectedLength = chart.strip.lengthMm * scaleFromWidth;
   const reach = axis.length / 2 + expectedLength * 1.3;
   const profile = alongProfile(img, axis, -reach, reach);
@@ -63,7 +77,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   let free = false;
   if (edgeWalk) {
     const ratio = (plus.end - minus.end) / expectedLength;
-    if (!(plus.truncated || minus.truncated || ratio > 1.18)) return null;
+    if (!(plus.truncated || minus.truncated || ratio > LENGTH_RATIO_MAX)) return null;
     const ends = endsFromEdges(profile, axis.length, maxGap, expectedLength);
     if (ends) [plus, minus] = ends;
     else free = true;
@@ -72,7 +86,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   let scale = (plus.end - minus.end) / chart.strip.lengthMm;
   const ratio = scale / scaleFromWidth;
   let lengthOk = true;
-  if (free || plus.truncated || minus.truncated || ratio < 0.85 || ratio > 1.18) {
+  if (free || plus.truncated || minus.truncated || ratio < LENGTH_RATIO_MIN || ratio > LENGTH_RATIO_MAX) {
     lengthOk = false;
     scale = scaleFromWidth;
   }
@@ -156,8 +170,8 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
  * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
-export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace): StripGeometry | null {
-  const prepared = prepareAxis(img, chart, axis0);
+export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0): StripGeometry | null {
+  const prepared = prepareAxis(img, chart, axis0, minPxPerMm);
   if (!prepared) return null;
   const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;

@@ -1,0 +1,28 @@
+// One candidate's fit on a drawn strip: a candidate too narrow for any fit to reach the smallest
+// readable scale is dropped before its profile is taken; otherwise its pads are placed.
+import { describe, expect, it } from "vitest";
+import { drawScene, sceneChart, threePadStrip } from "../../tests/reading/strip-scene";
+import { parseChart } from "./chart";
+import { chartLayout } from "./layout-fit";
+import { MAX_SCALE_OVER_WIDTH, fitStrip, prepareAxis } from "./strip-fit";
+
+const strip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
+const chart = parseChart(sceneChart(strip));
+const img = drawScene(480, 360, [110, 105, 98], strip);
+const guess = { cx: 240, cy: 181, ux: 1, uy: 0, width: strip.widthMm * 4, length: 200 };
+
+describe("prepareAxis", () => {
+  it("profiles a candidate whose width allows a readable scale", () => {
+    const p = prepareAxis(img, chart, guess, 4);
+    expect(p).not.toBeNull();
+    expect(p!.scaleFromWidth).toBeCloseTo(4, 0);
+    const layout = chartLayout(chart);
+    const g = fitStrip(p!, chart, layout, Math.max(...layout.pads.map((x) => x[1])), false, undefined);
+    expect(g!.pxPerMm).toBeCloseTo(4, 0);
+  });
+  it("drops a candidate whose width no fit could stretch to the smallest readable scale", () => {
+    // The width gives about 4 px/mm; a fit reaches at most MAX_SCALE_OVER_WIDTH times that.
+    expect(prepareAxis(img, chart, guess, 4 * MAX_SCALE_OVER_WIDTH * 1.1)).toBeNull();
+    expect(prepareAxis(img, chart, guess, 4 * MAX_SCALE_OVER_WIDTH * 0.9)).not.toBeNull();
+  });
+});
