@@ -2,7 +2,7 @@
 import sharp from "sharp";
 import { describe, expect, it } from "vitest";
 import { startDecode } from "./image";
-import { decodeSearchCopy } from "./search-decode";
+import { decodeSearchCopy, searchDecodePays } from "./search-decode";
 import { makeSearchCopy } from "./search-copy";
 
 const grey = (width: number, height: number, v = 128) =>
@@ -35,5 +35,14 @@ describe("decodeSearchCopy", () => {
   });
   it("gives nothing for bytes that are no photo (the working decode reports the error)", async () => {
     expect(await decodeSearchCopy(Buffer.from("not a photo at all"), { width: 1600, height: 1200 })).toBeNull();
+  });
+});
+
+describe("searchDecodePays", () => {
+  it("decodes the search copy apart only from a photo at least twice the working size", () => {
+    expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 })).toBe(true);
+    expect(searchDecodePays({ width: 3200, height: 2400 }, { width: 1600, height: 1200 })).toBe(true);
+    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 })).toBe(false);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 })).toBe(false);
   });
 });

@@ -6,6 +6,16 @@ import { sharpInputOptions } from "./image";
 import { searchCopyFromReduced, searchFactor, type SearchCopy } from "./search-copy";
 
 /**
+ * Whether decoding the search copy apart from the working copy saves time: only when the photo is
+ * at least twice the working size, so that both decodes shrink on load and the small one costs a
+ * fraction of the working one. A photo near the working size would be decoded twice in full; its
+ * search copy is reduced from the working copy instead (search-copy.ts makeSearchCopy).
+ */
+export function searchDecodePays(original: { width: number; height: number }, working: { width: number; height: number }): boolean {
+  return Math.max(original.width, original.height) >= 2 * Math.max(working.width, working.height);
+}
+
+/**
  * The search copy of a photo whose working copy has the given size: reduced by the same whole
  * factor (sides rounded down), or null when there is nothing to reduce or the decode fails (the
  * search copy is then made from the working copy).

@@ -10,7 +10,7 @@ import { parseChart } from "../../app/reading/chart";
 import { brightCandidates } from "../../app/reading/bright-components";
 import { startDecode } from "../../app/reading/image";
 import { WIDE_DIV, locateStrip } from "../../app/reading/locate";
-import { decodeSearchCopy } from "../../app/reading/search-decode";
+import { decodeSearchCopy, searchDecodePays } from "../../app/reading/search-decode";
 import { measurePads } from "../../app/reading/measure-pads";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
@@ -47,7 +47,7 @@ for (let pass = 0; pass < 2; pass++)
     const buf = fs.readFileSync(c.file);
     let t = now();
     const started = await startDecode(buf);
-    const search = await decodeSearchCopy(buf, started.working);
+    const search = searchDecodePays(started.original, started.working) ? await decodeSearchCopy(buf, started.working) : null;
     const { image } = await started.decoded;
     const tDecode = ms(t);
     t = now();
