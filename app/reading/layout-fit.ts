@@ -106,7 +106,10 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
     // the full grid around its best: a pad's score changes smoothly over a quarter of its size.
     const offStride = Math.max(1, Math.floor((0.25 * minPadMm * scale) / offStep));
     for (const { tip, baseScale } of anchors) {
-      const found: { fit: LayoutFit | null } = { fit: null };
+      // The best so far: score, scale factor, offset, pad score, gap score (a typed array: the
+      // search tries thousands of placements and keeps no object per improvement).
+      const top = new Float64Array(5);
+      let any = false;
       const consider = (ki: number, oi: number) => {
         const k = 1 - scaleRange + 0.01 * ki, off = offMin + offStep * oi;
         // t of a point mm from the tip: tip + dir × (off + mm × sc)
@@ -118,21 +121,21 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         for (let j = 0; j < gapMid.length; j++) gapScore += diff.meanBetween(t0 + dt * (gapMid[j] - gapHalf[j]), t0 + dt * (gapMid[j] + gapHalf[j]));
         gapScore /= gapMid.length;
         const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
-        if (!found.fit || score > found.fit.score) found.fit = { score, tip, dir, scaleFactor: k, offset: off, baseScale, padScore, gapScore };
+        if (!any || score > top[0]) (any = true), (top[0] = score), (top[1] = k), (top[2] = off), (top[3] = padScore), (top[4] = gapScore);
       };
       for (let ki = 0; ki < nK; ki += 2) for (let oi = 0; oi < nOff; oi += offStride) consider(ki, oi);
       // The full grid around it, in two steps when the coarse offsets lie far apart (a large
       // scale): every few offsets over the coarse step, then every offset over that.
       const refine = (kReach: number, oReach: number, oStep: number) => {
-        const kBest = Math.round((found.fit!.scaleFactor - (1 - scaleRange)) / 0.01), oBest = Math.round((found.fit!.offset - offMin) / offStep);
+        const kBest = Math.round((top[1] - (1 - scaleRange)) / 0.01), oBest = Math.round((top[2] - offMin) / offStep);
         for (let ki = Math.max(0, kBest - kReach); ki <= Math.min(nK - 1, kBest + kReach); ki++)
           for (let oi = Math.max(0, oBest - oReach); oi <= Math.min(nOff - 1, oBest + oReach); oi += oStep) consider(ki, oi);
       };
       const midStride = Math.ceil(offStride / FINE_STEPS);
-      if (found.fit) refine(2, offStride, midStride);
-      if (found.fit && midStride > 1) refine(1, midStride, 1);
+      if (any) refine(2, offStride, midStride);
+      if (any && midStride > 1) refine(1, midStride, 1);
       // Another anchor that lands on a placement already found adds nothing.
-      const f = found.fit;
+      const f: LayoutFit | null = any ? { score: top[0], tip, dir, scaleFactor: top[1], offset: top[2], baseScale, padScore: top[3], gapScore: top[4] } : null;
       if (f && !fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
       if (f && (!best || f.score > best.score)) best = f;
     }

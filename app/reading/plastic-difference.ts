@@ -55,9 +55,9 @@ export function plasticDifference(profile: Profile, axisLength: number, widthPx:
     prefix[i + 1] = prefix[i] + d;
   }
   const meanBetween = (t0: number, t1: number) => {
-    let a = Math.round(t0 - profile.t0), b = Math.round(t1 - profile.t0);
-    if (b < a) [a, b] = [b, a];
-    a = Math.max(0, a), (b = Math.min(profile.n - 1, b));
+    // Called for every span of every placement tried: no array for the swap.
+    const ra = Math.round(t0 - profile.t0), rb = Math.round(t1 - profile.t0);
+    const a = Math.max(0, ra < rb ? ra : rb), b = Math.min(profile.n - 1, ra < rb ? rb : ra);
     if (b < a) return 0;
     return (prefix[b + 1] - prefix[a]) / (b - a + 1);
   };
