@@ -23,6 +23,13 @@ const NO_STRIP =
  */
 export const MIN_STRIP_SHARE = 0.2;
 
+/**
+ * Nor can a strip be longer than this many times the photo's diagonal: a strip running out of the
+ * photo is read, but a candidate so wide that the strip it implies could not even half fit in the
+ * photo is a patch of the surface (a sheet of paper, a bright tile), not fitted at all.
+ */
+export const MAX_STRIP_DIAGONALS = 2;
+
 /** The wide background scale (the box mean's radius is the search copy's long side over this), tried first. */
 export const WIDE_DIV = 16;
 
@@ -57,13 +64,14 @@ export type EarlySearch = { search: SearchCopy; wide?: StripCandidate[] };
 
 export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, early?: EarlySearch): StripGeometry {
   const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
+  const maxPxPerMm = (MAX_STRIP_DIAGONALS * Math.hypot(img.width, img.height)) / chart.strip.lengthMm;
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
   const fit = (axis0: Axis) => {
     // The fitted scale lies within about ±25 % of the one the width gives: a candidate far too
     // narrow for a readable strip is not fitted at all.
     if ((axis0.width / chart.strip.widthMm) * 1.5 < minPxPerMm) return null;
-    const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm);
+    const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm, maxPxPerMm);
     if (g && g.pxPerMm < minPxPerMm) {
       traceLine(trace, "too small", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
       return null;

@@ -1,10 +1,10 @@
-// One candidate's fit on a drawn strip: a candidate too narrow for any fit to reach the smallest
-// readable scale is dropped before its profile is taken; otherwise its pads are placed.
+// One candidate's fit on a drawn strip: a candidate too narrow (or too wide) for any fit to reach a
+// possible scale is dropped before its profile is taken; otherwise its pads are placed.
 import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { chartLayout } from "./layout-fit";
-import { MAX_SCALE_OVER_WIDTH, fitStrip, prepareAxis } from "./strip-fit";
+import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, fitStrip, prepareAxis } from "./strip-fit";
 
 const strip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(strip));
@@ -24,5 +24,10 @@ describe("prepareAxis", () => {
     // The width gives about 4 px/mm; a fit reaches at most MAX_SCALE_OVER_WIDTH times that.
     expect(prepareAxis(img, chart, guess, 4 * MAX_SCALE_OVER_WIDTH * 1.1)).toBeNull();
     expect(prepareAxis(img, chart, guess, 4 * MAX_SCALE_OVER_WIDTH * 0.9)).not.toBeNull();
+  });
+  it("drops a candidate so wide that every fit's scale would exceed the largest possible", () => {
+    // The width gives about 4 px/mm; a fit reaches at least MIN_SCALE_UNDER_WIDTH times that.
+    expect(prepareAxis(img, chart, guess, 0, 4 * MIN_SCALE_UNDER_WIDTH * 0.9)).toBeNull();
+    expect(prepareAxis(img, chart, guess, 0, 4 * MIN_SCALE_UNDER_WIDTH * 1.1)).not.toBeNull();
   });
 });

@@ -35,18 +35,21 @@ const LENGTH_RATIO_MIN = 0.85, LENGTH_RATIO_MAX = 1.18;
  * LENGTH_RATIO_MAX times the width's, then searched a little either side (layout-fit.ts).
  */
 export const MAX_SCALE_OVER_WIDTH = Math.max(LENGTH_RATIO_MAX * (1 + SCALE_RANGE_LENGTH), 1 + SCALE_RANGE_WIDTH);
+/** The smallest px per mm a fit can reach under the width's (the same bounds the other way). */
+export const MIN_SCALE_UNDER_WIDTH = Math.min(LENGTH_RATIO_MIN * (1 - SCALE_RANGE_LENGTH), 1 - SCALE_RANGE_WIDTH);
 
 /**
  * Refines a candidate axis on both long edges and profiles along it; null when nothing strip-like
- * is there, or when the strip's width is too narrow for any fit to reach `minPxPerMm`.
+ * is there, or when the strip's width is too narrow for any fit to reach `minPxPerMm`, or so wide
+ * that every fit's scale would exceed `maxPxPerMm`.
  */
-export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0): PreparedAxis | null {
+export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0, maxPxPerMm = Infinity): PreparedAxis | null {
   const axis = refineAxis(img, refineAxis(img, axis0));
   const widthPx = axis.width;
   if (!(widthPx > 5)) return null;
   const scaleFromWidth = widthPx / chart.strip.widthMm;
   // Nothing fitted along this axis could be large enough: no profile is taken.
-  if (scaleFromWidth * MAX_SCALE_OVER_WIDTH * 1.01 < minPxPerMm) return null;
+  if (scaleFromWidth * MAX_SCALE_OVER_WIDTH * 1.01 < minPxPerMm || scaleFromWidth * MIN_SCALE_UNDER_WIDTH * 0.99 > maxPxPerMm) return null;
   const expectedLength = chart.strip.lengthMm * scaleFromWidth;
   const reach = axis.length / 2 + expectedLength * 1.3;
   const profile = alongProfile(img, axis, -reach, reach);
@@ -170,8 +173,8 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
  * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
-export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0): StripGeometry | null {
-  const prepared = prepareAxis(img, chart, axis0, minPxPerMm);
+export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0, maxPxPerMm = Infinity): StripGeometry | null {
+  const prepared = prepareAxis(img, chart, axis0, minPxPerMm, maxPxPerMm);
   if (!prepared) return null;
   const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;
