@@ -9,6 +9,7 @@ import * as s from "~/db/schema";
 import { auth } from "~/lib/auth.server";
 import { userContext } from "~/lib/context";
 import { db } from "~/lib/db.server";
+import { sessionUser } from "~/lib/session.server";
 import type { Role } from "~/lib/permissions";
 
 export const PASSWORD = "correct-horse-battery";
@@ -75,8 +76,7 @@ export async function callRoute(
   const url = new URL(opts.url, "http://127.0.0.1:3100");
   const request = new Request(url, { method, headers, body });
   const context = new RouterContextProvider();
-  const found = await auth.api.getSession({ headers });
-  context.set(userContext, found?.user ?? null);
+  context.set(userContext, await sessionUser(headers));
   try {
     const out = await fn({ request, params: opts.params ?? {}, context, url, pattern: url.pathname });
     return asResult(out);
