@@ -414,6 +414,34 @@ export const treatment = pgTable(
   (t) => [index("treatment_tub_added_idx").on(t.tubId, t.addedAt), index("treatment_reading_idx").on(t.readingId)],
 );
 
+/**
+ * Each tub's water as the technicians' dashboard shows it, one row per tub, kept up to date by
+ * triggers in the database (drizzle/0008) whenever the tub's readings, their pads or its
+ * treatments change: the current water (the latest sure reading: read without doubts, confirmed,
+ * entered by hand, or reviewed) with its pads, the readings waiting for review, and the last
+ * treatment. The dashboard reads one row per tub instead of looking through each tub's history.
+ */
+export const tubWater = pgTable("tub_water", {
+  tubId: uuid("tub_id")
+    .primaryKey()
+    .references(() => tub.id, { onDelete: "cascade" }),
+  /** the current water: the latest sure reading, or null before the first one */
+  readingId: uuid("reading_id"),
+  takenAt: timestamp("taken_at", { withTimezone: true }),
+  /** that reading's pads in analyte order: names, units and values (confirmed, else as read) side by side */
+  analytes: text("analytes").array(),
+  units: text("units").array(),
+  vals: doublePrecision("vals").array(),
+  /** readings unsure and not yet reviewed: how many, and when the newest was taken */
+  waiting: integer("waiting").notNull().default(0),
+  waitingNewest: timestamp("waiting_newest", { withTimezone: true }),
+  /** the last treatment logged */
+  treatmentName: text("treatment_name"),
+  treatmentAmount: doublePrecision("treatment_amount"),
+  treatmentUnit: text("treatment_unit"),
+  treatedAt: timestamp("treated_at", { withTimezone: true }),
+});
+
 /** A guided routine in progress, e.g. first-fill setup. */
 export const routineRun = pgTable(
   "routine_run",

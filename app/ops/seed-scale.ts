@@ -198,11 +198,23 @@ export async function seedScale(opts: ScaleOptions) {
          from tub t cross join generate_series(1, 12) n where t.batch_id = $1::uuid`,
       [batchId],
     );
+    // The dashboard's row per tub (tub_water), which the triggers would have kept during an
+    // ordinary load, set once from the loaded history.
+    await step(
+      "current water per tub",
+      `insert into tub_water (tub_id, reading_id, taken_at, analytes, units, vals, waiting, waiting_newest, treatment_name, treatment_amount, treatment_unit, treated_at)
+       select v.tub_id, v.reading_id, v.taken_at, v.analytes, v.units, v.vals, v.waiting, v.waiting_newest, v.treatment_name, v.treatment_amount, v.treatment_unit, v.treated_at
+         from tub_water_now v join tub t on t.id = v.tub_id and t.batch_id = $1::uuid
+       on conflict (tub_id) do update set (reading_id, taken_at, analytes, units, vals, waiting, waiting_newest, treatment_name, treatment_amount, treatment_unit, treated_at) =
+          (excluded.reading_id, excluded.taken_at, excluded.analytes, excluded.units, excluded.vals, excluded.waiting, excluded.waiting_newest,
+           excluded.treatment_name, excluded.treatment_amount, excluded.treatment_unit, excluded.treated_at)`,
+      [batchId],
+    );
     await client.query("commit");
     // A business's tables of years' standing have been vacuumed many times over: their visibility
     // maps are set, so index-only scans stay index-only. Freshly bulk-loaded tables have none, and
     // the planner would then prefer whole-table scans that no real history would see.
-    await client.query("vacuum (analyze) reading, reading_pad, treatment, visit_note, tub, tub_access");
+    await client.query("vacuum (analyze) reading, reading_pad, treatment, visit_note, tub, tub_access, tub_water");
     const {
       rows: [counts],
     } = await client.query(

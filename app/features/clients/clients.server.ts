@@ -157,7 +157,7 @@ export type DashboardView = (typeof DASHBOARD_VIEWS)[number];
 
 type DashboardSqlRow = {
   id: string; name: string; sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string; everyDays: number; ownerName: string; timeZone: string;
-  latestAt: Date | null; pads: { a: string; u: string | null; v: number | null }[] | null;
+  latestAt: Date | null; analytes: string[] | null; units: (string | null)[] | null; vals: (number | null)[] | null;
   waiting: number; waitingNewest: Date | null; overdue: boolean;
   trName: string | null; trAmount: number | null; trUnit: string | null; trAt: Date | null;
 };
@@ -175,10 +175,9 @@ function bandsOf(t: { sanitiser: "chlorine" | "bromine"; targets: unknown; guida
  * latest sure reading: read without doubts, confirmed, entered by hand, or reviewed), the readings
  * waiting for review (count and newest) and whether a value of the current water is outside the
  * tub's target bands; tubs needing attention first (readings to review 4, out of range 2, test
- * overdue 1), then by name. Totals over every client tub come from the same pass. Each lookup is
- * an index probe per tub (reading_current_idx, reading_waiting_idx, the pads of one reading), so
- * the cost grows with the number of tubs, not with their history; the pads, owner and last
- * treatment are fetched for the rows of the page only.
+ * overdue 1), then by name. Totals over every client tub come from the same pass. Each tub's
+ * water, waiting readings and last treatment come from its one row in tub_water (kept by triggers,
+ * drizzle/0008), so the cost grows with the number of tubs, not with their history.
  *
  * The bands come from the chemistry code, once per distinct sanitiser, guidance and overrides
  * among the tubs (usually a handful), passed in as one JSON value and read out of it once (a
@@ -188,72 +187,64 @@ async function dashboardPage(user: SessionUser, opts: { q: string; view: Dashboa
   const scope = [technicianParam(user), opts.q ? likePattern(opts.q) : null];
   const inScope = `${clientTubFilter("t")} and ($2::text is null or t.name ilike $2 or exists (select 1 from "user" o where o.id = t.owner_id and o.name ilike $2))`;
   const kinds = (
-    await db.$client.query<{ sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }>(
-      `select distinct t.sanitiser, coalesce(t.targets, 'null'::jsonb) as targets, t.guidance from tub t where ${inScope}`,
-      scope,
-    )
+    await db.$client.query<{ sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }>({
+      name: "dipwell-dashboard-kinds",
+      text: `select distinct t.sanitiser, coalesce(t.targets, 'null'::jsonb) as targets, t.guidance from tub t where ${inScope}`,
+      values: scope,
+    })
   ).rows;
   stopIfAborted(opts.signal);
-  const bands = kinds.flatMap((k, i) =>
-    Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ i, a: analyte, min: r.min, max: r.max }] : [])),
-  );
-  const kindJson = kinds.map((k, i) => ({ i, s: k.sanitiser, t: k.targets, g: k.guidance }));
+  const kindJson = kinds.map((k, i) => {
+    const bands = Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ a: analyte, min: r.min, max: r.max }] : []));
+    return { i, s: k.sanitiser, t: k.targets, g: k.guidance, a: bands.map((b) => b.a), lo: bands.map((b) => b.min), hi: bands.map((b) => b.max) };
+  });
   const r = await db.$client.query<DashboardSqlRow & DashboardTotalsSql & { score: number | null }>({
     // A named statement: planned once per connection, not on every visit to the dashboard.
     name: "dipwell-dashboard-page",
-    text: `with kind as (
-        select (k->>'i')::int as i, k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance from jsonb_array_elements($3::jsonb) k
-      ), band as materialized (
-        select (b->>'i')::int as i, b->>'a' as analyte, (b->>'min')::float8 as min, (b->>'max')::float8 as max from jsonb_array_elements($4::jsonb) b
+    text: `with kind as materialized (
+        select (k->>'i')::int as i, k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance,
+               array(select jsonb_array_elements_text(k->'a')) as band_analytes,
+               array(select x::float8 from jsonb_array_elements_text(k->'lo') x) as band_min,
+               array(select x::float8 from jsonb_array_elements_text(k->'hi') x) as band_max
+          from jsonb_array_elements($3::jsonb) k
       ), scored as materialized (
         select x.*, (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
           from (
-            select t.id, t.name, t.owner_id, t.test_every_days, t.time_zone, t.sanitiser, t.targets, t.guidance, cur.id as cur_id, cur.taken_at as latest_at,
-                   w.n as waiting, w.newest as waiting_newest,
-                   (cur.taken_at is null or cur.taken_at + t.test_every_days * interval '24 hours' < $5::timestamptz) as overdue,
+            select t.id, t.name, t.owner_id, t.test_every_days, t.time_zone, t.sanitiser, t.targets, t.guidance, w.taken_at as latest_at,
+                   w.analytes, w.units, w.vals, coalesce(w.waiting, 0) as waiting, w.waiting_newest,
+                   w.treatment_name, w.treatment_amount, w.treatment_unit, w.treated_at,
+                   (w.taken_at is null or w.taken_at + t.test_every_days * interval '24 hours' < $4::timestamptz) as overdue,
+                   -- each of the tub's bands (a handful) looks its value up in the current water's arrays: no join per tub
                    exists (
-                     select 1 from reading_pad p join band b on b.i = k.i and b.analyte = p.analyte
-                      where p.reading_id = cur.id
-                        and (coalesce(p.confirmed_value, p.read_value) < b.min or coalesce(p.confirmed_value, p.read_value) > b.max)
+                     select 1 from unnest(k.band_analytes, k.band_min, k.band_max) b(analyte, min, max)
+                      cross join lateral (select w.vals[array_position(w.analytes, b.analyte)] as v) p
+                      where p.v < b.min or p.v > b.max
                    ) as out_of_range
               from tub t
               join kind k on k.sanitiser = t.sanitiser::text and k.targets = coalesce(t.targets, 'null'::jsonb) and k.guidance = t.guidance
-              left join lateral (
-                select r.id, r.taken_at from reading r
-                 where r.tub_id = t.id and r.status in ('read', 'confirmed', 'manual') and (not r.needs_review or r.reviewed_at is not null)
-                 order by r.taken_at desc limit 1
-              ) cur on true
-              left join lateral (
-                select count(*)::int as n, max(r.taken_at) as newest
-                  from reading r where r.tub_id = t.id and r.reviewed_at is null and r.needs_review
-              ) w on true
+              left join tub_water w on w.tub_id = t.id
              where ${inScope}
             offset 0
           ) x
       ), totals as (
         select count(*)::int as "allTubs", count(*) filter (where score > 0)::int as "allAttention", coalesce(sum(waiting), 0)::int as "allWaiting",
                count(*) filter (where out_of_range)::int as "allOutOfRange", count(*) filter (where overdue)::int as "allOverdue",
-               (case when $6::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed"
+               (case when $5::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed"
           from scored
       )
       select totals.*, p.score, p.id, p.name, p.sanitiser, p.targets, p.guidance, p.test_every_days as "everyDays", p.time_zone as "timeZone",
-             o.name as "ownerName", p.latest_at as "latestAt", p.waiting, p.waiting_newest as "waitingNewest", p.overdue,
-             (select json_agg(json_build_object('a', x.analyte, 'u', x.unit, 'v', coalesce(x.confirmed_value, x.read_value)) order by x.analyte)
-                from reading_pad x where x.reading_id = p.cur_id) as pads,
-             tr.product_name as "trName", tr.amount as "trAmount", tr.unit as "trUnit", tr.added_at as "trAt"
+             o.name as "ownerName", p.latest_at as "latestAt", p.analytes, p.units, p.vals, p.waiting, p.waiting_newest as "waitingNewest", p.overdue,
+             p.treatment_name as "trName", p.treatment_amount as "trAmount", p.treatment_unit as "trUnit", p.treated_at as "trAt"
         from totals
         left join lateral (
           select * from scored
-           where $6::text <> 'attention' or score > 0
+           where $5::text <> 'attention' or score > 0
            order by score desc, name collate "und-x-icu", id
-           limit $7 offset (case when $8::int < totals."allListed" then $8::int else 0 end)
+           limit $6 offset (case when $7::int < totals."allListed" then $7::int else 0 end)
         ) p on true
         left join "user" o on o.id = p.owner_id
-        left join lateral (
-          select x.product_name, x.amount, x.unit, x.added_at from treatment x where x.tub_id = p.id order by x.added_at desc limit 1
-        ) tr on true
        order by p.score desc, p.name collate "und-x-icu", p.id`,
-    values: [...scope, JSON.stringify(kindJson), JSON.stringify(bands), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
+    values: [...scope, JSON.stringify(kindJson), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
   });
   const [first] = r.rows;
   const totals: DashboardTotals = first
@@ -280,7 +271,8 @@ export async function dashboard(
   const page = pageOf(listed, DASHBOARD_PAGE_SIZE, asked);
   const rows = found.rows.map((t) => {
     const targets = bandsOf(t);
-    const outOfRange = (t.pads ?? []).flatMap((p) => {
+    const pads = (t.analytes ?? []).map((a, i) => ({ a, u: t.units?.[i] ?? null, v: t.vals?.[i] ?? null }));
+    const outOfRange = pads.flatMap((p) => {
       const r = targets[p.a];
       if (p.v === null || !r || (r.min === 0 && r.max === 0)) return [];
       const unit = p.u ? ` ${p.u}` : "";
@@ -288,7 +280,7 @@ export async function dashboard(
       if (p.v > r.max) return [`${analyteName(p.a)} high (${p.v}${unit}; aim ${r.min}–${r.max})`];
       return [];
     });
-    const statuses = (t.pads ?? []).flatMap((p) => (p.v === null ? [] : [{ analyte: p.a, label: analyteName(p.a), value: p.v, unit: p.u ?? "", status: rangeStatus(p.v, targets[p.a]) }]));
+    const statuses = pads.flatMap((p) => (p.v === null ? [] : [{ analyte: p.a, label: analyteName(p.a), value: p.v, unit: p.u ?? "", status: rangeStatus(p.v, targets[p.a]) }]));
     const dueAt = t.latestAt ? new Date(t.latestAt.getTime() + t.everyDays * 86_400_000) : null;
     return {
       id: t.id,
