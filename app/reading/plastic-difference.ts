@@ -10,6 +10,8 @@ export type PlasticDifference = {
   bare: number[];
   /** Mean difference from bare plastic between t0 and t1 (either order; clipped to the profile). */
   meanBetween: (t0: number, t1: number) => number;
+  /** The difference summed over the profile's indices below each index (n + 1 entries): the same means, taken inline by a search. */
+  prefix: Float64Array;
 };
 
 /** Local light along the strip from the surface beside it: a median over about ±1 strip width. */
@@ -61,5 +63,5 @@ export function plasticDifference(profile: Profile, axisLength: number, widthPx:
     if (b < a) return 0;
     return (prefix[b + 1] - prefix[a]) / (b - a + 1);
   };
-  return { bare, meanBetween };
+  return { bare, meanBetween, prefix };
 }
