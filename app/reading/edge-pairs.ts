@@ -49,6 +49,9 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const cosT = new Float32Array(nT), sinT = new Float32Array(nT);
   for (let k = 0; k < nT; k++) (cosT[k] = Math.cos((k * Math.PI) / nT)), (sinT[k] = Math.sin((k * Math.PI) / nT));
   const acc = new Float32Array(nT * nR);
+  // A vote's weight by how far (in angle steps) its direction lies from the gradient's.
+  const voteWeight = new Float64Array(2 * ANGLE_REACH + 1);
+  for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) voteWeight[dk + ANGLE_REACH] = 1 - Math.abs(dk) / (ANGLE_REACH + 1);
   const ex: number[] = [], ey: number[] = [], et: number[] = [];
   for (let y = 1; y < h - 1; y++)
     for (let x = 1; x < w - 1; x++) {
@@ -72,7 +75,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
         if (k < 0) (k += nT), (sign = -1);
         else if (k >= nT) (k -= nT), (sign = -1);
         const r = Math.round(sign * (x * cosT[k] + y * sinT[k])) + diag;
-        acc[k * nR + r] += 1 - Math.abs(dk) / (ANGLE_REACH + 1);
+        acc[k * nR + r] += voteWeight[dk + ANGLE_REACH];
       }
     }
   const aspect = chart.strip.lengthMm / chart.strip.widthMm;
@@ -128,7 +131,8 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   for (let j = 0; j < et.length; j++) sorted[fill[et[j]]++] = j;
   const out: StripCandidate[] = [];
   const chosen: Pair[] = [];
-  const sAlong: number[] = [];
+  // Positions along the lines of a pair's edge pixels (a typed array, sorted without a comparator).
+  let sAlong = new Float64Array(256);
   for (let oi = 0; oi < nPairs; oi++) {
     const pi = order[oi];
     const p: Pair = { k: pairK[pi], r1: pairR1[pi], r2: pairR2[pi], score: pairScore[pi] };
@@ -137,7 +141,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     chosen.push(p);
     // Extent: where edge pixels of either line lie along the lines.
     const c = cosT[p.k], sn = sinT[p.k];
-    sAlong.length = 0;
+    let nAlong = 0;
     let n1 = 0, n2 = 0;
     for (let dk = -(ANGLE_REACH + 1); dk <= ANGLE_REACH + 1; dk++) {
       const k = (p.k + dk + nT) % nT;
@@ -148,21 +152,26 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
         if (!on1 && !on2) continue;
         if (on1) n1++;
         else n2++;
-        sAlong.push(-ex[j] * sn + ey[j] * c);
+        if (nAlong === sAlong.length) {
+          const grown = new Float64Array(2 * nAlong);
+          grown.set(sAlong);
+          sAlong = grown;
+        }
+        sAlong[nAlong++] = -ex[j] * sn + ey[j] * c;
       }
     }
     if (n1 < 5 || n2 < 5) continue;
-    sAlong.sort((a, b) => a - b);
+    const along = sAlong.subarray(0, nAlong).sort();
     // Longest run of edge pixels with no gap longer than two strip widths.
     const gap = Math.max(4, 2 * (p.r2 - p.r1));
     let bestA = 0, bestB = 0, a0 = 0;
-    for (let j = 1; j <= sAlong.length; j++) {
-      if (j === sAlong.length || sAlong[j] - sAlong[j - 1] > gap) {
-        if (sAlong[j - 1] - sAlong[a0] > sAlong[bestB] - sAlong[bestA]) (bestA = a0), (bestB = j - 1);
+    for (let j = 1; j <= along.length; j++) {
+      if (j === along.length || along[j] - along[j - 1] > gap) {
+        if (along[j - 1] - along[a0] > along[bestB] - along[bestA]) (bestA = a0), (bestB = j - 1);
         a0 = j;
       }
     }
-    const s0 = sAlong[bestA], s1 = sAlong[bestB];
+    const s0 = along[bestA], s1 = along[bestB];
     const width = p.r2 - p.r1, length = s1 - s0;
     if (length < 2.5 * width) continue;
     const rm = (p.r1 + p.r2) / 2 - diag, sm = (s0 + s1) / 2;
