@@ -47,7 +47,7 @@ export async function registerJobs(boss: PgBoss) {
 }
 
 /**
- * Strip photos: as many jobs in flight as reader threads (one per core), each read in a thread of
+ * Strip photos: as many jobs in flight as reader processes (one per core), each read in a process of
  * the pool so the worker's own thread stays free for e-mail and the scan.
  */
 export async function registerReadingWork(boss: PgBoss, pool = createReaderPool()) {

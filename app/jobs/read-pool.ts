@@ -1,16 +1,30 @@
-// A pool of reader threads sized to the machine's cores. Each thread reads one photo at a time; a
-// thread that dies fails only its own photo (the job is retried) and is replaced.
+// A pool of reader processes sized to the machine's cores. Each process reads one photo at a time;
+// a process that dies fails only its own photo (the job is retried) and is replaced. The processes
+// run at a lower priority (nice 10), every thread of them: where the worker shares the machine
+// with the web app, pages are served first and reading takes the rest of the processor.
+import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
+import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
-import { Worker } from "node:worker_threads";
+import { fileURLToPath } from "node:url";
 import { readStrip, ReadingError, type StripChart, type StripReading } from "../reading";
 
-const THREAD_URL = new URL("./read-thread.ts", import.meta.url).href;
+const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
+/** How far reading steps back for the web app (the `nice` increment, 0–19). */
+const READER_NICENESS = 10;
+const NICE = ["/usr/bin/nice", "/bin/nice"].find((p) => existsSync(p));
 
 type Pending = { resolve: (r: StripReading) => void; reject: (e: Error) => void };
-type Slot = { worker: Worker; busy: Pending & { id: number } | null };
+type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
+
+/** A reader process: Node with the TypeScript loader, started through `nice` where there is one. */
+function startReader(): ChildProcess {
+  const node = [process.execPath, "--import", import.meta.resolve("tsx"), PROCESS_FILE];
+  const [command, ...args] = NICE ? [NICE, "-n", String(READER_NICENESS), ...node] : node;
+  return spawnProcess(command, args, { stdio: ["ignore", "inherit", "inherit", "ipc"], serialization: "advanced" });
+}
 
 export function readerPoolSize() {
-  const fromEnv = Number(process.env.READER_THREADS);
+  const fromEnv = Number(process.env.READER_PROCESSES ?? process.env.READER_THREADS);
   return Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : Math.max(1, availableParallelism());
 }
 
@@ -19,19 +33,16 @@ export function createReaderPool(size = readerPoolSize()) {
   const waiting: { bytes: Buffer; chart: StripChart; p: Pending }[] = [];
   let nextId = 1;
   let closed = false;
-  // Threads that die one after another without reading anything (they cannot start): stop
-  // replacing them and read in this thread instead, rather than spinning up threads for ever.
+  // Processes that die one after another without reading anything (they cannot start): stop
+  // replacing them and read in this process instead, rather than starting processes for ever.
   let deathsInRow = 0;
   let inProcess = false;
 
   const spawn = (): Slot => {
-    // The worker runs TypeScript through tsx; each thread registers tsx, then loads the reader.
-    const worker = new Worker(
-      `import("tsx/esm/api").then((api) => { api.register(); return import(${JSON.stringify(THREAD_URL)}); })`,
-      { eval: true },
-    );
+    const worker = startReader();
     const slot: Slot = { worker, busy: null };
-    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading; error?: { code: string | null; message: string } }) => {
+    worker.on("message", (msg: { ready?: true; id: number; ok: boolean; result?: StripReading; error?: { code: string | null; message: string } }) => {
+      if (msg.ready) return;
       const task = slot.busy;
       if (!task || task.id !== msg.id) return;
       slot.busy = null;
@@ -52,10 +63,10 @@ export function createReaderPool(size = readerPoolSize()) {
       slot.busy = null;
       const i = slots.indexOf(slot);
       if (i >= 0) slots.splice(i, 1);
-      task?.reject(new Error(`reader thread stopped: ${why}`));
+      task?.reject(new Error(`reader process stopped: ${why}`));
       if (closed) return;
       if (++deathsInRow > 2 * size) {
-        if (!inProcess) console.error(`reader threads keep stopping (${why}); reading in the worker's own thread`);
+        if (!inProcess) console.error(`reader processes keep stopping (${why}); reading in the worker's own process`);
         inProcess = true;
         for (const w of waiting.splice(0)) readStrip(w.bytes, w.chart, { crops: true }).then(w.p.resolve, w.p.reject);
         return;
@@ -64,7 +75,7 @@ export function createReaderPool(size = readerPoolSize()) {
       pump();
     };
     worker.on("error", (e) => lost(e.message));
-    worker.on("exit", (code) => lost(`exit ${code}`));
+    worker.on("exit", (code, signal) => lost(signal ? `signal ${signal}` : `exit ${code}`));
     return slot;
   };
 
@@ -74,7 +85,7 @@ export function createReaderPool(size = readerPoolSize()) {
       const { bytes, chart, p } = waiting.shift()!;
       const id = nextId++;
       slot.busy = { id, ...p };
-      slot.worker.postMessage({ id, bytes, chart });
+      slot.worker.send({ id, bytes, chart });
     }
   };
 
@@ -91,7 +102,9 @@ export function createReaderPool(size = readerPoolSize()) {
     },
     async close() {
       closed = true;
-      await Promise.all(slots.map((s) => s.worker.terminate()));
+      await Promise.all(
+        slots.map((s) => (s.worker.exitCode !== null || s.worker.signalCode !== null ? null : new Promise((done) => (s.worker.once("exit", done), s.worker.kill())))),
+      );
     },
   };
 }

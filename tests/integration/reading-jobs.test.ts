@@ -176,9 +176,9 @@ describe("the reading job", () => {
     const r = await register(await upload(jpeg));
     const { readingId } = r.data as { readingId: string };
     const broken = async () => {
-      throw new Error("reader thread stopped: exit 1");
+      throw new Error("reader process stopped: exit 1");
     };
-    await expect(readPendingReading(readingId, { reader: broken })).rejects.toThrow(/reader thread/); // retried by pg-boss
+    await expect(readPendingReading(readingId, { reader: broken })).rejects.toThrow(/reader process/); // retried by pg-boss
     expect(await readPendingReading(readingId, { reader: broken, finalAttempt: true })).toBe("failed");
     const row = await db.query.reading.findFirst({ where: and(eq(s.reading.id, readingId)) });
     expect(row!.status).toBe("failed");

@@ -49,7 +49,7 @@ async function fail(readingId: string, message: string, detail: object | null = 
 
 /**
  * Reads one pending reading's photo and stores the result. Throws on a failure worth retrying
- * (storage down, the reader thread died); on the final attempt such a failure is stored as a
+ * (storage down, the reader process died); on the final attempt such a failure is stored as a
  * failed reading instead, so the owner is never left waiting.
  */
 export async function readPendingReading(
