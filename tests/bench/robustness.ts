@@ -4,10 +4,12 @@
  * the silent misreads (a pad more than one step off that was not flagged for review).
  *
  *   npx tsx tests/bench/robustness.ts [--n 60] [--seed0 7000] [--cache /tmp/dipwell-robustness]
- *     [--charts a.json,b.json] [--harsh]
+ *     [--charts a.json,b.json] [--harsh] [--only <seed> [--trace]]
  *
  * --charts replaces the four charts swept; --harsh renders every photo in harsher conditions
  * (strong perspective, blur, noise, glare, uneven light, under- and overexposure, low JPEG quality).
+ * --only reads the one photo of that seed in the sweep (same conditions as in the full sweep);
+ * --trace prints the locator's diagnostics for it on stderr.
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -37,8 +39,11 @@ function toIndex(sw: { value: number }[], v: number): number {
 
 let pads = 0, in05 = 0, in1 = 0, silent = 0, flagged = 0;
 const fails: string[] = [], worst: string[] = [];
+const only = args.includes("--only") ? Number(opt("--only", "0")) : null;
+const trace = args.includes("--trace") ? (line: string) => console.error(line) : undefined;
 for (let i = 0; i < N; i++) {
   const seed = seed0 + i;
+  if (only !== null && seed !== only) continue;
   const ci = i % charts.length, chart = charts[ci];
   const surface = surfaces[Math.floor(i / 4) % 5]!;
   const o = {
@@ -55,17 +60,22 @@ for (let i = 0; i < N; i++) {
   const tag = `${seed}${harsh ? " harsh" : ""} ${path.basename(chartFiles[ci]!, ".json")} ${surface}${o.surfaceColor ?? ""} ${o.cast}${o.shadow ? " shadow" : ""}${o.glare ? " glare" : ""}`;
   const key = `${seed}${harsh ? "-harsh" : ""}-${path.basename(chartFiles[ci]!, ".json")}`;
   const file = path.join(cache, `${key}.jpg`), tfile = path.join(cache, `${key}.json`);
-  let truth: { analyte: string; index: number }[], rot: number;
-  if (fs.existsSync(file) && fs.existsSync(tfile)) ({ truth, rot } = JSON.parse(fs.readFileSync(tfile, "utf8")));
+  let truth: { analyte: string; index: number }[], rot: number, conditions: unknown;
+  if (fs.existsSync(file) && fs.existsSync(tfile)) ({ truth, rot, conditions } = JSON.parse(fs.readFileSync(tfile, "utf8")));
   else {
     const r = await renderStripPhoto(asRenderChart(chart), o);
     fs.writeFileSync(file, r.jpeg);
     truth = r.truth;
     rot = r.conditions.rotationDeg;
-    fs.writeFileSync(tfile, JSON.stringify({ truth, rot }));
+    conditions = r.conditions;
+    fs.writeFileSync(tfile, JSON.stringify({ truth, rot, conditions }));
+  }
+  if (trace) {
+    const c = conditions as { width: number; height: number; pxPerMm: number; centre: number[]; stripCornersPx: number[][] | null } | undefined;
+    if (c) console.error("truth", JSON.stringify({ size: [c.width, c.height], pxPerMm: c.pxPerMm, centre: c.centre, corners: c.stripCornersPx }), "photo", file);
   }
   try {
-    const res = await readStrip(fs.readFileSync(file), parseChart(chart));
+    const res = await readStrip(fs.readFileSync(file), parseChart(chart), { trace });
     for (const t of truth) {
       const p = res.pads.find((q) => q.analyte === t.analyte)!;
       const e = Math.abs(toIndex(chart.pads.find((q: { analyte: string }) => q.analyte === t.analyte).swatches, p.value) - t.index);
@@ -75,6 +85,7 @@ for (let i = 0; i < N; i++) {
       // A silent misread: more than one step off, yet not flagged for review.
       if (e > 1 && !p.needsReview) silent++;
       if (p.needsReview) flagged++;
+      if (trace) console.error("read", t.analyte, "value", p.value, "off", e.toFixed(2), "steps", p.needsReview ? `flagged: ${p.reason}` : "");
       if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
     }
   } catch (e) {
@@ -82,6 +93,6 @@ for (let i = 0; i < N; i++) {
     fails.push(`${tag} rot ${rot}: ${(e as Error).message.slice(0, 60)}`);
   }
 }
-console.log(`photos ${N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  flagged pads ${flagged}  silent misreads ${silent}`);
+console.log(`photos ${only !== null ? 1 : N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  flagged pads ${flagged}  silent misreads ${silent}`);
 for (const f of fails) console.log("  FAIL", f);
 for (const w of worst) console.log("  off ", w);
