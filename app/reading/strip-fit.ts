@@ -8,7 +8,7 @@ import { SCALE_RANGE_LENGTH, SCALE_RANGE_WIDTH, colourTrust, placementColourCost
 import { plasticDifference, type PlasticDifference } from "./plastic-difference";
 import { applyMap } from "./projective-1d";
 import { median } from "./stats";
-import { refineAxis } from "./strip-axis";
+import { CLOSE, refineAxis } from "./strip-axis";
 import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
 import { fitStripPlane, planePoint } from "./strip-plane";
 
@@ -44,7 +44,7 @@ export const MIN_SCALE_UNDER_WIDTH = Math.min(LENGTH_RATIO_MIN * (1 - SCALE_RANG
  * that every fit's scale would exceed `maxPxPerMm`.
  */
 export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0, maxPxPerMm = Infinity): PreparedAxis | null {
-  const axis = refineAxis(img, refineAxis(img, axis0));
+  const axis = refineAxis(img, refineAxis(img, axis0), CLOSE);
   const widthPx = axis.width;
   if (!(widthPx > 5)) return null;
   const scaleFromWidth = widthPx / chart.strip.widthMm;
