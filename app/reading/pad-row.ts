@@ -7,8 +7,8 @@ import type { StripCandidate } from "./geometry";
 import type { RgbImage } from "./image";
 import { boxMean } from "./search-copy";
 
-/** Chromaticity distance from the local background above which a pixel counts as coloured. */
-const COLOURED = 0.035;
+/** Chromaticity distances from the local background above which a pixel counts as coloured. */
+const COLOURED_LEVELS = [0.035, 0.055, 0.08];
 
 /**
  * Per pixel of a reduced copy (`factor` working pixels a side): how far its chromaticity
@@ -43,7 +43,21 @@ function colourContrast(img: RgbImage, factor: number): { w: number; h: number; 
 export function padRowCandidates(img: RgbImage, factor: number, chart: StripChart, maxOut = 3): StripCandidate[] {
   const { w, h, d } = colourContrast(img, factor);
   const maxArea = 0.02 * w * h;
-  const blobs = components(d, COLOURED, w, h, 3).filter((c) => c.n <= maxArea);
+  // A ladder of levels: at a low one, pads close together merge with the halo the box mean
+  // leaves around them; at a high one, pale pads vanish. Rows from every level compete.
+  const out: StripCandidate[] = [];
+  for (const level of COLOURED_LEVELS) out.push(...padRows(components(d, level, w, h, 3).filter((c) => c.n <= maxArea), chart));
+  // The best of each group of near-identical lines.
+  const kept: StripCandidate[] = [];
+  for (const c of out.sort((a, b) => b.score - a.score)) {
+    if (kept.length >= maxOut) break;
+    if (!kept.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width && Math.abs(Math.sin(o.angle - c.angle)) < 0.15)) kept.push(c);
+  }
+  return handlesOf(kept, chart);
+}
+
+/** Rows of pads among the coloured blobs of one level: merged pads, or three or more in a line. */
+export function padRows(blobs: StripCandidate[], chart: StripChart): StripCandidate[] {
   const sizes = chart.pads.map((p) => Math.min(p.sizeMm, chart.strip.widthMm));
   const padMm = Math.max(...sizes);
   const starts = chart.pads.map((p) => p.centerMm - p.sizeMm / 2), ends = chart.pads.map((p) => p.centerMm + p.sizeMm / 2);
@@ -85,12 +99,12 @@ export function padRowCandidates(img: RgbImage, factor: number, chart: StripChar
       const cand: StripCandidate = { cx: mx + sm * vx, cy: my + sm * vy, angle, length: s1 - s0 + size, width: widthFor(size), score: along.length * size * size, n: along.length };
       out.push(cand);
     }
-  // The best of each group of near-identical lines.
-  const kept: StripCandidate[] = [];
-  for (const c of out.sort((a, b) => b.score - a.score)) {
-    if (kept.length >= maxOut) break;
-    if (!kept.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width && Math.abs(Math.sin(o.angle - c.angle)) < 0.15)) kept.push(c);
-  }
+  return out;
+}
+
+/** Each row as the handle it would have on either side of it, at the scale its blobs give. */
+function handlesOf(kept: StripCandidate[], chart: StripChart): StripCandidate[] {
+  const starts = chart.pads.map((p) => p.centerMm - p.sizeMm / 2), ends = chart.pads.map((p) => p.centerMm + p.sizeMm / 2);
   // The fit takes the bare plastic's colour from the middle of a candidate, as for a bright
   // handle: each row becomes the handle it would have on either side of it, at the scale its
   // blobs give.
