@@ -4,7 +4,7 @@ import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, scenePoint, type SceneLine, type SceneStrip, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { ReadingError } from "./image";
-import { locateStrip } from "./locate";
+import { locateStrip, scaleBounds } from "./locate";
 
 const base: SceneStrip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(base));
@@ -39,5 +39,15 @@ describe("locateStrip", () => {
     const lines: string[] = [];
     locateStrip(drawScene(480, 360, [110, 105, 98], base), chart, (l) => lines.push(l));
     expect(lines.some((l) => l.startsWith("walk"))).toBe(true);
+  });
+});
+
+describe("scaleBounds", () => {
+  it("spans a strip from a fifth of the photo's long side to a little more than its diagonal", () => {
+    // A 100 mm strip in a 1600 × 1200 photo (diagonal 2000 px): 3.2 to 25 px per mm.
+    const c = parseChart({ ...sceneChart(base), strip: { ...sceneChart(base).strip, lengthMm: 100 } });
+    const { min, max } = scaleBounds(1600, 1200, c);
+    expect(min).toBeCloseTo(3.2, 5);
+    expect(max).toBeCloseTo(25, 5);
   });
 });

@@ -24,11 +24,16 @@ const NO_STRIP =
 export const MIN_STRIP_SHARE = 0.2;
 
 /**
- * Nor can a strip be longer than this many times the photo's diagonal: a strip running out of the
- * photo is read, but a candidate so wide that the strip it implies could not even half fit in the
- * photo is a patch of the surface (a sheet of paper, a bright tile), not fitted at all.
+ * Nor may it be larger than the photo can hold: a strip whose whole length would exceed this
+ * share of the photo's diagonal leaves no room for its pads and an end in view; a candidate at
+ * such a scale is a patch of the surface (a tile, a fold of cloth), not the strip.
  */
-export const MAX_STRIP_DIAGONALS = 2;
+export const MAX_STRIP_SHARE = 1.25;
+
+/** The scales (working px per mm) at which this chart's strip can be read in a photo of this size. */
+export function scaleBounds(width: number, height: number, chart: StripChart): { min: number; max: number } {
+  return { min: (MIN_STRIP_SHARE * Math.max(width, height)) / chart.strip.lengthMm, max: (MAX_STRIP_SHARE * Math.hypot(width, height)) / chart.strip.lengthMm };
+}
 
 /** The wide background scale (the box mean's radius is the search copy's long side over this), tried first. */
 export const WIDE_DIV = 16;
@@ -63,17 +68,18 @@ const FAR_COLOUR_COST = 8;
 export type EarlySearch = { search: SearchCopy; wide?: StripCandidate[] };
 
 export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, early?: EarlySearch): StripGeometry {
-  const minPxPerMm = (MIN_STRIP_SHARE * Math.max(img.width, img.height)) / chart.strip.lengthMm;
-  const maxPxPerMm = (MAX_STRIP_DIAGONALS * Math.hypot(img.width, img.height)) / chart.strip.lengthMm;
+  const { min: minPxPerMm, max: maxPxPerMm } = scaleBounds(img.width, img.height, chart);
   const layout = chartLayout(chart);
   const padEndMm = Math.max(...layout.pads.map((p) => p[1]));
   const fit = (axis0: Axis) => {
-    // The fitted scale lies within about ±25 % of the one the width gives: a candidate far too
-    // narrow for a readable strip is not fitted at all.
-    if ((axis0.width / chart.strip.widthMm) * 1.5 < minPxPerMm) return null;
+    // The fitted scale lies within about ±25 % of the one the width gives, and the refined width
+    // within half to twice the candidate's: a candidate far too narrow or far too wide for a
+    // readable strip is not fitted at all.
+    const fromWidth = axis0.width / chart.strip.widthMm;
+    if (fromWidth * 1.5 < minPxPerMm || fromWidth / 2.5 > maxPxPerMm) return null;
     const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm, maxPxPerMm);
-    if (g && g.pxPerMm < minPxPerMm) {
-      traceLine(trace, "too small", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
+    if (g && (g.pxPerMm < minPxPerMm || g.pxPerMm > maxPxPerMm)) {
+      traceLine(trace, g.pxPerMm < minPxPerMm ? "too small" : "too large", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
       return null;
     }
     return g;
