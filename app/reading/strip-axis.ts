@@ -46,7 +46,7 @@ export function refineAxis(img: RgbImage, a: Axis, reach: AxisReach = ROUGH): Ax
   const range = Math.max(4, a.width * 1.6);
   const ds = Math.max(0.5, a.width / 40);
   const ns = Math.floor((2 * range) / ds) + 1;
-  const sections: EdgeSections = { ts: [], grads: [], ds, range };
+  const sections: EdgeSections = { ts: [], grads: [], ds, range, levels: [] };
   const prof = new Float32Array(ns * 3);
   // The colour step between the means of m samples on either side (about 4 px): a fine texture
   // (a weave) averages out, a strip's edge does not.
@@ -63,29 +63,32 @@ export function refineAxis(img: RgbImage, a: Axis, reach: AxisReach = ROUGH): Ax
       for (let c = 0; c < 3; c++) prof[i * 3 + c] = (prof[i * 3 + c] + pair[c]) / 510;
     }
     if (!valid) continue;
-    sections.ts.push(t), sections.grads.push(colourSteps(prof, ns, m));
+    const level = new Float64Array(ns);
+    for (let i = 0; i < ns; i++) level[i] = (prof[i * 3] + prof[i * 3 + 1] + prof[i * 3 + 2]) / 3;
+    sections.ts.push(t), sections.grads.push(colourSteps(prof, ns, m)), sections.levels!.push(level);
   }
   if (sections.ts.length < 5) return a;
   // The edges every section agrees on (a textured surface's own steps do not line up), then each
   // section's own step near them, to sub-pixel.
-  const nearPx = Math.max(3, 0.1 * a.width);
-  const lines = consensusEdges(sections, a.width, a.width * reach.minWidth, a.width * reach.maxWidth, reach.maxSlope, nearPx);
+  const lines = consensusEdges(sections, a.width, a.width * reach.minWidth, a.width * reach.maxWidth, reach.maxSlope, Math.max(3, 0.1 * a.width));
   if (!lines) return a;
-  const near = nearPx / ds;
+  // Close to the lines: a pad's own edge a few px inside the strip's is not taken for it.
+  const near = Math.max(2.5, 0.04 * a.width, 1.5 * ds) / ds;
   sections.ts.forEach((t, k) => {
     const g = sections.grads[k];
     const strongest = (p: number) => {
       const c = (p + lines.q * t + range) / ds;
       let best = -1, bv = 0;
       for (let i = Math.max(3, Math.floor(c - near)); i <= Math.min(ns - 4, Math.ceil(c + near)); i++) if (g[i] > bv) (bv = g[i]), (best = i);
-      return best;
+      // A step still rising at the window's end is another edge beyond it (a pad's): none here.
+      return best >= 0 && g[best] >= g[best - 1] && g[best] >= g[best + 1] ? best : -1;
     };
     const il = strongest(lines.pL), ir = strongest(lines.pR);
     if (il < 0 || ir < 0 || ir <= il) return;
     const sub = (i: number) => {
       const y0 = g[i - 1], y1 = g[i], y2 = g[i + 1];
       const den = y0 - 2 * y1 + y2;
-      return i + (Math.abs(den) > 1e-12 ? (0.5 * (y0 - y2)) / den : 0);
+      return i + (den < -1e-12 ? Math.max(-0.5, Math.min(0.5, (0.5 * (y0 - y2)) / den)) : 0);
     };
     const sl = -range + sub(il) * ds, sr = -range + sub(ir) * ds;
     const wdt = sr - sl;
