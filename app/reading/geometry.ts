@@ -46,6 +46,8 @@ export type StripGeometry = {
   rank: number;
   /** Both ends found at the chart's length. */
   lengthOk: boolean;
+  /** At least one end of the strip was found inside the photo (the pads placed from it, not searched for anywhere). */
+  endSeen: boolean;
   /** The pads stand out from the bare plastic clearly more than the gaps between them do. */
   convincing: boolean;
   warnings: string[];

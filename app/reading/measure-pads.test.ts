@@ -35,7 +35,7 @@ const geometry: StripGeometry = {
   centre: [0, 30], u: [1, 0], v: [0, 1], dir: 1, tipT: 0, handleT: 200, widthPx: 20, pxPerMm: 10,
   pads: [{ t: 100, centre: [100, 30], halfAlong: 10, halfAcross: 10 }],
   bare: [[20, 85], [115, 180]],
-  fitScore: 10, colourCost: 0, axisSpan: 200, rank: 10, lengthOk: true, convincing: true, warnings: [], doubts: [],
+  fitScore: 10, colourCost: 0, axisSpan: 200, rank: 10, lengthOk: true, endSeen: true, convincing: true, warnings: [], doubts: [],
 };
 
 describe("measuring pads with the white reference from the bare plastic", () => {

@@ -162,6 +162,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     colourCost: chosenCost,
     axisSpan: axis.length,
     lengthOk,
+    endSeen: !free && !(plus.truncated && minus.truncated),
     convincing,
     warnings,
     doubts,
@@ -180,8 +181,18 @@ export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, p
   if (g && g.lengthOk && g.convincing) return g;
   const e = fitStrip(prepared, chart, layout, padEndMm, true, trace);
   // The edges' ends win only with pads fitting at least as well: a confirmed length alone does not.
-  if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) return e;
+  if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) {
+    // Pads searched for anywhere along the axis that land where the one end seen put them confirm
+    // that end: the placement from it stands, with no doubt about the ends.
+    if (g && g.convincing && g.endSeen && samePlacement(g, e, Math.min(...chart.pads.map((p) => p.sizeMm)))) return g;
+    return e;
+  }
   return g;
+}
+
+/** Two placements along one axis put the tip within a third of the smallest pad and the scale within 6 %, the same way round. */
+export function samePlacement(a: Pick<StripGeometry, "dir" | "tipT" | "pxPerMm">, b: Pick<StripGeometry, "dir" | "tipT" | "pxPerMm">, minPadMm: number): boolean {
+  return a.dir === b.dir && Math.abs(a.tipT - b.tipT) < (minPadMm / 3) * a.pxPerMm && Math.abs(a.pxPerMm / b.pxPerMm - 1) < 0.06;
 }
 
 /** Mean ΔE00 by which the whole strip's placement may lie further from the chart than the first. */
