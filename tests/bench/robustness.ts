@@ -39,6 +39,7 @@ function toIndex(sw: { value: number }[], v: number): number {
 
 let pads = 0, in05 = 0, in1 = 0, silent = 0, flagged = 0;
 const fails: string[] = [], worst: string[] = [];
+const reasons = new Map<string, number>();
 const only = args.includes("--only") ? Number(opt("--only", "0")) : null;
 const trace = args.includes("--trace") ? (line: string) => console.error(line) : undefined;
 for (let i = 0; i < N; i++) {
@@ -84,7 +85,11 @@ for (let i = 0; i < N; i++) {
       if (e <= 1) in1++;
       // A silent misread: more than one step off, yet not flagged for review.
       if (e > 1 && !p.needsReview) silent++;
-      if (p.needsReview) flagged++;
+      if (p.needsReview) {
+        flagged++;
+        // Why pads go to review, counted per reason (the pad's name left out).
+        for (const r of (p.reason ?? "").replace(/^Please check [^:]*: /, "").replace(/\.$/, "").split("; ")) reasons.set(r, (reasons.get(r) ?? 0) + 1);
+      }
       if (trace) console.error("read", t.analyte, "value", p.value, "off", e.toFixed(2), "steps", p.needsReview ? `flagged: ${p.reason}` : "");
       if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
     }
@@ -96,3 +101,4 @@ for (let i = 0; i < N; i++) {
 console.log(`photos ${only !== null ? 1 : N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  flagged pads ${flagged}  silent misreads ${silent}`);
 for (const f of fails) console.log("  FAIL", f);
 for (const w of worst) console.log("  off ", w);
+for (const [r, n] of [...reasons].sort((a, b) => b[1] - a[1])) console.log(`  review ${n} × ${r}`);
