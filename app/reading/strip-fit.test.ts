@@ -1,10 +1,11 @@
 // One candidate's fit on a drawn strip: a candidate too narrow (or too wide) for any fit to reach a
-// possible scale is dropped before its profile is taken; otherwise its pads are placed.
+// possible scale is dropped before its profile is taken; otherwise its pads are placed. Two
+// placements along one axis told alike or apart.
 import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { chartLayout } from "./layout-fit";
-import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, fitStrip, prepareAxis } from "./strip-fit";
+import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, fitStrip, prepareAxis, samePlacement } from "./strip-fit";
 
 const strip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(strip));
@@ -29,5 +30,17 @@ describe("prepareAxis", () => {
     // The width gives about 4 px/mm; a fit reaches at least MIN_SCALE_UNDER_WIDTH times that.
     expect(prepareAxis(img, chart, guess, 0, 4 * MIN_SCALE_UNDER_WIDTH * 0.9)).toBeNull();
     expect(prepareAxis(img, chart, guess, 0, 4 * MIN_SCALE_UNDER_WIDTH * 1.1)).not.toBeNull();
+  });
+});
+
+describe("samePlacement", () => {
+  const a = { dir: 1 as const, tipT: -200, pxPerMm: 10 };
+  it("tells a placement a little off in tip and scale the same", () => {
+    expect(samePlacement(a, { dir: 1, tipT: -185, pxPerMm: 10.4 }, 5)).toBe(true);
+  });
+  it("tells apart one turned round, one shifted by half a pad and one at another scale", () => {
+    expect(samePlacement(a, { ...a, dir: -1 }, 5)).toBe(false);
+    expect(samePlacement(a, { ...a, tipT: -225 }, 5)).toBe(false);
+    expect(samePlacement(a, { ...a, pxPerMm: 11 }, 5)).toBe(false);
   });
 });
