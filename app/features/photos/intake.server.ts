@@ -70,11 +70,28 @@ export async function presignPhoto(scope: PhotoScope, contentType: string, size:
 export type Inspected = { type: PhotoType; width: number; height: number; thumb: Buffer };
 
 /**
+ * Decodes in this process, one at a time. The image library works on Node's small shared pool of
+ * threads, where page compression and file reads wait their turn too: fifty photos registered at
+ * once would fill it, and every other page would queue behind their decodes. One at a time, a
+ * page's turn comes after one decode at most.
+ */
+let decoding: Promise<unknown> = Promise.resolve();
+function oneDecodeAtATime<T>(work: () => Promise<T>): Promise<T> {
+  const turn = decoding.then(work, work);
+  decoding = turn.catch(() => {});
+  return turn;
+}
+
+/**
  * The one decode of a photo: its real type from the bytes (whatever it was called), a file that
  * ends early refused, the upright size, and a small WebP thumbnail from the same pass.
  */
 export async function inspectPhoto(bytes: Buffer, declared?: PhotoType): Promise<Inspected> {
   if (bytes.length === 0) throw new PhotoError("empty", PHOTO_MESSAGES.empty);
+  return oneDecodeAtATime(() => decodeOnce(bytes, declared));
+}
+
+async function decodeOnce(bytes: Buffer, declared?: PhotoType): Promise<Inspected> {
   let meta: Awaited<ReturnType<ReturnType<typeof sharp>["metadata"]>>;
   const image = sharp(bytes, { failOn: "truncated", limitInputPixels: 100_000_000 });
   try {
