@@ -81,7 +81,7 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   const minPadMm = Math.min(...layout.pads.map(([a, b]) => b - a));
   // Both ends (mm) of every span scored: the pads' first, then the gaps'.
   const spanMm = Float64Array.from([...padMid.flatMap((m, j) => [m - padHalf[j], m + padHalf[j]]), ...gapMid.flatMap((m, j) => [m - gapHalf[j], m + gapHalf[j]])]);
-  const prefix = diff.prefix;
+  const prefix = diff.prefix, profileT0 = profile.t0, lastIndex = profile.n - 1;
   for (const tipSide of [1, -1] as const) {
     const dir = -tipSide as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
@@ -121,8 +121,8 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         // per span of each of the thousands of placements tried).
         let padScore = 0, gapScore = 0;
         for (let j = 0; j < spanMm.length; j += 2) {
-          const ra = Math.round(t0 + dt * spanMm[j] - profile.t0), rb = Math.round(t0 + dt * spanMm[j + 1] - profile.t0);
-          const a = Math.max(0, ra < rb ? ra : rb), b = Math.min(profile.n - 1, ra < rb ? rb : ra);
+          const ra = Math.round(t0 + dt * spanMm[j] - profileT0), rb = Math.round(t0 + dt * spanMm[j + 1] - profileT0);
+          const a = Math.max(0, ra < rb ? ra : rb), b = Math.min(lastIndex, ra < rb ? rb : ra);
           const mean = b < a ? 0 : (prefix[b + 1] - prefix[a]) / (b - a + 1);
           if (j < 2 * padMid.length) padScore += mean;
           else gapScore += mean;
