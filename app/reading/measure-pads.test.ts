@@ -3,7 +3,7 @@ import { parseChart } from "./chart";
 import { deltaE2000, hexToRgb, linearToSrgb, srgbToLinear } from "./colour";
 import type { StripGeometry } from "./geometry";
 import type { RgbImage } from "./image";
-import { measurePads } from "./measure-pads";
+import { consistentBare, measurePads } from "./measure-pads";
 
 // A small synthetic strip (invented colours): horizontal, 20 px wide, one pad at x 90–110, the
 // whole scene under a warm light given as per-channel gains in linear light. Under such a
@@ -50,5 +50,15 @@ describe("measuring pads with the white reference from the bare plastic", () => 
     const m = measurePads(scene("#f4f3ef"), chart, geometry);
     expect(m.pads[0].plasticLike).toBe(true);
     expect(m.pads[0].missing).toBe(true);
+  });
+});
+
+describe("consistentBare", () => {
+  const sample = (r: number, g: number, b: number) => ({ s: { linear: [r, g, b] } });
+  it("takes the plastic's chromaticity from the brightest samples, dropping gaps that took in the pads' colours", () => {
+    // Two white gaps (one in a light shadow), and three narrow gaps between pads: yellow, green, dark.
+    const white = sample(0.72, 0.64, 0.61), shaded = sample(0.36, 0.32, 0.305);
+    const kept = consistentBare([white, sample(0.74, 0.59, 0.23), sample(0.16, 0.23, 0.1), sample(0.14, 0.17, 0.15), shaded]);
+    expect(kept).toEqual([white, shaded]);
   });
 });

@@ -55,14 +55,27 @@ function bareSamples(img: RgbImage, g: StripGeometry): BareSample[] {
 
 export const luminance = (c: readonly number[]) => 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2];
 
+/** Share of the brightest bare sample's luminance above which a sample sets the plastic's chromaticity. */
+const BRIGHT_SHARE = 0.8;
+
 const chromaticity = (c: readonly number[]) => {
   const sum = c[0] + c[1] + c[2] + 1e-9;
   return [c[0] / sum, c[1] / sum];
 };
 
-/** Bare-plastic samples with those far from the others' chromaticity dropped (pad bleed, the strip's end). */
-function consistentBare(bare: BareSample[]): BareSample[] {
-  const medR = median(bare.map((b) => chromaticity(b.s.linear)[0])), medG = median(bare.map((b) => chromaticity(b.s.linear)[1]));
+/**
+ * Bare-plastic samples with those far from the plastic's chromaticity dropped (pad bleed, the
+ * strip's end). The plastic's chromaticity is the median over the brightest samples (within
+ * BRIGHT_SHARE of the brightest; the brightest alone when fewer than three are): the plastic is
+ * the lightest part of the strip, while a narrow gap between pads that nearly touch takes in their
+ * darker colours (and such gaps may be most of the samples).
+ */
+export function consistentBare<T extends { s: { linear: readonly number[] } }>(bare: T[]): T[] {
+  const maxY = Math.max(...bare.map((b) => luminance(b.s.linear)));
+  let bright = bare.filter((b) => luminance(b.s.linear) >= BRIGHT_SHARE * maxY);
+  // Fewer than three: no majority among them, the brightest alone.
+  if (bright.length < 3) bright = bright.filter((b) => luminance(b.s.linear) === maxY);
+  const medR = median(bright.map((b) => chromaticity(b.s.linear)[0])), medG = median(bright.map((b) => chromaticity(b.s.linear)[1]));
   const kept = bare.filter((b) => {
     const [r, g] = chromaticity(b.s.linear);
     return Math.hypot(r - medR, g - medG) < 0.02;
