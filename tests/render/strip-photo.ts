@@ -140,6 +140,10 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
     const n = p.swatches.length - 1;
     return rng.chance(0.3) ? rng.int(0, n) : Math.round(rng.range(0, n) * 1000) / 1000;
   });
+  // Pads that read one analyte together (a wide-range strip's four pH pads) show one value: the
+  // index drawn for the analyte's first pad.
+  const firstPadOf = new Map<string, number>();
+  chart.pads.forEach((p, i) => firstPadOf.has(p.analyte) || firstPadOf.set(p.analyte, i));
 
   const width = options.width ?? dSize[0];
   const height = options.height ?? dSize[1];
@@ -194,7 +198,7 @@ export async function renderStripPhoto(chart: RenderChart, options: StripPhotoOp
       value = options.values[p.analyte]!;
       index = valueToIndex(p, value);
     } else {
-      index = options.indices?.[p.analyte] ?? dIndices[i]!;
+      index = options.indices?.[p.analyte] ?? dIndices[firstPadOf.get(p.analyte)!]!;
       index = Math.max(0, Math.min(p.swatches.length - 1, index));
       value = indexToValue(p, index);
     }
