@@ -41,8 +41,7 @@ export function createReaderPool(size = readerPoolSize()) {
   const spawn = (): Slot => {
     const worker = startReader();
     const slot: Slot = { worker, busy: null };
-    worker.on("message", (msg: { ready?: true; id: number; ok: boolean; result?: StripReading; error?: { code: string | null; message: string } }) => {
-      if (msg.ready) return;
+    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading; error?: { code: string | null; message: string } }) => {
       const task = slot.busy;
       if (!task || task.id !== msg.id) return;
       slot.busy = null;

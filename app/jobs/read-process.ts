@@ -17,4 +17,3 @@ process.on("message", async ({ id, bytes, chart }: Task) => {
 });
 // The pool going away (its worker stopped or died) ends this process too.
 process.on("disconnect", () => process.exit(0));
-process.send!({ ready: true });
