@@ -36,6 +36,14 @@ describe("components", () => {
     expect(cs).toHaveLength(1);
     expect(cs[0].n).toBe(5 * 35 * 2 + 20 * 5);
   });
+  it("gives the same components after a mask with thousands of specks (its labels' moments start afresh)", () => {
+    const m = mask(100, 60, [[10, 10, 70, 16], [80, 20, 86, 56]]);
+    const before = components(m, 0.5, 100, 60, 10);
+    // A checkerboard: one label per bright pixel, more than the label store first holds.
+    const specks = new Float32Array(200 * 200).map((_, i) => ((i % 200) + Math.floor(i / 200)) % 2);
+    expect(components(specks, 0.5, 200, 200, 1)).toHaveLength(20000);
+    expect(components(m, 0.5, 100, 60, 10)).toEqual(before);
+  });
 });
 
 describe("scoreCandidate", () => {

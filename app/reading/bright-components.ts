@@ -6,6 +6,9 @@ import type { StripCandidate } from "./geometry";
 import { boxMean, type SearchCopy } from "./search-copy";
 
 let labelBuffer = new Int32Array(0);
+/** Union-find parents and moments per provisional label, kept between calls (grown as needed). */
+let parentBuffer = new Int32Array(1024);
+let momentBuffer = new Float64Array(1024 * 6);
 
 /**
  * Connected components (4-connected) of the pixels of `values` above `threshold`, with their
@@ -15,10 +18,10 @@ let labelBuffer = new Int32Array(0);
 export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number, rowMax?: Float32Array): StripCandidate[] {
   if (labelBuffer.length < w * h) labelBuffer = new Int32Array(w * h);
   const labels = labelBuffer;
-  let cap = 1024;
-  let parent = new Int32Array(cap);
-  // Per label: count, Σx, Σy, Σx², Σy², Σxy.
-  let moments = new Float64Array(cap * 6);
+  let cap = parentBuffer.length;
+  let parent = parentBuffer;
+  // Per label: count, Σx, Σy, Σx², Σy², Σxy (zeroed as each label is opened).
+  let moments = momentBuffer;
   const find = (a: number) => {
     while (parent[a] !== a) (parent[a] = parent[parent[a]]), (a = parent[a]);
     return a;
@@ -57,8 +60,10 @@ export function components(values: Float32Array, threshold: number, w: number, h
           const nm = new Float64Array(cap * 6);
           nm.set(moments);
           moments = nm;
+          (parentBuffer = parent), (momentBuffer = moments);
         }
         parent[next] = next;
+        moments.fill(0, next * 6, next * 6 + 6);
         lab = next++;
       }
       labels[i] = lab;
@@ -145,6 +150,9 @@ export function kthLargestAbove(values: Float32Array, floor: number, k: number):
   return n === k ? heap[0] : NaN;
 }
 
+/** The whiteness-to-background ratio, kept between searches. */
+let ratioBuffer = new Float32Array(0);
+
 /**
  * Candidates at one background scale (the box mean's radius is the long side / `div`), best
  * first. Levels of the log ratio of whiteness to background: a fixed ladder and two shares of
@@ -156,7 +164,8 @@ export function brightCandidates(s: SearchCopy, chart: StripChart, div: number):
   const cands: StripCandidate[] = [];
   const minArea = Math.max(12, Math.round((w * h) / 20000));
   const r = Math.max(5, Math.round(Math.max(w, h) / div));
-  const ratio = boxMean(whiteness, w, h, r);
+  if (ratioBuffer.length < w * h) ratioBuffer = new Float32Array(w * h);
+  const ratio = boxMean(whiteness, w, h, r, ratioBuffer.subarray(0, w * h));
   const rowMax = new Float32Array(h);
   for (let y = 0; y < h; y++) {
     let m = 0;

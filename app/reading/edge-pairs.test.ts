@@ -23,6 +23,18 @@ describe("edgePairCandidates", () => {
     expect(band!.width).toBeLessThan(10);
     expect(band!.length).toBeGreaterThan(120);
   });
+  it("finds the same candidates after a larger search copy was searched (nothing of it is left behind)", () => {
+    const band = (w: number, h: number) => {
+      const whiteness = new Float32Array(w * h).fill(0.5);
+      for (let y = 76; y < 84; y++) for (let x = 40; x < 200; x++) whiteness[y * w + x] = 0.9;
+      return { w, h, factor: 1, whiteness };
+    };
+    const before = edgePairCandidates(band(240, 160), chart);
+    const big = band(400, 300);
+    for (let i = 0; i < big.whiteness.length; i += 7) big.whiteness[i] = 0.95; // edges everywhere
+    edgePairCandidates(big, chart);
+    expect(edgePairCandidates(band(240, 160), chart)).toEqual(before);
+  });
 });
 
 describe("boxBlur3", () => {

@@ -15,15 +15,24 @@ import { median } from "./stats";
 /** Degrees either side of an edge pixel's gradient direction it votes for. */
 const ANGLE_REACH = 3;
 
+/** Scratch kept between searches: the per-pixel planes, the Hough accumulator, the blur's row pass. */
+let planes = new Float32Array(0), houghBuffer = new Float32Array(0), blurBuffer = new Float32Array(0);
+
 export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8): StripCandidate[] {
   const { w, h, whiteness } = s;
-  const L = new Float32Array(w * h);
-  for (let i = 0; i < L.length; i++) L[i] = Math.log(whiteness[i]);
+  const n = w * h;
+  // The per-pixel planes are kept between searches (a photo's search would otherwise leave
+  // megabytes of garbage behind): log whiteness, gradient magnitude and both components.
+  if (planes.length < 4 * n) planes = new Float32Array(4 * n);
+  const L = planes.subarray(0, n);
+  for (let i = 0; i < n; i++) L[i] = Math.log(whiteness[i]);
   // A 3 × 3 box blur first: a woven or grained surface's fine texture would otherwise scatter the
   // direction of a faint edge (a strip barely lighter or darker than the surface) over many angles.
   boxBlur3(L, w, h);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
-  const mag = new Float32Array(w * h), gradX = new Float32Array(w * h), gradY = new Float32Array(w * h);
+  const mag = planes.subarray(n, 2 * n), gradX = planes.subarray(2 * n, 3 * n), gradY = planes.subarray(3 * n, 4 * n);
+  // The border keeps no gradient (read as a neighbour by the thinning below).
+  mag.fill(0);
   const hist = new Uint32Array(256);
   for (let y = 1; y < h - 1; y++)
     for (let x = 1; x < w - 1; x++) {
@@ -48,7 +57,9 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const nT = 180, diag = Math.ceil(Math.hypot(w, h)), nR = 2 * diag + 1;
   const cosT = new Float32Array(nT), sinT = new Float32Array(nT);
   for (let k = 0; k < nT; k++) (cosT[k] = Math.cos((k * Math.PI) / nT)), (sinT[k] = Math.sin((k * Math.PI) / nT));
-  const acc = new Float32Array(nT * nR);
+  if (houghBuffer.length < nT * nR) houghBuffer = new Float32Array(nT * nR);
+  const acc = houghBuffer.subarray(0, nT * nR);
+  acc.fill(0);
   // A vote's weight by how far (in angle steps) its direction lies from the gradient's.
   const voteWeight = new Float64Array(2 * ANGLE_REACH + 1);
   for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) voteWeight[dk + ANGLE_REACH] = 1 - Math.abs(dk) / (ANGLE_REACH + 1);
@@ -198,7 +209,8 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
 
 /** In-place 3 × 3 box blur (edges: the pixels inside the image only). */
 export function boxBlur3(a: Float32Array, w: number, h: number) {
-  const tmp = new Float32Array(w * h);
+  if (blurBuffer.length < w * h) blurBuffer = new Float32Array(w * h);
+  const tmp = blurBuffer;
   for (let y = 0; y < h; y++)
     for (let x = 0; x < w; x++) {
       const i = y * w + x;

@@ -34,4 +34,13 @@ describe("boxMean", () => {
     expect(m[0]).toBeCloseTo((1 + 2 + 4 + 5) / 4, 6); // corner: four
     expect(m[1]).toBeCloseTo((1 + 2 + 3 + 4 + 5 + 6) / 6, 6); // edge: six
   });
+  it("gives the same means into a given array, after a larger image has been averaged", () => {
+    const src = Float32Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]);
+    const fresh = boxMean(src, 3, 3, 1);
+    boxMean(new Float32Array(40 * 30).fill(7), 40, 30, 3); // leaves its integral image behind
+    const out = new Float32Array(9);
+    expect(boxMean(src, 3, 3, 1, out)).toBe(out);
+    expect([...out]).toEqual([...fresh]);
+    expect([...boxMean(src, 3, 3, 1)]).toEqual([...fresh]);
+  });
 });

@@ -84,17 +84,22 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
   return { w, h, factor: f, whiteness };
 }
 
-/** Mean over a (2r+1)² box around each pixel (clipped at the borders), from an integral image. */
-export function boxMean(src: Float32Array, w: number, h: number, r: number): Float32Array {
-  const I = new Float64Array((w + 1) * (h + 1));
+let integral = new Float64Array(0);
+
+/** Mean over a (2r+1)² box around each pixel (clipped at the borders), from an integral image; into `out` when given. */
+export function boxMean(src: Float32Array, w: number, h: number, r: number, out = new Float32Array(w * h)): Float32Array {
+  // The integral image is kept between calls (its first row and column stay zero).
+  if (integral.length < (w + 1) * (h + 1)) integral = new Float64Array((w + 1) * (h + 1));
+  const I = integral;
+  I.fill(0, 0, w + 1);
   for (let y = 0; y < h; y++) {
     let row = 0;
+    I[(y + 1) * (w + 1)] = 0;
     for (let x = 0; x < w; x++) {
       row += src[y * w + x];
       I[(y + 1) * (w + 1) + x + 1] = I[y * (w + 1) + x + 1] + row;
     }
   }
-  const out = new Float32Array(w * h);
   for (let y = 0; y < h; y++) {
     const y0 = Math.max(0, y - r), y1 = Math.min(h, y + r + 1);
     for (let x = 0; x < w; x++) {
