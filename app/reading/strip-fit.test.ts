@@ -5,7 +5,7 @@ import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { chartLayout } from "./layout-fit";
-import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, fitStrip, prepareAxis, samePlacement } from "./strip-fit";
+import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, SAME_EDGES_PX, fitStrip, prepareAxis, sameEdges, samePlacement } from "./strip-fit";
 
 const strip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(strip));
@@ -42,5 +42,22 @@ describe("samePlacement", () => {
     expect(samePlacement(a, { ...a, dir: -1 }, 5)).toBe(false);
     expect(samePlacement(a, { ...a, tipT: -225 }, 5)).toBe(false);
     expect(samePlacement(a, { ...a, pxPerMm: 11 }, 5)).toBe(false);
+  });
+});
+
+describe("sameEdges", () => {
+  // A placed strip along x from t = −150 (tip) to 150 (handle), 20 px wide, centred at (200, 100).
+  const g = { centre: [200, 100] as [number, number], u: [1, 0] as [number, number], tipT: -150, handleT: 150, widthPx: 20 };
+  const axis = (cy: number, angle: number, width = 20) => ({ cx: 210, cy, ux: Math.cos(angle), uy: Math.sin(angle), width, length: 290 });
+  it("tells an axis along the same line (its centre elsewhere on it) the same", () => {
+    expect(sameEdges(g, axis(100, 0))).toBe(true);
+    expect(sameEdges(g, axis(100 + SAME_EDGES_PX * 0.8, 0))).toBe(true);
+  });
+  it("tells apart an axis shifted across, turned enough to move an end, or of another width", () => {
+    expect(sameEdges(g, axis(100 + SAME_EDGES_PX * 1.5, 0))).toBe(false);
+    // Turned by 0.005 rad about x = 210: the tip end (x = 50) moves 0.8 px.
+    expect(sameEdges(g, axis(100, 0.005))).toBe(false);
+    expect(sameEdges(g, axis(100, 0.001))).toBe(true);
+    expect(sameEdges(g, axis(100, 0, 20 + SAME_EDGES_PX * 2))).toBe(false);
   });
 });

@@ -43,8 +43,8 @@ export const MIN_SCALE_UNDER_WIDTH = Math.min(LENGTH_RATIO_MIN * (1 - SCALE_RANG
  * is there, or when the strip's width is too narrow for any fit to reach `minPxPerMm`, or so wide
  * that every fit's scale would exceed `maxPxPerMm`.
  */
-export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0, maxPxPerMm = Infinity): PreparedAxis | null {
-  const axis = refineAxis(img, refineAxis(img, axis0), CLOSE);
+export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPxPerMm = 0, maxPxPerMm = Infinity, refined?: Axis): PreparedAxis | null {
+  const axis = refined ?? refinedAxis(img, axis0);
   const widthPx = axis.width;
   if (!(widthPx > 5)) return null;
   const scaleFromWidth = widthPx / chart.strip.widthMm;
@@ -62,6 +62,9 @@ export function prepareAxis(img: RgbImage, chart: StripChart, axis0: Axis, minPx
   const diff = plasticDifference(profile, axis.length, widthPx);
   return { axis, axis0, profile, diff, scaleFromWidth, expectedLength, threshold, maxGap };
 }
+
+/** A candidate's axis refined on both long edges: roughly from the candidate, then closely. */
+export const refinedAxis = (img: RgbImage, axis0: Axis): Axis => refineAxis(img, refineAxis(img, axis0), CLOSE);
 
 /**
  * Fits the chart's layout along a prepared axis. `edgeWalk`: when the colour difference does
@@ -174,8 +177,8 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
  * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
-export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0, maxPxPerMm = Infinity): StripGeometry | null {
-  const prepared = prepareAxis(img, chart, axis0, minPxPerMm, maxPxPerMm);
+export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0, maxPxPerMm = Infinity, refined?: Axis): StripGeometry | null {
+  const prepared = prepareAxis(img, chart, axis0, minPxPerMm, maxPxPerMm, refined);
   if (!prepared) return null;
   const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;
@@ -206,9 +209,29 @@ export function refitWholeStrip(img: RgbImage, chart: StripChart, layout: Layout
   const tm = (g.tipT + g.handleT) / 2, len = Math.abs(g.handleT - g.tipT);
   if (g.axisSpan >= 0.75 * len) return g;
   const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
-  const again = fitAnyLength(img, chart, layout, padEndMm, axis0, trace);
+  const refined = refinedAxis(img, axis0);
+  // The whole strip's edges run where the candidate's did: its profile and fit would be the same.
+  if (sameEdges(g, refined)) {
+    traceLine(trace, "whole strip", "edges as placed");
+    return g;
+  }
+  const again = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, 0, Infinity, refined);
   if (again) traceLine(trace, "whole strip", { fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing });
   // Nor may the whole strip's placement move the pads to colours clearly further from the chart
   // (one pad along, onto the surface past the tip).
   return again && again.convincing && again.fitScore >= 0.9 * g.fitScore && again.colourCost <= g.colourCost + WHOLE_STRIP_COST_SLACK ? again : g;
+}
+
+/** How far (px) the whole strip's edges may lie from the placed axis's at either end and still count as the same. */
+export const SAME_EDGES_PX = 0.5;
+
+/**
+ * Whether an axis refined over the whole strip runs along the placed one: at both of the strip's
+ * ends (tip and handle) its centre line lies within SAME_EDGES_PX of the placed axis, and its
+ * width within SAME_EDGES_PX of the placed width.
+ */
+export function sameEdges(g: Pick<StripGeometry, "centre" | "u" | "tipT" | "handleT" | "widthPx">, a: Axis): boolean {
+  if (Math.abs(a.width - g.widthPx) > SAME_EDGES_PX) return false;
+  const vx = -a.uy, vy = a.ux;
+  return [g.tipT, g.handleT].every((t) => Math.abs((g.centre[0] + t * g.u[0] - a.cx) * vx + (g.centre[1] + t * g.u[1] - a.cy) * vy) <= SAME_EDGES_PX);
 }
