@@ -3,8 +3,9 @@
 // presigned PUTs to an upload key; the server checks them and keeps its own copy
 // under a key the browser never had a URL for, and serves only that copy, with
 // the type it registered (never the type storage reports).
+import { createHash } from "node:crypto";
 import {
-  DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client,
+  CopyObjectCommand, DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client,
 } from "@aws-sdk/client-s3";
 import { getSignedUrl } from "@aws-sdk/s3-request-presigner";
 import { env } from "./env.server";
@@ -99,6 +100,55 @@ export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INF
     throw new StorageUnavailableError(error);
   }
   return Buffer.concat(chunks);
+}
+
+/**
+ * The object's SHA-256, its size and its first `headBytes` bytes, read as a stream (the bytes are
+ * hashed as they arrive and never held whole); refuses to read past maxBytes.
+ */
+export async function digestObject(key: string, maxBytes: number, headBytes = 32): Promise<{ sha256: string; size: number; head: Buffer } | { tooLarge: true; size: number }> {
+  let out;
+  try {
+    out = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
+  } catch (error) {
+    unavailable(error);
+  }
+  if ((out.ContentLength ?? 0) > maxBytes) {
+    (out.Body as { destroy?: () => void } | undefined)?.destroy?.();
+    return { tooLarge: true, size: out.ContentLength ?? 0 };
+  }
+  const hash = createHash("sha256");
+  const head: Buffer[] = [];
+  let headLength = 0;
+  let total = 0;
+  try {
+    for await (const chunk of out.Body as AsyncIterable<Uint8Array>) {
+      total += chunk.length;
+      if (total > maxBytes) {
+        (out.Body as { destroy?: () => void }).destroy?.();
+        return { tooLarge: true, size: total };
+      }
+      hash.update(chunk);
+      if (headLength < headBytes) {
+        head.push(Buffer.from(chunk.subarray(0, headBytes - headLength)));
+        headLength += Math.min(chunk.length, headBytes - headLength);
+      }
+    }
+  } catch (error) {
+    throw new StorageUnavailableError(error);
+  }
+  return { sha256: hash.digest("hex"), size: total, head: Buffer.concat(head) };
+}
+
+/** Copies an object inside the bucket (storage copies the bytes; none pass through this process). */
+export async function copyObject(from: string, to: string, contentType: string) {
+  try {
+    await s3().send(
+      new CopyObjectCommand({ Bucket: bucket(), Key: to, CopySource: `${bucket()}/${from.split("/").map(encodeURIComponent).join("/")}`, ContentType: contentType, MetadataDirective: "REPLACE" }),
+    );
+  } catch (error) {
+    unavailable(error);
+  }
 }
 
 /** The object's bytes (objects the server wrote itself). */

@@ -1,5 +1,6 @@
 // Photo upload registration and reading, against real PostgreSQL and s3rver: the presigned PUT,
-// the server's own checks (type, size, decoding, content hash), the reader's run, the stored
+// the server's own checks (type, size, the type's signature, content hash; the decode in the
+// reading job), the reader's run, the stored
 // reading and pads, the owner's confirmation, and the bad inputs (wrong type, too large, a missing
 // upload, a photo of something else, the same photo twice).
 import sharp from "sharp";
@@ -15,6 +16,8 @@ import { asRenderChart } from "../render/types";
 import { callRoute, createTub, createUser, type TestUser, createChartBatch } from "../support/fixtures";
 import { importRoute } from "../support/routes";
 import { readPendingReading } from "~/features/readings/read-job.server";
+import { thumbKey } from "~/features/photos/intake.server";
+import { headObject } from "~/lib/storage.server";
 
 const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
 const chart = parseChart(chartJson);
@@ -71,7 +74,13 @@ describe("a strip photo goes up and is read", () => {
     expect(out.duplicate).toBe(false);
     expect(out.status).toBe("pending"); // read by the worker, off the request path
     readingId = out.readingId;
+    // Registration does no decode: the size in pixels and the thumbnail come from the reading job.
+    expect((await db.query.photo.findFirst({ where: eq(s.photo.id, out.photoId) }))?.width).toBeNull();
     expect(await readPendingReading(readingId)).toBe("read");
+    const decoded = await sharp(strip.jpeg).metadata();
+    const kept = await db.query.photo.findFirst({ where: eq(s.photo.id, out.photoId) });
+    expect([kept?.width, kept?.height]).toEqual([decoded.width, decoded.height]);
+    expect(await headObject(thumbKey(kept!.s3Key))).toBeTruthy();
 
     const row = await db.query.reading.findFirst({ where: eq(s.reading.id, readingId) });
     expect(row?.chartVersionId).toBe(versionId);
@@ -123,6 +132,23 @@ describe("a strip photo goes up and is read", () => {
     const again = await register(key);
     expect((again.data as { readingId: string }).readingId).toBe(readingId);
     expect(await readingCount()).toBe(before);
+  });
+
+  it("one new upload registered three times at once (a double tap, a retry) gives one photo and one reading", async () => {
+    const before = await readingCount();
+    const bytes = Buffer.concat([strip.jpeg, Buffer.from("another file of the same picture")]);
+    const key = await upload(bytes, "image/jpeg");
+    const answers = await Promise.all([register(key), register(key), register(key)]);
+    for (const a of answers) expect(a.status, JSON.stringify(a.data)).toBeLessThan(300);
+    const ids = new Set(answers.map((a) => (a.data as { readingId: string }).readingId));
+    expect(ids.size).toBe(1);
+    expect(answers.filter((a) => a.status === 201)).toHaveLength(1);
+    expect(await readingCount()).toBe(before + 1);
+    const [id] = ids;
+    // The job run twice (a retried job whose first run was not dead after all) still writes one result.
+    const runs = await Promise.all([readPendingReading(id), readPendingReading(id)]);
+    expect(runs.filter((r) => r === "read")).toHaveLength(1);
+    expect(await readingCount()).toBe(before + 1);
   });
 
   it("the owner confirms, correcting one pad; both values are kept", async () => {
@@ -226,6 +252,43 @@ describe("bad input", () => {
     expect((r.data as { code: string; message: string }).code).toBe("missing_upload");
     expect((r.data as { message: string }).message).toMatch(/Try the upload again/);
     expect(await readingCount()).toBe(before);
+  });
+
+  it("refuses PNG bytes declared as a JPEG, and deletes the upload", async () => {
+    const png = await sharp(strip.jpeg).png({ compressionLevel: 1 }).toBuffer();
+    const before = await readingCount();
+    const key = await upload(png, "image/jpeg");
+    const r = await register(key);
+    expect(r.status).toBe(400);
+    expect((r.data as { code: string }).code).toBe("wrong_type");
+    expect(await headObject(key)).toBeNull();
+    expect(await readingCount()).toBe(before);
+  });
+
+  it("a photo cut short is kept, its reading fails with the reason in plain words, and values can be typed", async () => {
+    const cut = strip.jpeg.subarray(0, Math.floor(strip.jpeg.length * 0.6));
+    const key = await upload(cut, "image/jpeg");
+    const r = await register(key);
+    // It starts as a JPEG does, so it is taken in; the decode in the reading job finds it cut short.
+    expect(r.status, JSON.stringify(r.data)).toBe(201);
+    const out = r.data as { readingId: string; photoId: string; status: string };
+    expect(out.status).toBe("pending");
+    expect(await readPendingReading(out.readingId)).toBe("failed");
+    const row = await db.query.reading.findFirst({ where: eq(s.reading.id, out.readingId) });
+    expect(row?.error).toMatch(/^We could not read this photo: only part of the photo arrived/);
+    expect(row?.error).toMatch(/type the values/);
+    // The photo is kept and served byte for byte.
+    const photoRoute = await importRoute("routes/tubs/photo.ts");
+    const served = await callRoute(photoRoute.loader!, { url: "/x", params: { tubId, photoId: out.photoId }, user: owner });
+    expect(served.status).toBe(200);
+    expect(Buffer.from(await served.response!.arrayBuffer()).equals(cut)).toBe(true);
+    // The review screen says why and offers the form to type the values (never a spinner).
+    const { loader } = await importRoute("routes/tubs/reading.tsx");
+    const review = await callRoute(loader!, { url: "/x", params: { tubId, readingId: out.readingId }, user: owner });
+    const data = review.data as { reading: { status: string; error: string }; pads: { analyte: string }[] };
+    expect(data.reading.status).toBe("failed");
+    expect(data.reading.error).toBe(row?.error);
+    expect(data.pads.map((p) => p.analyte)).toEqual(["free_chlorine", "ph", "total_alkalinity"]);
   });
 
   it("refuses a key that does not belong to the tub", async () => {

@@ -10,9 +10,9 @@ import { createHash, randomUUID } from "node:crypto";
 import sharp from "sharp";
 import { env } from "../../lib/env.server";
 import {
-  deleteObject, getObjectBytes, headObject, listObjects, presignUpload, putObject, StorageUnavailableError, UPLOAD_URL_SECONDS,
+  copyObject, deleteObject, digestObject, getObjectBytes, headObject, listObjects, presignUpload, putObject, StorageUnavailableError, UPLOAD_URL_SECONDS,
 } from "../../lib/storage.server";
-import { PHOTO_MESSAGES, PHOTO_TYPES, photoProblem, typeOfExt, typeOfFormat, type PhotoType } from "./rules";
+import { PHOTO_MESSAGES, PHOTO_TYPES, photoProblem, typeOfExt, typeOfFormat, typeOfMagic, type PhotoType } from "./rules";
 
 /** A refusal the user sees, in plain words, with the HTTP status it goes out with. */
 export class PhotoError extends Error {
@@ -176,6 +176,54 @@ export async function keepPhoto(scope: PhotoScope, bytes: Buffer, inspected: Ins
     await putObject(thumbKey(s3Key), inspected.thumb, "image/webp");
   });
   return { s3Key, contentType: inspected.type, sizeBytes: bytes.length, sha256, width: inspected.width, height: inspected.height, bytes };
+}
+
+export type TakenPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: number; sha256: string };
+
+/**
+ * Takes a strip photo's upload in with the checks that need no decode, so a registration stays
+ * light for the web app: the upload is there (HEAD), not over the size limit, and starts with the
+ * signature of the type it was declared as; its bytes are hashed as they stream past (never held
+ * whole), and storage itself copies them to the final key by content. The decode (a file cut
+ * short, the size in pixels, the thumbnail) is the reading job's (`inspectKeptPhoto`). A refused
+ * upload is deleted at once. Idempotent: the same bytes give the same final key.
+ *
+ * `known` answers whether this scope already keeps a photo with these bytes (then the copy is
+ * skipped: it is there already).
+ */
+export async function takeUpload(scope: PhotoScope, key: string, known?: (sha256: string) => Promise<boolean>): Promise<TakenPhoto> {
+  const declared = checkUploadKey(scope, key);
+  return withStorage(async () => {
+    const max = maxPhotoBytes();
+    const head = await headObject(key);
+    if (!head) throw new PhotoError("missing_upload", PHOTO_MESSAGES.missing, 409);
+    const refuse = async (error: PhotoError) => {
+      await deleteObject(key);
+      return error;
+    };
+    if (head.size > max) throw await refuse(new PhotoError("too_large", PHOTO_MESSAGES.tooLarge(head.size, max)));
+    if (head.size === 0) throw await refuse(new PhotoError("empty", PHOTO_MESSAGES.empty));
+    const digest = await digestObject(key, max);
+    if ("tooLarge" in digest) throw await refuse(new PhotoError("too_large", PHOTO_MESSAGES.tooLarge(digest.size, max)));
+    if (digest.size === 0) throw await refuse(new PhotoError("empty", PHOTO_MESSAGES.empty));
+    const type = typeOfMagic(digest.head);
+    if (!type) throw await refuse(new PhotoError("not_image", PHOTO_MESSAGES.notImage));
+    if (type !== declared) throw await refuse(new PhotoError("wrong_type", PHOTO_MESSAGES.notWhatItClaims));
+    const s3Key = photoKey(scope, digest.sha256, type);
+    if (!(await known?.(digest.sha256))) await copyObject(key, s3Key, type);
+    return { s3Key, contentType: type, sizeBytes: digest.size, sha256: digest.sha256 };
+  });
+}
+
+/**
+ * The decode of a photo taken in by `takeUpload`, made by the reading job from the kept bytes:
+ * the checks of `inspectPhoto` (a file that ends early, not what its signature said) and the
+ * thumbnail, written beside the photo. A refusal is returned in the owner's words; the photo stays.
+ */
+export async function inspectKeptPhoto(s3Key: string, bytes: Buffer, type: PhotoType): Promise<Inspected> {
+  const inspected = await inspectPhoto(bytes, type);
+  await withStorage(() => putObject(thumbKey(s3Key), inspected.thumb, "image/webp"));
+  return inspected;
 }
 
 /**

@@ -24,6 +24,19 @@ export const typeOfExt = (ext: string): PhotoType | null =>
 export const typeOfFormat = (format: string | undefined): PhotoType | null =>
   (Object.entries(PHOTO_TYPES).find(([, v]) => v.format === format)?.[0] as PhotoType | undefined) ?? null;
 
+/**
+ * The photo type the file's first bytes announce (its signature: JPEG's SOI marker, PNG's eight
+ * signature bytes, WebP's RIFF container with the WEBP form type), or null for anything else.
+ * A cheap first look only: the full decode still has the last word.
+ */
+export function typeOfMagic(head: Uint8Array): PhotoType | null {
+  const at = (i: number, bytes: number[]) => bytes.every((b, j) => head[i + j] === b);
+  if (at(0, [0xff, 0xd8, 0xff])) return "image/jpeg";
+  if (at(0, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) return "image/png";
+  if (at(0, [0x52, 0x49, 0x46, 0x46]) && at(8, [0x57, 0x45, 0x42, 0x50])) return "image/webp";
+  return null;
+}
+
 export const formatMb = (bytes: number) => `${Math.round((bytes / 1024 / 1024) * 10) / 10} MB`;
 
 export const PHOTO_MESSAGES = {

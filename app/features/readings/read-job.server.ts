@@ -13,7 +13,8 @@ import { READ_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
 import { putObject, readObject } from "../../lib/storage.server";
 import { parseChart, readStrip, ReadingError, type StripChart, type StripReading } from "../../reading";
-import { cropKey } from "../photos/intake.server";
+import { cropKey, inspectKeptPhoto, PhotoError } from "../photos/intake.server";
+import { isPhotoType } from "../photos/rules";
 
 export type ReadJob = { readingId: string };
 
@@ -31,6 +32,15 @@ export async function queueRead(boss: PgBoss, readingId: string, executeSql?: (t
 
 /** The message shown when the reader itself could not run (after its retries). */
 export const COULD_NOT_READ = "We could not read this photo. Your photo is kept: type the values from the strip below, or take a new photo.";
+
+/** Why a registered photo could not be opened, in the owner's words (the decode is this job's). */
+const UNOPENED: Record<string, string> = {
+  truncated: "only part of the photo arrived: the file ends before the picture does",
+  wrong_type: "the file is not the kind of photo it claims to be",
+  not_image: "the file could not be opened as a picture",
+};
+export const couldNotOpen = (code: string) =>
+  `We could not read this photo: ${UNOPENED[code] ?? UNOPENED.not_image}. Your photo is kept: type the values from the strip below, or take a new photo.`;
 
 /** The reader's value at the precision a strip can tell apart (pH and small values to 0.1, larger to 1). */
 export function roundReading(analyte: string, v: number) {
@@ -72,6 +82,17 @@ export async function readPendingReading(
       return await fail(readingId, "The colour chart of this strip batch could not be used. Enter the values by hand below and ask your technician to check the chart.");
     }
     const bytes = await readObject(p.s3Key);
+    // A photo taken in without a decode (its size in pixels not yet known): decoded here, once,
+    // with its thumbnail; a file that does not open is a failed reading with the reason.
+    if (p.width === null && p.purpose === "strip" && isPhotoType(p.contentType)) {
+      try {
+        const inspected = await inspectKeptPhoto(p.s3Key, bytes, p.contentType);
+        await db.update(photo).set({ width: inspected.width, height: inspected.height }).where(eq(photo.id, p.id));
+      } catch (error) {
+        if (error instanceof PhotoError && error.code !== "storage_unavailable") return await fail(readingId, couldNotOpen(error.code), { code: error.code });
+        throw error;
+      }
+    }
     let result: StripReading;
     try {
       result = await (opts.reader ?? readInProcess)(bytes, chart);

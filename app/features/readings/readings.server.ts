@@ -8,7 +8,7 @@ import { parseChart, type StripChart } from "~/reading";
 import { chartVersion, photo, reading, readingPad, treatment, tub as tubTable, user as userTable } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { PhotoError, presignPhoto, receivePhoto, thumbKey } from "~/features/photos/intake.server";
+import { PhotoError, presignPhoto, takeUpload, thumbKey } from "~/features/photos/intake.server";
 import { appBoss } from "~/jobs/boss.server";
 import { queueRead } from "./read-job.server";
 import { READ_QUEUE } from "~/jobs/queues";
@@ -33,14 +33,19 @@ export async function presignPhotoUpload(t: Tub, contentType: string, size: numb
 export type RegisterResult = { readingId: string; photoId: string; status: string; duplicate: boolean };
 
 /**
- * Registers an uploaded strip photo: takes it in (size, real type, one decode, hash, the kept copy
- * under a key the browser never had), then in one transaction the photo row, its reading (status
+ * Registers an uploaded strip photo: takes it in with the checks that need no decode (size, the
+ * type's signature, the hash as the bytes stream past, storage's own copy under a key the browser
+ * never had; see takeUpload), then in one transaction the photo row, its reading (status
  * "pending") and the job that reads it. Idempotent and resumable: the same photo (the same key
  * again, or the same bytes in a new upload, at the same moment or after a crash) gives the same
  * reading, and a reading still pending is queued again (a job already queued is not doubled).
+ * The decode (a file cut short, the size in pixels, the thumbnail) is the reading job's: a photo
+ * that cannot be decoded becomes a failed reading with the reason, the photo kept.
  */
 export async function registerPhoto(user: SessionUser, t: Tub, key: string): Promise<RegisterResult> {
-  const received = await receivePhoto({ tubId: t.id }, key);
+  const received = await takeUpload({ tubId: t.id }, key, async (sha256) =>
+    Boolean((await db.$client.query({ name: "dipwell-photo-known", text: "select 1 from photo where tub_id = $1 and sha256 = $2", values: [t.id, sha256] })).rowCount),
+  );
   const current = await currentChartFor(t);
   const boss = await appBoss();
   const client = await db.$client.connect();
@@ -50,7 +55,7 @@ export async function registerPhoto(user: SessionUser, t: Tub, key: string): Pro
       `insert into photo (tub_id, batch_id, purpose, uploader_id, s3_key, content_type, size_bytes, sha256, width, height)
        values ($1, $2, 'strip', $3, $4, $5, $6, $7, $8, $9)
        on conflict do nothing returning id`,
-      [t.id, t.batchId, user.id, received.s3Key, received.contentType, received.sizeBytes, received.sha256, received.width, received.height],
+      [t.id, t.batchId, user.id, received.s3Key, received.contentType, received.sizeBytes, received.sha256, null, null],
     );
     const photoId =
       inserted.rows[0]?.id ??
