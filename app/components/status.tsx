@@ -11,36 +11,25 @@ export const STATUS_WORDS: Record<RangeStatus, string> = { in: "In range", low: 
 const SPRITE_PREFIX = "dw-icon-";
 
 /**
- * The status and "not confirmed" icons, drawn once per page (in the document's layout): every
- * badge shows one with `<use>`, so a page of a hundred badges carries the drawings once.
+ * The "not confirmed" icon, drawn once per page (in the document's layout): every mark shows it
+ * with `<use>`. The status icons of the badges are drawn by the style sheet (`dw-badge`, app.css).
  */
 export function StatusIconSprite() {
-  const line = { fill: "none", stroke: "currentColor", strokeWidth: 2, strokeLinecap: "round" as const, strokeLinejoin: "round" as const };
+  const line = { fill: "none", stroke: "currentColor", strokeWidth: 2, strokeLinecap: "round" as const };
   return (
     <svg aria-hidden="true" focusable="false" className="hidden">
-      <symbol id={`${SPRITE_PREFIX}in`} viewBox="0 0 16 16"><g {...line}><circle cx="8" cy="8" r="6.5" /><path d="M5 8.2l2 2 4-4.4" /></g></symbol>
-      <symbol id={`${SPRITE_PREFIX}low`} viewBox="0 0 16 16"><g {...line}><path d="M8 2.5v10M3.8 8.6 8 12.8l4.2-4.2" /></g></symbol>
-      <symbol id={`${SPRITE_PREFIX}high`} viewBox="0 0 16 16"><g {...line}><path d="M8 13.5v-10M3.8 7.4 8 3.2l4.2 4.2" /></g></symbol>
-      <symbol id={`${SPRITE_PREFIX}unknown`} viewBox="0 0 16 16"><g {...line}><path d="M4 8h8" /></g></symbol>
-      <symbol id={`${SPRITE_PREFIX}unconfirmed`} viewBox="0 0 16 16"><g {...line} strokeLinejoin={undefined}><circle cx="8" cy="8" r="6.5" strokeDasharray="3 2.2" /><path d="M8 4.8v3.6M8 11.2v.01" /></g></symbol>
+      <symbol id={`${SPRITE_PREFIX}unconfirmed`} viewBox="0 0 16 16"><g {...line}><circle cx="8" cy="8" r="6.5" strokeDasharray="3 2.2" /><path d="M8 4.8v3.6M8 11.2v.01" /></g></symbol>
     </svg>
   );
 }
 
-/** The status icon alone (decorative: always shown beside the word). */
-export function StatusIcon({ status, className }: { status: RangeStatus; className?: string }) {
-  return (
-    <svg width="16" height="16" aria-hidden="true" className={cx("shrink-0", className)}>
-      <use href={`#${SPRITE_PREFIX}${status}`} />
-    </svg>
-  );
-}
-
-/** "In range" / "Low" / "High" with its icon; its shape and colours are the `dw-badge` style (app.css). */
+/**
+ * "In range" / "Low" / "High" with its icon; its shape, colours and icon (a decorative drawing
+ * before the words) are the `dw-badge` style (app.css).
+ */
 export function StatusBadge({ status, className, children }: { status: RangeStatus; className?: string; children?: ReactNode }) {
   return (
     <span data-status={status} className={cx("dw-badge", className)}>
-      <StatusIcon status={status} />
       {children ?? STATUS_WORDS[status]}
     </span>
   );

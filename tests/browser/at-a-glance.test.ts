@@ -60,7 +60,14 @@ describe("status at a glance and trends", () => {
       await card.getByText("Free chlorine high · 5.4 mg/L").waitFor();
       await card.getByText("Total alkalinity high · 230 mg/L").waitFor();
       await card.getByText("Not confirmed").waitFor();
-      expect(await card.locator("[data-status=high] svg").count()).toBeGreaterThan(0);
+      // The badge's icon (drawn by the style sheet before the words): the high arrow, 16 px.
+      const icon = await card.locator(".dw-badge[data-status=high]").first().evaluate((el) => {
+        const st = getComputedStyle(el, "::before");
+        return { mask: st.maskImage || st.getPropertyValue("-webkit-mask-image"), width: st.width, height: st.height };
+      });
+      expect(icon.mask).toContain("data:image/svg+xml");
+      expect(icon.mask).toContain("M8 13.5v-10"); // the upward arrow of components/status.tsx
+      expect([icon.width, icon.height]).toEqual(["16px", "16px"]);
       await screenshot(page, `40-tub-card-status-${size}`);
 
       // Tiles: coloured and worded, none grey when out of range; unsure pad marked.
