@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, type SceneStrip, threePadStrip } from "../../tests/reading/strip-scene";
 import { alongProfile } from "./axis-profile";
 import { parseChart } from "./chart";
-import { chartLayout, colourTrust, placementColourCost, pxPerMm, searchLayout, tAt } from "./layout-fit";
+import { chartLayout, colourTrust, padPitchMm, placementColourCost, pxPerMm, searchLayout, tAt } from "./layout-fit";
 import { plasticDifference } from "./plastic-difference";
 
 const strip: SceneStrip = threePadStrip({ cx: 200, cy: 100, angleDeg: 180, pxPerMm: 3.5 });
@@ -52,5 +52,34 @@ describe("searchLayout", () => {
     expect(colourTrust(3)).toBe(1);
     expect(colourTrust(13)).toBeCloseTo(0.5, 6);
     expect(colourTrust(40)).toBe(0.1);
+  });
+});
+
+describe("padPitchMm", () => {
+  it("gives the spacing of evenly spaced pads, and none for uneven ones or a single pad", () => {
+    expect(padPitchMm(chartLayout(chart))).toBeCloseTo(7, 6);
+    expect(padPitchMm({ pads: [[1, 4], [6, 9], [14, 17]], gaps: [] })).toBe(0);
+    expect(padPitchMm({ pads: [[1, 4]], gaps: [] })).toBe(0);
+  });
+});
+
+describe("searchLayout with an end walked a pad's pitch too far", () => {
+  // The same drawn strip; the tip's end is given 7 mm (one pitch) beyond the true tip, as when a
+  // grain line runs on past it, with the length taken as confirmed.
+  const img = drawScene(400, 200, [120, 118, 110], strip);
+  const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
+  const profile = alongProfile(img, axis, -190, 190);
+  const diff = plasticDifference(profile, axis.length, axis.width);
+  const layout = chartLayout(chart);
+  const ends = { plus: { end: 140 + 7 * 3.5, truncated: false }, minus: { end: -140 + 7 * 3.5, truncated: false } };
+  const { fits } = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+
+  it("still finds the true placement, a pitch along from one searched near the given end", () => {
+    const right = fits.find((f) => f.dir === -1 && Math.abs(tAt(f, 0) - 140) < 1.5);
+    expect(right).toBeDefined();
+    const partner = fits.find((f) => f === right!.shiftOf || f.shiftOf === right);
+    expect(partner).toBeDefined();
+    // Its colours lie closer to the chart than its partner's.
+    expect(placementColourCost(chart, layout, profile, diff.bare, right!)).toBeLessThan(placementColourCost(chart, layout, profile, diff.bare, partner!) - 3);
   });
 });

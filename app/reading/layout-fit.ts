@@ -42,6 +42,8 @@ export type LayoutFit = {
   padScore: number;
   /** The same over the gaps' middles. */
   gapScore: number;
+  /** The placement this one is a pad's pitch along from (searchLayout). */
+  shiftOf?: LayoutFit;
 };
 
 export const pxPerMm = (f: LayoutFit) => f.baseScale * f.scaleFactor;
@@ -69,6 +71,18 @@ export const SCALE_RANGE_WIDTH = 0.12;
 /** Offsets tried per coarse offset step when refining around the coarse grid's best before the full grid. */
 const FINE_STEPS = 6;
 
+/**
+ * The pads' spacing (mm, centre to centre) when they are evenly spaced (every step within 10 % of
+ * the median), else 0: a shifted placement of unevenly spaced pads does not line up with them.
+ */
+export function padPitchMm(layout: Layout): number {
+  const c = layout.pads.map(([a, b]) => (a + b) / 2).sort((x, y) => x - y);
+  const steps = c.slice(1).map((x, i) => x - c[i]);
+  if (steps.length < 2) return 0;
+  const m = median(steps);
+  return m > 0 && steps.every((d) => Math.abs(d - m) <= 0.1 * m) ? m : 0;
+}
+
 /** Every distinct best placement (one per anchor and direction), and the best of them. */
 export function searchLayout(chart: StripChart, layout: Layout, profile: Profile, diff: PlasticDifference, s: LayoutSearch): { fits: LayoutFit[]; best: LayoutFit | null } {
   const { plus, minus, scale, scaleFromWidth, lengthOk, free } = s;
@@ -79,6 +93,7 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   const padMid = layout.pads.map(([a, b]) => (a + b) / 2), padHalf = layout.pads.map(([a, b]) => ((b - a) / 2) * 0.7);
   const gapMid = layout.gaps.map(([a, b]) => (a + b) / 2), gapHalf = layout.gaps.map(([a, b]) => Math.max(0.15, ((b - a) / 2) * 0.6));
   const minPadMm = Math.min(...layout.pads.map(([a, b]) => b - a));
+  const pitchMm = padPitchMm(layout);
   // Both ends (mm) of every span scored: the pads' first, then the gaps'.
   const spanMm = Float64Array.from([...padMid.flatMap((m, j) => [m - padHalf[j], m + padHalf[j]]), ...gapMid.flatMap((m, j) => [m - gapHalf[j], m + gapHalf[j]])]);
   const prefix = diff.prefix, profileT0 = profile.t0, lastIndex = profile.n - 1;
@@ -113,8 +128,7 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
       // search tries thousands of placements and keeps no object per improvement).
       const top = new Float64Array(5);
       let any = false;
-      const consider = (ki: number, oi: number) => {
-        const k = 1 - scaleRange + 0.01 * ki, off = offMin + offStep * oi;
+      const consider = (k: number, off: number) => {
         // t of a point mm from the tip: tip + dir × (off + mm × sc)
         const t0 = tip + dir * off, dt = dir * baseScale * k;
         // Each span's mean difference from bare plastic (diff.meanBetween, taken inline: no call
@@ -132,21 +146,44 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         const score = padScore - gapScore - (free ? 0 : Math.abs(off / scale) * 0.5) - Math.abs(k - 1) * 20;
         if (!any || score > top[0]) (any = true), (top[0] = score), (top[1] = k), (top[2] = off), (top[3] = padScore), (top[4] = gapScore);
       };
-      for (let ki = 0; ki < nK; ki += 2) for (let oi = 0; oi < nOff; oi += offStride) consider(ki, oi);
+      const kAt = (ki: number) => 1 - scaleRange + 0.01 * ki, offAt = (oi: number) => offMin + offStep * oi;
+      for (let ki = 0; ki < nK; ki += 2) for (let oi = 0; oi < nOff; oi += offStride) consider(kAt(ki), offAt(oi));
       // The full grid around it, in two steps when the coarse offsets lie far apart (a large
       // scale): every few offsets over the coarse step, then every offset over that.
       const refine = (kReach: number, oReach: number, oStep: number) => {
         const kBest = Math.round((top[1] - (1 - scaleRange)) / 0.01), oBest = Math.round((top[2] - offMin) / offStep);
         for (let ki = Math.max(0, kBest - kReach); ki <= Math.min(nK - 1, kBest + kReach); ki++)
-          for (let oi = Math.max(0, oBest - oReach); oi <= Math.min(nOff - 1, oBest + oReach); oi += oStep) consider(ki, oi);
+          for (let oi = Math.max(0, oBest - oReach); oi <= Math.min(nOff - 1, oBest + oReach); oi += oStep) consider(kAt(ki), offAt(oi));
       };
       const midStride = Math.ceil(offStride / FINE_STEPS);
       if (any) refine(2, offStride, midStride);
       if (any && midStride > 1) refine(1, midStride, 1);
-      // Another anchor that lands on a placement already found adds nothing.
-      const f: LayoutFit | null = any ? { score: top[0], tip, dir, scaleFactor: top[1], offset: top[2], baseScale, padScore: top[3], gapScore: top[4] } : null;
-      if (f && !fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
-      if (f && (!best || f.score > best.score)) best = f;
+      const found: LayoutFit[] = [];
+      const keep = (shiftOf?: LayoutFit) => found.push({ score: top[0], tip, dir, scaleFactor: top[1], offset: top[2], baseScale, padScore: top[3], gapScore: top[4], ...(shiftOf ? { shiftOf } : {}) });
+      if (any) keep();
+      // Evenly spaced pads fit nearly as well one pad along, one of them off the strip: an end
+      // walked a pad's pitch too far (grain or a shadow running on past the tip) leaves the true
+      // placement outside the offsets searched. The placement a pitch further the way the best
+      // leans from the end (either way when it does not) is searched too, near its own offset at
+      // the same scale (a score or so of placements), and competes with it by colour
+      // (strip-fit.ts): a pad moved onto a dark surface past the tip raises the score, not the
+      // colours' match.
+      if (any && pitchMm > 0 && !free) {
+        const k0 = top[1], off0 = top[2], reach = offStride * offStep;
+        for (const m of off0 > 0 ? [1] : off0 < 0 ? [-1] : [-1, 1]) {
+          any = false;
+          const centre = off0 + m * pitchMm * baseScale * k0;
+          for (let o = -reach; o <= reach; o += midStride * offStep) consider(k0, centre + o);
+          const o1 = top[2];
+          for (let o = -midStride; o <= midStride; o++) consider(k0, o1 + o * offStep);
+          keep(found[0]);
+        }
+      }
+      for (const f of found) {
+        // Another anchor that lands on a placement already found adds nothing.
+        if (!fits.some((g) => g.dir === f.dir && Math.abs(tAt(g, 0) - tAt(f, 0)) < 1.5 * f.baseScale && Math.abs(pxPerMm(g) - pxPerMm(f)) < 0.03 * f.baseScale)) fits.push(f);
+        if (!best || f.score > best.score) best = f;
+      }
     }
   }
   return { fits, best };

@@ -102,7 +102,10 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   traceLine(trace, "fit", fits.map((f) => ({ s: +f.score.toFixed(1), pads: +f.padScore.toFixed(1), gaps: +f.gapScore.toFixed(1), d: f.dir, t: Math.round(tAt(f, 0)), k: +pxPerMm(f).toFixed(2) })), "lengthOk", lengthOk, "w", widthPx.toFixed(1));
   // The pad pattern fits both ways round (or from either end): the placement whose colours lie
   // closer to the chart's swatches (after a white correction from the bare plastic) wins.
-  const rivals = fits.filter((f) => best.score - f.score < Math.max(2, 0.15 * best.score));
+  // So does the placement a pad's pitch along from the best (or the best's origin) unless it scores
+  // far lower: which of the two is right is for the colours to say.
+  const pitchPartner = (f: LayoutFit) => (f.shiftOf === fitted || fitted.shiftOf === f) && f.score >= 0.5 * fitted.score;
+  const rivals = fits.filter((f) => best.score - f.score < Math.max(2, 0.15 * best.score) || pitchPartner(f));
   let chosenCost: number;
   if (rivals.length >= 2) {
     const costs = rivals.map((f) => placementColourCost(chart, layout, profile, diff.bare, f));
