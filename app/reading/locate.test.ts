@@ -30,6 +30,21 @@ describe("locateStrip", () => {
   it("places the pads of a strip lying along a dark grout line", () => {
     expectPadsPlaced({ ...base, angleDeg: 0 }, [225, 222, 215], [{ y: 180, thickness: 6, color: [95, 92, 90] }]);
   });
+  it("searches the edge pairs after the wide scale's best two blobs, before profiling the rest", () => {
+    // Bright bands between dark lines are the wide scale's best blobs; none is the strip.
+    const dark: [number, number, number] = [95, 92, 90];
+    const lines = [180, 30, 95, 255, 320].map((y, i) => ({ y, thickness: i ? 3 : 6, color: dark }));
+    const trace: string[] = [];
+    const g = locateStrip(drawScene(480, 360, [225, 222, 215], base, lines), chart, (l) => trace.push(l));
+    const firstEdges = trace.findIndex((l) => l.startsWith("edge pair"));
+    expect(firstEdges).toBeGreaterThan(0);
+    const walkedBefore = new Set(trace.slice(0, firstEdges).filter((l) => l.startsWith("walk")).map((l) => /"c":\[[^\]]*\]/.exec(l)?.[0]));
+    expect(walkedBefore.size).toBe(2);
+    base.pads.forEach((p, i) => {
+      const [x, y] = scenePoint(base, p.centerMm);
+      expect(Math.hypot(g.pads[i].centre[0] - x, g.pads[i].centre[1] - y)).toBeLessThan(2.5);
+    });
+  });
   it("refuses a photo with no strip in plain words", () => {
     const img = drawScene(480, 360, [110, 105, 98], { ...base, cx: -1000 });
     expect(() => locateStrip(img, chart)).toThrow(ReadingError);

@@ -40,6 +40,8 @@ export const WIDE_DIV = 16;
 
 /** Candidates tried per background scale. */
 const CANDIDATES_PER_SCALE = 5;
+/** The wide scale's candidates tried before the edge pairs (the rest after them). */
+const WIDE_BEFORE_EDGES = 2;
 
 /** A placement whose pads stand out from the bare plastic beats one whose gaps look as coloured as its pads, whatever their scores. */
 function better(g: StripGeometry, best: StripGeometry | null): boolean {
@@ -87,13 +89,16 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   const search = early?.search ?? makeSearchCopy(img);
   let best = null as StripGeometry | null;
   const tried: StripCandidate[] = [];
-  const tryBright = (div: number) => {
-    let n = 0;
-    for (const c of div === WIDE_DIV && early?.wide ? early.wide : brightCandidates(search, chart, div)) {
-      if (n >= CANDIDATES_PER_SCALE) break;
+  // Each background scale's candidates, best first, and how far through them the search has come.
+  const scales = new Map<number, { list: StripCandidate[]; next: number; n: number }>();
+  const tryBright = (div: number, upTo = CANDIDATES_PER_SCALE) => {
+    let at = scales.get(div);
+    if (!at) scales.set(div, (at = { list: div === WIDE_DIV && early?.wide ? early.wide : brightCandidates(search, chart, div), next: 0, n: 0 }));
+    for (; at.next < at.list.length && at.n < upTo; at.next++) {
+      const c = at.list[at.next];
       if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
       tried.push(c);
-      n++;
+      at.n++;
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
       if (settled(best)) return true;
@@ -125,10 +130,19 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
     }
     return false;
   };
-  // The wide background scale first, then the edge pairs, then the narrow scale (and the edge
-  // pairs after it if they were not needed before), then the pad rows: each only while nothing
-  // has settled the search.
-  if (tryBright(WIDE_DIV) || (needEdges() && tryEdges()) || tryBright(40) || (needEdges() && tryEdges()) || tryPadRows())
+  // The wide background scale's best few first, then the edge pairs (a strip the bright
+  // components missed is found there before the rest of the wide scale's lesser blobs are each
+  // profiled), then the rest of the wide scale, then the narrow scale (and the edge pairs after
+  // it if they were not needed before), then the pad rows: each only while nothing has settled
+  // the search.
+  if (
+    tryBright(WIDE_DIV, WIDE_BEFORE_EDGES) ||
+    (needEdges() && tryEdges()) ||
+    tryBright(WIDE_DIV) ||
+    tryBright(40) ||
+    (needEdges() && tryEdges()) ||
+    tryPadRows()
+  )
     return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
   if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
   // No candidate shows the chart's pads standing out from bare plastic between them.
