@@ -26,6 +26,19 @@ describe("makeSearchCopy", () => {
   });
 });
 
+describe("makeSearchCopy of 3 × 3 and 4 × 4 blocks", () => {
+  it("gives each uniform block the whiteness of its colour", () => {
+    const colours: [number, number, number][] = [[250, 250, 245], [30, 40, 50], [230, 110, 20], [128, 128, 128], [0, 200, 90], [90, 60, 220], [255, 0, 0], [12, 250, 251], [77, 77, 200]];
+    for (const f of [3, 4]) {
+      const side = 3 * f, img = solid(side, side, [0, 0, 0]);
+      for (let y = 0; y < side; y++) for (let x = 0; x < side; x++) img.data.set(colours[Math.floor(y / f) * 3 + Math.floor(x / f)], (y * side + x) * 3);
+      const s = makeSearchCopy(img, 3);
+      expect(s.factor).toBe(f);
+      colours.forEach((c, i) => expect(s.whiteness[i]).toBe(makeSearchCopy(solid(side, side, c), 3).whiteness[0]));
+    }
+  });
+});
+
 describe("boxMean", () => {
   it("is the plain mean of the box, clipped at the borders", () => {
     const src = Float32Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]);
