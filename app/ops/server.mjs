@@ -56,8 +56,11 @@ app.set("trust proxy", trustProxy(process.env.TRUST_PROXY));
 app.use(compression());
 const assets = path.join(path.dirname(buildPath), "..", "client");
 app.use("/assets", express.static(path.join(assets, "assets"), { immutable: true, maxAge: "1y", setHeaders: staticHeaders }));
-app.use(express.static(assets, { setHeaders: staticHeaders }));
-app.use(express.static("public", { maxAge: "1h", setHeaders: staticHeaders }));
+// The files at the top level (favicon, manifest, icons) all have a file extension; a page's address
+// (/clients, /tubs/…) never does, so pages skip looking for a file on disk (two stat calls each).
+const files = (serve) => (req, res, next) => (path.extname(req.path) ? serve(req, res, next) : next());
+app.use(files(express.static(assets, { setHeaders: staticHeaders })));
+app.use(files(express.static("public", { maxAge: "1h", setHeaders: staticHeaders })));
 app.use(morgan("tiny"));
 app.use(retryAfterOn503);
 app.all(
