@@ -6,6 +6,8 @@ import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
+import { decodePhoto, PhotoError, type Inspected } from "../features/photos/decode";
+import type { PhotoType } from "../features/photos/rules";
 import { readStrip, ReadingError, type StripChart, type StripReading } from "../reading";
 
 const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
@@ -13,7 +15,10 @@ const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url)
 const READER_NICENESS = 10;
 const NICE = ["/usr/bin/nice", "/bin/nice"].find((p) => existsSync(p));
 
-type Pending = { resolve: (r: StripReading) => void; reject: (e: Error) => void };
+type Pending = { resolve: (r: unknown) => void; reject: (e: Error) => void };
+/** What a reader process is asked: read a strip with a chart, or decode a new photo once. */
+type Job = { bytes: Buffer; chart?: StripChart; decode?: PhotoType };
+const inThisProcess = (j: Job) => (j.decode ? decodePhoto(j.bytes, j.decode) : readStrip(j.bytes, j.chart!, { crops: true }));
 type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
 
 /** A reader process: Node with the TypeScript loader, started through `nice` where there is one. */
@@ -30,7 +35,7 @@ export function readerPoolSize() {
 
 export function createReaderPool(size = readerPoolSize()) {
   const slots: Slot[] = [];
-  const waiting: { bytes: Buffer; chart: StripChart; p: Pending }[] = [];
+  const waiting: { job: Job; p: Pending }[] = [];
   let nextId = 1;
   let closed = false;
   // Processes that die one after another without reading anything (they cannot start): stop
@@ -41,16 +46,18 @@ export function createReaderPool(size = readerPoolSize()) {
   const spawn = (): Slot => {
     const worker = startReader();
     const slot: Slot = { worker, busy: null };
-    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading; error?: { code: string | null; message: string } }) => {
+    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading | Inspected; error?: { code: string | null; message: string; photo?: boolean } }) => {
       const task = slot.busy;
       if (!task || task.id !== msg.id) return;
       slot.busy = null;
       deathsInRow = 0;
       if (msg.ok) {
         const r = msg.result!;
-        for (const pad of r.pads) if (pad.crop) pad.crop = Buffer.from(pad.crop as unknown as Uint8Array);
+        if ("thumb" in r) r.thumb = Buffer.from(r.thumb as unknown as Uint8Array);
+        else for (const pad of r.pads) if (pad.crop) pad.crop = Buffer.from(pad.crop as unknown as Uint8Array);
         task.resolve(r);
-      } else if (msg.error!.code) task.reject(new ReadingError(msg.error!.code as never, msg.error!.message));
+      } else if (msg.error!.photo) task.reject(new PhotoError(msg.error!.code!, msg.error!.message));
+      else if (msg.error!.code) task.reject(new ReadingError(msg.error!.code as never, msg.error!.message));
       else task.reject(new Error(msg.error!.message));
       pump();
     });
@@ -67,7 +74,7 @@ export function createReaderPool(size = readerPoolSize()) {
       if (++deathsInRow > 2 * size) {
         if (!inProcess) console.error(`reader processes keep stopping (${why}); reading in the worker's own process`);
         inProcess = true;
-        for (const w of waiting.splice(0)) readStrip(w.bytes, w.chart, { crops: true }).then(w.p.resolve, w.p.reject);
+        for (const w of waiting.splice(0)) inThisProcess(w.job).then(w.p.resolve, w.p.reject);
         return;
       }
       slots.push(spawn());
@@ -81,11 +88,19 @@ export function createReaderPool(size = readerPoolSize()) {
   const pump = () => {
     for (const slot of slots) {
       if (slot.busy || !waiting.length) continue;
-      const { bytes, chart, p } = waiting.shift()!;
+      const { job, p } = waiting.shift()!;
       const id = nextId++;
       slot.busy = { id, ...p };
-      slot.worker.send({ id, bytes, chart });
+      slot.worker.send({ id, ...job });
     }
+  };
+
+  const run = <T>(job: Job): Promise<T> => {
+    if (inProcess) return inThisProcess(job) as Promise<T>;
+    return new Promise<T>((resolve, reject) => {
+      waiting.push({ job, p: { resolve: resolve as (r: unknown) => void, reject } });
+      pump();
+    });
   };
 
   for (let i = 0; i < size; i++) slots.push(spawn());
@@ -93,11 +108,11 @@ export function createReaderPool(size = readerPoolSize()) {
   return {
     size,
     read(bytes: Buffer, chart: StripChart) {
-      if (inProcess) return readStrip(bytes, chart, { crops: true });
-      return new Promise<StripReading>((resolve, reject) => {
-        waiting.push({ bytes, chart, p: { resolve, reject } });
-        pump();
-      });
+      return run<StripReading>({ bytes, chart });
+    },
+    /** Decodes a newly registered photo once (its size and thumbnail), at the readers' priority. */
+    decode(bytes: Buffer, type: PhotoType) {
+      return run<Inspected>({ bytes, decode: type });
     },
     async close() {
       closed = true;

@@ -13,6 +13,8 @@ import { COULD_NOT_READ, readPendingReading } from "~/features/readings/read-job
 import { appBoss } from "~/jobs/boss.server";
 import { READ_QUEUE, READ_RETRY } from "~/jobs/queues";
 import { db } from "~/lib/db.server";
+import { headObject } from "~/lib/storage.server";
+import { thumbKey } from "~/features/photos/intake.server";
 import { parseChart } from "~/reading";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
@@ -166,6 +168,11 @@ describe("the reading job", () => {
     expect(await readingsOf(photoId)).toHaveLength(1);
     const pads = await db.select().from(s.readingPad).where(eq(s.readingPad.readingId, readingId));
     expect(pads.map((p) => p.analyte).sort()).toEqual(["free_chlorine", "ph", "total_alkalinity"]);
+    // The photo was decoded once in a reader process of the pool: its size in pixels and its thumbnail are kept.
+    const photo = await db.query.photo.findFirst({ where: eq(s.photo.id, photoId) });
+    expect(photo!.width).toBeGreaterThan(0);
+    expect(photo!.height).toBeGreaterThan(0);
+    expect(await headObject(thumbKey(photo!.s3Key))).toBeTruthy();
     // The first worker died with the reading still pending, so the second worker's run is the retry:
     // the outcome above (one reading, read, every pad) is what matters, however pg-boss counts it.
     second.child.kill("SIGTERM");

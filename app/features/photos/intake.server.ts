@@ -7,23 +7,12 @@
 // deleted at once; every other upload object is swept by the worker after an hour (sweepUploads)
 // and, in production, by the bucket's lifecycle rule on `uploads/`.
 import { createHash, randomUUID } from "node:crypto";
-import sharp from "sharp";
 import { env } from "../../lib/env.server";
 import {
   copyObject, deleteObject, digestObject, getObjectBytes, headObject, listObjects, presignUpload, putObject, StorageUnavailableError, UPLOAD_URL_SECONDS,
 } from "../../lib/storage.server";
-import { PHOTO_MESSAGES, PHOTO_TYPES, photoProblem, typeOfExt, typeOfFormat, typeOfMagic, type PhotoType } from "./rules";
-
-/** A refusal the user sees, in plain words, with the HTTP status it goes out with. */
-export class PhotoError extends Error {
-  constructor(
-    public code: string,
-    message: string,
-    public status = 400,
-  ) {
-    super(message);
-  }
-}
+import { decodePhoto, PhotoError, type Inspected } from "./decode";
+import { PHOTO_MESSAGES, PHOTO_TYPES, photoProblem, typeOfExt, typeOfMagic, type PhotoType } from "./rules";
 
 export const maxPhotoBytes = () => env().MAX_PHOTO_BYTES;
 
@@ -67,52 +56,12 @@ export async function presignPhoto(scope: PhotoScope, contentType: string, size:
   return { key, url, contentType: type, expiresInSeconds: UPLOAD_URL_SECONDS };
 }
 
-export type Inspected = { type: PhotoType; width: number; height: number; thumb: Buffer };
+export type { Inspected } from "./decode";
+export { PhotoError } from "./decode";
 
-/**
- * Decodes in this process, one at a time. The image library works on Node's small shared pool of
- * threads, where page compression and file reads wait their turn too: fifty photos registered at
- * once would fill it, and every other page would queue behind their decodes. One at a time, a
- * page's turn comes after one decode at most.
- */
-let decoding: Promise<unknown> = Promise.resolve();
-function oneDecodeAtATime<T>(work: () => Promise<T>): Promise<T> {
-  const turn = decoding.then(work, work);
-  decoding = turn.catch(() => {});
-  return turn;
-}
-
-/**
- * The one decode of a photo: its real type from the bytes (whatever it was called), a file that
- * ends early refused, the upright size, and a small WebP thumbnail from the same pass.
- */
+/** Decodes in this process (see decode.ts): chart and reference photos, taken in by the web app. */
 export async function inspectPhoto(bytes: Buffer, declared?: PhotoType): Promise<Inspected> {
-  if (bytes.length === 0) throw new PhotoError("empty", PHOTO_MESSAGES.empty);
-  return oneDecodeAtATime(() => decodeOnce(bytes, declared));
-}
-
-async function decodeOnce(bytes: Buffer, declared?: PhotoType): Promise<Inspected> {
-  let meta: Awaited<ReturnType<ReturnType<typeof sharp>["metadata"]>>;
-  const image = sharp(bytes, { failOn: "truncated", limitInputPixels: 100_000_000 });
-  try {
-    meta = await image.metadata();
-  } catch {
-    throw new PhotoError("not_image", PHOTO_MESSAGES.notImage);
-  }
-  const type = typeOfFormat(meta.format);
-  if (!type) throw new PhotoError("wrong_type", PHOTO_MESSAGES.wrongType);
-  if (declared && declared !== type) throw new PhotoError("wrong_type", PHOTO_MESSAGES.notWhatItClaims);
-  let thumb: Buffer;
-  try {
-    thumb = await image.rotate().resize(160, 160, { fit: "cover" }).webp({ quality: 70 }).toBuffer();
-  } catch (error) {
-    const text = String((error as Error).message ?? "");
-    if (/truncat|premature|end of|incomplete|corrupt|damaged|unexpected/i.test(text)) throw new PhotoError("truncated", PHOTO_MESSAGES.truncated);
-    throw new PhotoError("not_image", PHOTO_MESSAGES.notImage);
-  }
-  const width = meta.autoOrient?.width ?? meta.width ?? 0;
-  const height = meta.autoOrient?.height ?? meta.height ?? 0;
-  return { type, width, height, thumb };
+  return decodePhoto(bytes, declared);
 }
 
 export type ReceivedPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: number; sha256: string; width: number; height: number; bytes: Buffer };
@@ -178,6 +127,9 @@ export async function keepPhoto(scope: PhotoScope, bytes: Buffer, inspected: Ins
   return { s3Key, contentType: inspected.type, sizeBytes: bytes.length, sha256, width: inspected.width, height: inspected.height, bytes };
 }
 
+/** Decodes a photo (in this process, or in a reader process of the worker's pool). */
+export type PhotoDecoder = (bytes: Buffer, type: PhotoType) => Promise<Inspected>;
+
 export type TakenPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: number; sha256: string };
 
 /**
@@ -220,8 +172,8 @@ export async function takeUpload(scope: PhotoScope, key: string, known?: (sha256
  * the checks of `inspectPhoto` (a file that ends early, not what its signature said) and the
  * thumbnail, written beside the photo. A refusal is returned in the owner's words; the photo stays.
  */
-export async function inspectKeptPhoto(s3Key: string, bytes: Buffer, type: PhotoType): Promise<Inspected> {
-  const inspected = await inspectPhoto(bytes, type);
+export async function inspectKeptPhoto(s3Key: string, bytes: Buffer, type: PhotoType, decode: PhotoDecoder = inspectPhoto): Promise<Inspected> {
+  const inspected = await decode(bytes, type);
   await withStorage(() => putObject(thumbKey(s3Key), inspected.thumb, "image/webp"));
   return inspected;
 }

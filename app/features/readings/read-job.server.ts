@@ -13,7 +13,7 @@ import { READ_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
 import { putObject, readObject } from "../../lib/storage.server";
 import { parseChart, readStrip, ReadingError, type StripChart, type StripReading } from "../../reading";
-import { cropKey, inspectKeptPhoto, PhotoError } from "../photos/intake.server";
+import { cropKey, inspectKeptPhoto, PhotoError, type PhotoDecoder } from "../photos/intake.server";
 import { isPhotoType } from "../photos/rules";
 
 export type ReadJob = { readingId: string };
@@ -64,7 +64,7 @@ async function fail(readingId: string, message: string, detail: object | null = 
  */
 export async function readPendingReading(
   readingId: string,
-  opts: { reader?: StripReader; finalAttempt?: boolean } = {},
+  opts: { reader?: StripReader; decoder?: PhotoDecoder; finalAttempt?: boolean } = {},
 ): Promise<"read" | "failed" | "already-done"> {
   const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
   if (!r || r.status !== "pending") return "already-done";
@@ -86,7 +86,7 @@ export async function readPendingReading(
     // with its thumbnail; a file that does not open is a failed reading with the reason.
     if (p.width === null && p.purpose === "strip" && isPhotoType(p.contentType)) {
       try {
-        const inspected = await inspectKeptPhoto(p.s3Key, bytes, p.contentType);
+        const inspected = await inspectKeptPhoto(p.s3Key, bytes, p.contentType, opts.decoder);
         await db.update(photo).set({ width: inspected.width, height: inspected.height }).where(eq(photo.id, p.id));
       } catch (error) {
         if (error instanceof PhotoError && error.code !== "storage_unavailable") return await fail(readingId, couldNotOpen(error.code), { code: error.code });
