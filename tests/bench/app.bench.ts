@@ -9,10 +9,18 @@
 //   - e-mail delivery per second through the outbox and the worker.
 // It measures whatever the code does and asserts nothing about time.
 //
+// The tub page's times compared idle and under the uploads are taken by a probe in a process of
+// its own (page-probe.mjs), the same way both times; the uploads follow their readings as the
+// owner's review screen does (the app's status API, once a second).
+//
+// Beside each figure, the app process's own CPU time (from /proc, where there is one): on a
+// shared machine wall times wander with the other work, CPU time much less.
+//
 // Options: --tubs 500 --readings 500 --samples 40 --mails 300 --reuse (keep an earlier seed of
 // the same size) --no-build (reuse build-bench/) --pages dashboard,csv (time only the pages whose
-// name or address contains one of these words, and skip the uploads and e-mail).
-import { type ChildProcess } from "node:child_process";
+// name or address contains one of these words, and skip the uploads and e-mail) --profile DIR (the
+// app writes a V8 CPU profile into DIR when it stops).
+import { fork, type ChildProcess } from "node:child_process";
 import { spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -51,7 +59,43 @@ const PAGES = (() => {
   if (!words.length) throw new Error("--pages needs words naming pages, e.g. --pages dashboard,csv");
   return words;
 })();
+const PROFILE = (() => {
+  const i = args.indexOf("--profile");
+  return i < 0 ? null : path.resolve(args[i + 1] ?? "");
+})();
 const FINAL = new Set(["read", "failed", "confirmed", "manual"]);
+/** How often an owner's review screen asks whether the reading is ready (routes/tubs/reading.tsx). */
+const POLL_MS = 1000;
+
+/** CPU seconds (user + system) a process has used so far, from /proc; NaN where there is none. */
+function cpuSeconds(pid: number | undefined) {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    return (Number(fields[11]) + Number(fields[12])) / 100; // utime, stime in clock ticks (USER_HZ = 100)
+  } catch {
+    return Number.NaN;
+  }
+}
+
+/** The page probe (page-probe.mjs): one page back to back in a process of its own. */
+function startProbe() {
+  const child = fork(path.join(root, "tests", "bench", "page-probe.mjs"), [], { stdio: ["ignore", "inherit", "inherit", "ipc"] });
+  const next = <T>() => new Promise<T>((resolve) => child.once("message", (m) => resolve(m as T)));
+  return {
+    async run(url: string, cookie: string) {
+      const started = next<{ started: true }>();
+      child.send({ run: { url: `${base}${url}`, cookie, origin: base } });
+      await started;
+    },
+    async stop() {
+      const answer = next<{ times: number[] }>();
+      child.send({ stop: true });
+      return (await answer).times;
+    },
+    close: () => child.send({ exit: true }),
+  };
+}
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const quantile = (xs: number[], q: number) => {
@@ -79,18 +123,20 @@ async function timed(url: string, cookie: string, init: RequestInit = {}) {
   return { ms: performance.now() - t0, status: res.status, bytes: body.byteLength, body };
 }
 
-type Row = { what: string; url: string; median: number; p95: number; status: number; kb: number };
+type Row = { what: string; url: string; median: number; p95: number; status: number; kb: number; cpuMs: number };
 
-async function measurePage(what: string, url: string, cookie: string): Promise<Row> {
+async function measurePage(what: string, url: string, cookie: string, appPid: number | undefined): Promise<Row> {
   let last = { status: 0, bytes: 0 };
   for (let i = 0; i < 3; i++) last = await timed(url, cookie);
   const times: number[] = [];
+  const cpu0 = cpuSeconds(appPid);
   for (let i = 0; i < SAMPLES; i++) {
     const r = await timed(url, cookie);
     times.push(r.ms);
     last = r;
   }
-  return { what, url, median: quantile(times, 0.5), p95: quantile(times, 0.95), status: last.status, kb: last.bytes / 1024 };
+  const cpuMs = ((cpuSeconds(appPid) - cpu0) * 1000) / SAMPLES;
+  return { what, url, median: quantile(times, 0.5), p95: quantile(times, 0.95), status: last.status, kb: last.bytes / 1024, cpuMs };
 }
 
 const pad = (s: string, n: number) => s.padEnd(n);
@@ -98,8 +144,9 @@ const lpad = (s: string, n: number) => s.padStart(n);
 
 function printPages(rows: Row[]) {
   console.log(`\nPages and APIs (technician with ${TUBS} client tubs × ${READINGS} readings; ms from request to last byte, ${SAMPLES} requests each)`);
-  console.log(`${pad("page", 32)}${lpad("median", 8)}${lpad("p95", 8)}${lpad("status", 8)}${lpad("KB", 8)}  url`);
-  for (const r of rows) console.log(`${pad(r.what, 32)}${lpad(ms(r.median), 8)}${lpad(ms(r.p95), 8)}${lpad(String(r.status), 8)}${lpad(r.kb.toFixed(0), 8)}  ${r.url}`);
+  console.log(`(app CPU: the app process's CPU time per request, user + system)`);
+  console.log(`${pad("page", 32)}${lpad("median", 8)}${lpad("p95", 8)}${lpad("app CPU", 9)}${lpad("status", 8)}${lpad("KB", 8)}  url`);
+  for (const r of rows) console.log(`${pad(r.what, 32)}${lpad(ms(r.median), 8)}${lpad(ms(r.p95), 8)}${lpad(ms(r.cpuMs), 9)}${lpad(String(r.status), 8)}${lpad(r.kb.toFixed(0), 8)}  ${r.url}`);
 }
 
 async function main() {
@@ -150,7 +197,7 @@ async function main() {
       if (b.status !== 0) throw new Error("The app did not build.");
     }
     for (const f of Object.values(logs)) writeFileSync(f, "");
-    spawnService("app", process.execPath, ["app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env, quiet: true, logFile: logs.app });
+    const app = spawnService("app", process.execPath, [...(PROFILE ? ["--cpu-prof", "--cpu-prof-dir", PROFILE] : []), "app/ops/server.mjs", `./${buildDir}/server/index.js`], { cwd: root, env, quiet: true, logFile: logs.app });
     worker = spawnService("worker", process.execPath, ["--import", "tsx", "app/jobs/worker.ts"], { cwd: root, env, quiet: true, logFile: logs.worker });
     await waitForPort(P.app, "the app", 60_000);
     // Let the worker create its queues before the outbox is used.
@@ -199,7 +246,7 @@ async function main() {
     const chosen = PAGES ? pages.filter(([what, url]) => PAGES.some((w) => what.toLowerCase().includes(w) || url.toLowerCase().includes(w))) : pages;
     if (!chosen.length) throw new Error(`No page matches --pages ${PAGES!.join(",")}.`);
     const rows: Row[] = [];
-    for (const [what, url, cookie] of chosen) rows.push(await measurePage(what, url, cookie));
+    for (const [what, url, cookie] of chosen) rows.push(await measurePage(what, url, cookie, app.pid));
     if (PAGES) {
       printPages(rows);
       await sql.end();
@@ -215,21 +262,27 @@ async function main() {
     );
     const ordinary = tub; // the tub page
     const uploads: {
-      n: number; done: number; seconds: number; p95: number; median: number; registerP95: number; pageP95: number; pageSamples: number; idleP95: number; idleSamples: number; errors: string[];
+      n: number; done: number; seconds: number; p95: number; median: number; registerP95: number; pageP95: number; pageSamples: number; idleP95: number; idleSamples: number;
+      errors: string[]; appCpu: number;
     }[] = [];
     let variant = 0;
+    const probe = startProbe();
     for (const n of [20, 50]) {
       const errors: string[] = [];
-      // The ordinary page's idle p95 to compare with: the same back-to-back requests as during the
-      // uploads, just before them (so the machine's other load is alike), for at least 10 s and 200 requests.
-      const idleTimes: number[] = [];
+      // The ordinary page's idle p95 to compare with: the same probe (requests back to back, in its
+      // own process) just before the uploads, with none running (so the machine's other load is
+      // alike), for at least 10 s and 200 requests.
+      await probe.run(ordinary, tech);
       const idleStart = performance.now();
-      while (performance.now() - idleStart < 10_000 || idleTimes.length < 200) idleTimes.push((await timed(ordinary, tech)).ms);
-      let running = true;
-      const pageTimes: number[] = [];
-      const background = (async () => {
-        while (running) pageTimes.push((await timed(ordinary, tech)).ms);
-      })();
+      while (performance.now() - idleStart < 10_000) await sleep(100);
+      let idleTimes = await probe.stop();
+      while (idleTimes.length < 200) {
+        await probe.run(ordinary, tech);
+        await sleep(1000);
+        idleTimes = idleTimes.concat(await probe.stop());
+      }
+      await probe.run(ordinary, tech);
+      const cpu0 = cpuSeconds(app.pid);
       const t0 = performance.now();
       const results = await Promise.all(
         Array.from({ length: n }, async (_, i) => {
@@ -253,16 +306,17 @@ async function main() {
             const registerMs = performance.now() - r0;
             if (!reg.ok) throw new Error(`register ${reg.status}: ${(await reg.text()).slice(0, 120)}`);
             const out = (await reg.json()) as { readingId?: string; photoId?: string; status?: string };
-            // Ready when the reading is stored with its result (read, or could not be read).
+            // Ready when the reading is stored with its result (read, or could not be read), asked
+            // as the owner's review screen asks: the reading's status from the app, once a second.
             if (!(out.status && FINAL.has(out.status))) {
+              if (!out.readingId) throw new Error("registration answered without a reading");
               const deadline = Date.now() + 240_000;
               for (;;) {
-                const q = out.readingId
-                  ? await sql.query("select status::text from reading where id = $1", [out.readingId])
-                  : await sql.query("select r.status::text from reading r join photo p on p.id = r.photo_id where p.s3_key = $1", [key]);
-                if (q.rows[0] && FINAL.has(q.rows[0].status)) break;
+                await sleep(POLL_MS);
+                const st = await fetch(`${base}/api/tubs/${tubId}/readings/${out.readingId}`, { headers: { cookie: tech, origin: base, accept: "application/json" } });
+                if (!st.ok) throw new Error(`reading status ${st.status}`);
+                if (FINAL.has(((await st.json()) as { status: string }).status)) break;
                 if (Date.now() > deadline) throw new Error("the reading was not ready within 240 s");
-                await sleep(100);
               }
             }
             return { ms: performance.now() - start, registerMs };
@@ -273,16 +327,17 @@ async function main() {
         }),
       );
       const seconds = (performance.now() - t0) / 1000;
-      running = false;
-      await background;
+      const appCpu = cpuSeconds(app.pid) - cpu0;
+      const pageTimes = await probe.stop();
       const ok = results.filter((r): r is { ms: number; registerMs: number } => r !== null);
       uploads.push({
         n, done: ok.length, seconds, median: quantile(ok.map((r) => r.ms), 0.5), p95: quantile(ok.map((r) => r.ms), 0.95),
         registerP95: quantile(ok.map((r) => r.registerMs), 0.95), pageP95: quantile(pageTimes, 0.95), pageSamples: pageTimes.length,
-        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors,
+        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors, appCpu,
       });
       await sleep(2000);
     }
+    probe.close();
 
     // ------------------------------------------------------------ e-mail
     console.log(`Queuing ${MAILS} e-mails through the outbox…`);
@@ -323,10 +378,11 @@ async function main() {
     // ------------------------------------------------------------ report
     printPages(rows);
     console.log(`\nConcurrent photo uploads (3 MP JPEG; presign → PUT → register → reading stored)`);
-    console.log(`(tub page p95: its requests back to back during the uploads; idle p95: the same just before them, with no uploads)`);
-    console.log(`${pad("uploads", 10)}${lpad("ready", 7)}${lpad("per s", 8)}${lpad("median", 9)}${lpad("p95", 9)}${lpad("register p95", 14)}${lpad("tub page p95", 14)}${lpad("(n)", 7)}${lpad("idle p95", 10)}${lpad("(n)", 7)}`);
+    console.log(`(tub page p95: its requests back to back during the uploads, from a process of their own; idle p95: the same just before them, with no uploads;`);
+    console.log(` app CPU: the app process's CPU seconds while the uploads ran, the tub page's requests included)`);
+    console.log(`${pad("uploads", 10)}${lpad("ready", 7)}${lpad("per s", 8)}${lpad("median", 9)}${lpad("p95", 9)}${lpad("register p95", 14)}${lpad("tub page p95", 14)}${lpad("(n)", 7)}${lpad("idle p95", 10)}${lpad("(n)", 7)}${lpad("app CPU s", 11)}`);
     for (const u of uploads) {
-      console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(String(u.pageSamples), 7)}${lpad(ms(u.idleP95), 10)}${lpad(String(u.idleSamples), 7)}`);
+      console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(String(u.pageSamples), 7)}${lpad(ms(u.idleP95), 10)}${lpad(String(u.idleSamples), 7)}${lpad(u.appCpu.toFixed(1), 11)}`);
       for (const e of [...new Set(u.errors)].slice(0, 3)) console.log(`    error: ${e}`);
     }
     console.log(`\nE-mail: ${MAILS} queued through the outbox in ${queuedSeconds.toFixed(1)} s (${sentWhenQueued} already sent by then); ${sent} sent, ${mailRate.toFixed(1)} per s${sent < MAILS ? " (stopped waiting after 120 s)" : ""}`);
