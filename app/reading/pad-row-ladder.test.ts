@@ -32,8 +32,17 @@ describe("padRows", () => {
     expect(rows[0].cx).toBeCloseTo(17, 5);
     expect(Math.abs(Math.sin(rows[0].angle))).toBeLessThan(1e-6);
   });
-  it("makes no row of two blobs, nor of three off one line", () => {
-    expect(padRows([blob(10, 10), blob(17, 10)], chart)).toEqual([]);
-    expect(padRows([blob(10, 10), blob(17, 20), blob(24, 10)], chart)).toEqual([]);
+  // The chart's pads are 5 mm, centred 4, 11 and 18 mm from the tip: spacings of 1.4 and 2.8
+  // pad sizes.
+  it("makes a row of two blobs at a spacing two of the chart's pads have (the third as pale as the plastic)", () => {
+    const rows = padRows([blob(10, 10), blob(17, 10)], chart);
+    expect(rows.length).toBe(1);
+    expect(rows[0].n).toBe(2);
+    expect(rows[0].cx).toBeCloseTo(13.5, 5);
+    expect(padRows([blob(10, 10), blob(24, 10)], chart).length).toBe(1);
+  });
+  it("makes no row of two blobs at a spacing the chart lacks, nor of three off one line", () => {
+    expect(padRows([blob(10, 10), blob(20, 10)], chart)).toEqual([]);
+    expect(padRows([blob(10, 10), blob(14, 19), blob(20, 10)], chart)).toEqual([]);
   });
 });

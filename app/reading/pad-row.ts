@@ -56,6 +56,9 @@ export function padRowCandidates(img: RgbImage, factor: number, chart: StripChar
   return handlesOf(kept, chart);
 }
 
+/** How far a pair's spacing may lie from the chart's (share of it). */
+const PAIR_SPACING_TOLERANCE = 0.15;
+
 /** Rows of pads among the coloured blobs of one level: merged pads, or three or more in a line. */
 export function padRows(blobs: StripCandidate[], chart: StripChart): StripCandidate[] {
   const sizes = chart.pads.map((p) => Math.min(p.sizeMm, chart.strip.widthMm));
@@ -63,6 +66,11 @@ export function padRows(blobs: StripCandidate[], chart: StripChart): StripCandid
   const starts = chart.pads.map((p) => p.centerMm - p.sizeMm / 2), ends = chart.pads.map((p) => p.centerMm + p.sizeMm / 2);
   const spanMm = Math.max(...ends) - Math.min(...starts);
   const need = Math.min(3, chart.pads.length);
+  // Two blobs alone make a row only at a spacing two of the chart's pads have (centre to centre,
+  // in pad sizes): a strip whose other pads are as pale as its plastic.
+  const centres = chart.pads.map((p) => p.centerMm);
+  const spacings = centres.flatMap((a, i) => centres.slice(i + 1).map((b) => Math.abs(b - a) / padMm));
+  const pairSpacing = (r: number) => spacings.some((q) => Math.abs(r / q - 1) <= PAIR_SPACING_TOLERANCE);
   const out: StripCandidate[] = [];
   const widthFor = (pad: number) => (pad / padMm) * chart.strip.widthMm;
   // Merged pads: one blob about as wide as a pad and several pads long.
@@ -87,7 +95,7 @@ export function padRows(blobs: StripCandidate[], chart: StripChart): StripCandid
         const s = ux * px + uy * py;
         if (Math.abs(s - dist / 2) <= (spanMm / padMm) * size * 0.75) along.push(s), xs.push(c.cx), ys.push(c.cy);
       }
-      if (along.length < need) continue;
+      if (along.length < need && !(along.length === 2 && pairSpacing(dist / size))) continue;
       // The line through the blobs' centres (least squares), not through the first two alone.
       const mx = xs.reduce((p, q) => p + q, 0) / xs.length, my = ys.reduce((p, q) => p + q, 0) / ys.length;
       let sxx = 0, syy = 0, sxy = 0;
