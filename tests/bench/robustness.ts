@@ -8,6 +8,8 @@
  *
  * --charts replaces the four charts swept; --harsh renders every photo in harsher conditions
  * (strong perspective, blur, noise, glare, uneven light, under- and overexposure, low JPEG quality).
+ * --no-strip renders the same surfaces and light with no strip on them: every photo must be
+ * refused as showing no strip; it prints how many were read anyway.
  * --only reads the one photo of that seed in the sweep (same conditions as in the full sweep);
  * --trace prints the locator's diagnostics for it on stderr.
  */
@@ -24,6 +26,7 @@ const cache = opt("--cache", "/tmp/dipwell-robustness");
 fs.mkdirSync(cache, { recursive: true });
 
 const harsh = args.includes("--harsh");
+const noStrip = args.includes("--no-strip");
 const chartFiles = opt("--charts", "calibration/demo-3pad.json,calibration/demo-6pad.json,calibration/demo-bromine-4pad.json,../shared/eval/charts/practice-3pad.json").split(",");
 const charts = chartFiles.map((f) => JSON.parse(fs.readFileSync(f, "utf8")));
 const surfaces = ["paper", "counter", "wood", "cloth", "tiles"] as const;
@@ -59,12 +62,12 @@ for (let i = 0; i < N; i++) {
       : {}),
   };
   const tag = `${seed}${harsh ? " harsh" : ""} ${path.basename(chartFiles[ci]!, ".json")} ${surface}${o.surfaceColor ?? ""} ${o.cast}${o.shadow ? " shadow" : ""}${o.glare ? " glare" : ""}`;
-  const key = `${seed}${harsh ? "-harsh" : ""}-${path.basename(chartFiles[ci]!, ".json")}`;
+  const key = `${seed}${harsh ? "-harsh" : ""}${noStrip ? "-nostrip" : ""}-${path.basename(chartFiles[ci]!, ".json")}`;
   const file = path.join(cache, `${key}.jpg`), tfile = path.join(cache, `${key}.json`);
   let truth: { analyte: string; index: number }[], rot: number, conditions: unknown;
   if (fs.existsSync(file) && fs.existsSync(tfile)) ({ truth, rot, conditions } = JSON.parse(fs.readFileSync(tfile, "utf8")));
   else {
-    const r = await renderStripPhoto(asRenderChart(chart), o);
+    const r = await renderStripPhoto(asRenderChart(chart), { ...o, ...(noStrip ? { noStrip: true } : {}) });
     fs.writeFileSync(file, r.jpeg);
     truth = r.truth;
     rot = r.conditions.rotationDeg;
@@ -74,6 +77,11 @@ for (let i = 0; i < N; i++) {
   if (trace) {
     const c = conditions as { width: number; height: number; pxPerMm: number; centre: number[]; stripCornersPx: number[][] | null } | undefined;
     if (c) console.error("truth", JSON.stringify({ size: [c.width, c.height], pxPerMm: c.pxPerMm, centre: c.centre, corners: c.stripCornersPx }), "photo", file);
+  }
+  if (noStrip) {
+    const err = await readStrip(fs.readFileSync(file), parseChart(chart), { trace }).then(() => null, (e: unknown) => e as { code?: string });
+    if (!err || err.code !== "no_strip") fails.push(`${tag}: ${err ? `refused otherwise (${err.code})` : "read as a strip"}`);
+    continue;
   }
   try {
     const res = await readStrip(fs.readFileSync(file), parseChart(chart), { trace });
@@ -97,6 +105,11 @@ for (let i = 0; i < N; i++) {
     pads += truth.length;
     fails.push(`${tag} rot ${rot}: ${(e as Error).message.slice(0, 60)}`);
   }
+}
+if (noStrip) {
+  console.log(`photos with no strip ${only !== null ? 1 : N}  refused as showing none ${(only !== null ? 1 : N) - fails.length}  not ${fails.length}`);
+  for (const f of fails) console.log("  NOT REFUSED", f);
+  process.exit(0);
 }
 console.log(`photos ${only !== null ? 1 : N}  pads ${pads}  within 0.5 step ${((100 * in05) / pads).toFixed(1)} %  within 1 step ${((100 * in1) / pads).toFixed(1)} %  failed photos ${fails.length}  flagged pads ${flagged}  silent misreads ${silent}`);
 for (const f of fails) console.log("  FAIL", f);
