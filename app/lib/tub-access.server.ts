@@ -1,7 +1,7 @@
 // Every tub a request touches goes through here: who may see it, who may change
 // it. A tub the user may not see is "not found" (404), so its existence is not
 // revealed; an action the user may not take on a tub they can see is 403.
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { isUuid } from "./ids";
 import { data, type RouterContextProvider } from "react-router";
 import { tub, tubAccess } from "../db/schema";
@@ -16,13 +16,21 @@ export type TubNeed = "view" | "care" | "own";
 export type TubRelation = "owner" | "technician" | "admin";
 
 
+// Asked by every request that names a tub: prepared once (named statements, planned once per
+// connection), so no query is built on the way.
+const tubById = db.select().from(tub).where(eq(tub.id, sql.placeholder("id"))).limit(1).prepare("dipwell-tub-by-id");
+const activeAccess = db
+  .select({ id: tubAccess.id })
+  .from(tubAccess)
+  .where(and(eq(tubAccess.tubId, sql.placeholder("tubId")), eq(tubAccess.technicianId, sql.placeholder("technicianId")), isNull(tubAccess.revokedAt)))
+  .limit(1)
+  .prepare("dipwell-tub-access-active");
+
 async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | null> {
   if (t.ownerId === user.id) return "owner";
   if (can(user, { tub: ["all"] })) return "admin";
   if (can(user, { tub: ["shared"] })) {
-    const access = await db.query.tubAccess.findFirst({
-      where: and(eq(tubAccess.tubId, t.id), eq(tubAccess.technicianId, user.id), isNull(tubAccess.revokedAt)),
-    });
+    const [access] = await activeAccess.execute({ tubId: t.id, technicianId: user.id });
     if (access) return "technician";
   }
   return null;
@@ -31,7 +39,7 @@ async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | nul
 export async function requireTub(user: SessionUser, tubId: string | undefined, need: TubNeed = "view") {
   const notFound = () => data({ message: "We could not find that tub." }, { status: 404 });
   if (!isUuid(tubId)) throw notFound();
-  const found = await db.query.tub.findFirst({ where: eq(tub.id, tubId) });
+  const [found] = await tubById.execute({ id: tubId });
   if (!found) throw notFound();
   const relation = await tubRelation(user, found);
   if (!relation) throw notFound();

@@ -9,8 +9,14 @@ export async function listNotifications(userId: string, limit = 100) {
 }
 
 export async function unreadCount(userId: string) {
-  const [row] = await db.select({ n: count() }).from(notification).where(and(eq(notification.userId, userId), isNull(notification.readAt)));
-  return row?.n ?? 0;
+  // Asked on every signed-in page (the badge in the navigation): a named statement, planned once
+  // per connection, with no query building on the way.
+  const { rows } = await db.$client.query<{ n: number }>({
+    name: "dipwell-unread-count",
+    text: "select count(*)::int as n from notification where user_id = $1 and read_at is null",
+    values: [userId],
+  });
+  return rows[0]?.n ?? 0;
 }
 
 /** Marks one notification (or, with id null, all of them) read. Only the user's own. */
