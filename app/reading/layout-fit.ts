@@ -163,12 +163,14 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
       if (any) keep();
       // Evenly spaced pads fit nearly as well one pad along, one of them off the strip: an end
       // walked a pad's pitch too far (grain or a shadow running on past the tip) leaves the true
-      // placement outside the offsets searched. The placement a pitch further the way the best
+      // placement outside the offsets searched (when the length is not confirmed the offsets
+      // searched are wider, and a placement from the width alone is not moved by a whole pad on
+      // the pattern's word: the end stays what places it). The placement a pitch further the way the best
       // leans from the end (either way when it does not) is searched too, near its own offset at
       // the same scale (a score or so of placements), and competes with it by colour
       // (strip-fit.ts): a pad moved onto a dark surface past the tip raises the score, not the
       // colours' match.
-      if (any && pitchMm > 0 && !free) {
+      if (any && pitchMm > 0 && lengthOk) {
         const k0 = top[1], off0 = top[2], reach = offStride * offStep;
         for (const m of off0 > 0 ? [1] : off0 < 0 ? [-1] : [-1, 1]) {
           any = false;

@@ -27,6 +27,9 @@ export type PreparedAxis = {
   maxGap: number;
 };
 
+/** Mean ΔE00 to the chart within which a far lower-scoring pitch partner may replace the best placement. */
+const PARTNER_COST_MAX = 8;
+
 /** The walked length confirms the chart's length within this share of the length the width gives. */
 const LENGTH_RATIO_MIN = 0.85, LENGTH_RATIO_MAX = 1.18;
 
@@ -112,7 +115,10 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     traceLine(trace, "placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
     const order = costs.map((_, i) => i).sort((a, b) => costs[a] - costs[b]);
     const [i0, i1] = order;
-    if (costs[i1] - costs[i0] > 3) best = rivals[i0];
+    // A pitch partner that scores far lower wins only when its own colours lie near the chart:
+    // between two placements that both miss it, the pattern's score stands.
+    const partnerOnly = (f: LayoutFit) => fitted.score - f.score >= Math.max(2, 0.15 * fitted.score);
+    if (costs[i1] - costs[i0] > 3 && (!partnerOnly(rivals[i0]) || costs[i0] <= PARTNER_COST_MAX)) best = rivals[i0];
     else if (rivals[i0].dir !== rivals[i1].dir) {
       warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
       doubts.push("the tip and the handle of the strip could not be told apart, so the pads may be read in the wrong order");
