@@ -106,7 +106,7 @@ export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INF
  * The object's SHA-256, its size and its first `headBytes` bytes, read as a stream (the bytes are
  * hashed as they arrive and never held whole); refuses to read past maxBytes.
  */
-export async function digestObject(key: string, maxBytes: number, headBytes = 32): Promise<{ sha256: string; size: number; head: Buffer } | { tooLarge: true; size: number }> {
+export async function digestObject(key: string, maxBytes: number, headBytes = 32): Promise<{ sha256: string; size: number; head: Buffer; etag?: string } | { tooLarge: true; size: number }> {
   let out;
   try {
     out = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
@@ -137,16 +137,22 @@ export async function digestObject(key: string, maxBytes: number, headBytes = 32
   } catch (error) {
     throw new StorageUnavailableError(error);
   }
-  return { sha256: hash.digest("hex"), size: total, head: Buffer.concat(head) };
+  return { sha256: hash.digest("hex"), size: total, head: Buffer.concat(head), etag: out.ETag };
 }
 
-/** Copies an object inside the bucket (storage copies the bytes; none pass through this process). */
-export async function copyObject(from: string, to: string, contentType: string) {
+/**
+ * Copies an object inside the bucket (storage copies the bytes; none pass through this process).
+ * With `ifMatch` (the ETag of the bytes that were checked), storage refuses to copy an object
+ * replaced since (false is returned); the reading job also compares the kept bytes' hash, for stores that ignore it.
+ */
+export async function copyObject(from: string, to: string, contentType: string, ifMatch?: string): Promise<boolean> {
   try {
     await s3().send(
-      new CopyObjectCommand({ Bucket: bucket(), Key: to, CopySource: `${bucket()}/${from.split("/").map(encodeURIComponent).join("/")}`, ContentType: contentType, MetadataDirective: "REPLACE" }),
+      new CopyObjectCommand({ Bucket: bucket(), Key: to, CopySource: `${bucket()}/${from.split("/").map(encodeURIComponent).join("/")}`, ContentType: contentType, MetadataDirective: "REPLACE", CopySourceIfMatch: ifMatch }),
     );
+    return true;
   } catch (error) {
+    if (ifMatch && STATUS(error) === 412) return false; // replaced since it was checked
     unavailable(error);
   }
 }

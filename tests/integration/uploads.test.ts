@@ -17,7 +17,7 @@ import { callRoute, createTub, createUser, type TestUser, createChartBatch } fro
 import { importRoute } from "../support/routes";
 import { readPendingReading } from "~/features/readings/read-job.server";
 import { thumbKey } from "~/features/photos/intake.server";
-import { headObject } from "~/lib/storage.server";
+import { headObject, putObject } from "~/lib/storage.server";
 
 const chartJson = JSON.parse(readFileSync("calibration/demo-3pad.json", "utf8"));
 const chart = parseChart(chartJson);
@@ -289,6 +289,22 @@ describe("bad input", () => {
     expect(data.reading.status).toBe("failed");
     expect(data.reading.error).toBe(row?.error);
     expect(data.pads.map((p) => p.analyte)).toEqual(["free_chlorine", "ph", "total_alkalinity"]);
+  });
+
+  it("a kept photo whose bytes are not the ones checked at registration is not read", async () => {
+    // The kept copy is made by storage after the check; if the upload was replaced in between
+    // (its address was still valid), the job finds bytes whose hash is not the registered one.
+    const other = await sharp(strip.jpeg).rotate(180).jpeg({ quality: 80 }).toBuffer();
+    const key = await upload(other, "image/jpeg");
+    const r = await register(key);
+    expect(r.status, JSON.stringify(r.data)).toBe(201);
+    const out = r.data as { readingId: string; photoId: string };
+    const kept = await db.query.photo.findFirst({ where: eq(s.photo.id, out.photoId) });
+    await putObject(kept!.s3Key, strip.jpeg, "image/jpeg");
+    expect(await readPendingReading(out.readingId)).toBe("failed");
+    const row = await db.query.reading.findFirst({ where: eq(s.reading.id, out.readingId) });
+    expect(row?.error).toMatch(/^We could not read this photo: the file was replaced while it was being taken in/);
+    expect(await db.select().from(s.readingPad).where(eq(s.readingPad.readingId, out.readingId))).toHaveLength(0);
   });
 
   it("refuses a key that does not belong to the tub", async () => {

@@ -162,7 +162,9 @@ export async function takeUpload(scope: PhotoScope, key: string, known?: (sha256
     if (!type) throw await refuse(new PhotoError("not_image", PHOTO_MESSAGES.notImage));
     if (type !== declared) throw await refuse(new PhotoError("wrong_type", PHOTO_MESSAGES.notWhatItClaims));
     const s3Key = photoKey(scope, digest.sha256, type);
-    if (!(await known?.(digest.sha256))) await copyObject(key, s3Key, type);
+    if (!(await known?.(digest.sha256)) && !(await copyObject(key, s3Key, type, digest.etag))) {
+      throw new PhotoError("changed", PHOTO_MESSAGES.changed, 409);
+    }
     return { s3Key, contentType: type, sizeBytes: digest.size, sha256: digest.sha256 };
   });
 }

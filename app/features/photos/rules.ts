@@ -48,6 +48,7 @@ export const PHOTO_MESSAGES = {
   notImage: "That file could not be opened as a photo. It may be damaged or not a picture. Take the photo again.",
   truncated: "Only part of that photo is there: the file ends before the picture does. Take the photo again, or choose the original file.",
   missing: "The photo did not arrive: the upload stopped before it finished. Press “Try the upload again”; you do not need a new photo.",
+  changed: "The photo changed while it was being sent. Press “Try the upload again”.",
   storageDown: "Photo storage is unavailable at the moment. Your photo is safe on your phone: try again in a minute.",
 } as const;
 

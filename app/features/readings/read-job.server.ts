@@ -6,6 +6,7 @@
 // Only a pending reading is ever written: a second run (a retried job whose first run was not
 // dead after all, a duplicate job) finds it done and writes nothing, so a photo is read into one
 // reading, once.
+import { createHash } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { chartVersion, photo, reading, readingPad } from "../../db/schema";
@@ -38,6 +39,7 @@ const UNOPENED: Record<string, string> = {
   truncated: "only part of the photo arrived: the file ends before the picture does",
   wrong_type: "the file is not the kind of photo it claims to be",
   not_image: "the file could not be opened as a picture",
+  changed: "the file was replaced while it was being taken in, so what is kept is not the photo that was checked",
 };
 export const couldNotOpen = (code: string) =>
   `We could not read this photo: ${UNOPENED[code] ?? UNOPENED.not_image}. Your photo is kept: type the values from the strip below, or take a new photo.`;
@@ -86,6 +88,10 @@ export async function readPendingReading(
     // with its thumbnail; a file that does not open is a failed reading with the reason.
     if (p.width === null && p.purpose === "strip" && isPhotoType(p.contentType)) {
       try {
+        // The kept copy is named by the hash of the bytes checked at registration; storage copied
+        // it afterwards, so an upload replaced in between (its upload address was still valid)
+        // is caught here, before anything is read from it.
+        if (createHash("sha256").update(bytes).digest("hex") !== p.sha256) throw new PhotoError("changed", UNOPENED.changed);
         const inspected = await inspectKeptPhoto(p.s3Key, bytes, p.contentType, opts.decoder);
         await db.update(photo).set({ width: inspected.width, height: inspected.height }).where(eq(photo.id, p.id));
       } catch (error) {
