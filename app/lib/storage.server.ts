@@ -73,8 +73,11 @@ export async function headObject(key: string) {
   }
 }
 
-/** The object's bytes, refusing to hold more than maxBytes (the stream is cut off there). */
-export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INFINITY): Promise<Buffer | { tooLarge: true; size: number }> {
+/**
+ * Streams the object's bytes to `take` as they arrive, refusing to read past maxBytes (the
+ * stream is cut off there); answers the size read and the object's ETag.
+ */
+async function readChunks(key: string, maxBytes: number, take: (chunk: Uint8Array) => void): Promise<{ size: number; etag?: string } | { tooLarge: true; size: number }> {
   let out;
   try {
     out = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
@@ -85,7 +88,6 @@ export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INF
     (out.Body as { destroy?: () => void } | undefined)?.destroy?.();
     return { tooLarge: true, size: out.ContentLength ?? 0 };
   }
-  const chunks: Buffer[] = [];
   let total = 0;
   try {
     for await (const chunk of out.Body as AsyncIterable<Uint8Array>) {
@@ -94,50 +96,37 @@ export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INF
         (out.Body as { destroy?: () => void }).destroy?.();
         return { tooLarge: true, size: total };
       }
-      chunks.push(Buffer.from(chunk));
+      take(chunk);
     }
   } catch (error) {
     throw new StorageUnavailableError(error);
   }
-  return Buffer.concat(chunks);
+  return { size: total, etag: out.ETag };
+}
+
+/** The object's bytes, refusing to hold more than maxBytes (the stream is cut off there). */
+export async function getObjectBytes(key: string, maxBytes = Number.POSITIVE_INFINITY): Promise<Buffer | { tooLarge: true; size: number }> {
+  const chunks: Buffer[] = [];
+  const read = await readChunks(key, maxBytes, (chunk) => chunks.push(Buffer.from(chunk)));
+  return "tooLarge" in read ? read : Buffer.concat(chunks);
 }
 
 /**
- * The object's SHA-256, its size and its first `headBytes` bytes, read as a stream (the bytes are
- * hashed as they arrive and never held whole); refuses to read past maxBytes.
+ * The object's SHA-256, its size, its ETag and its first `headBytes` bytes, read as a stream (the
+ * bytes are hashed as they arrive and never held whole); refuses to read past maxBytes.
  */
 export async function digestObject(key: string, maxBytes: number, headBytes = 32): Promise<{ sha256: string; size: number; head: Buffer; etag?: string } | { tooLarge: true; size: number }> {
-  let out;
-  try {
-    out = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
-  } catch (error) {
-    unavailable(error);
-  }
-  if ((out.ContentLength ?? 0) > maxBytes) {
-    (out.Body as { destroy?: () => void } | undefined)?.destroy?.();
-    return { tooLarge: true, size: out.ContentLength ?? 0 };
-  }
   const hash = createHash("sha256");
   const head: Buffer[] = [];
   let headLength = 0;
-  let total = 0;
-  try {
-    for await (const chunk of out.Body as AsyncIterable<Uint8Array>) {
-      total += chunk.length;
-      if (total > maxBytes) {
-        (out.Body as { destroy?: () => void }).destroy?.();
-        return { tooLarge: true, size: total };
-      }
-      hash.update(chunk);
-      if (headLength < headBytes) {
-        head.push(Buffer.from(chunk.subarray(0, headBytes - headLength)));
-        headLength += Math.min(chunk.length, headBytes - headLength);
-      }
+  const read = await readChunks(key, maxBytes, (chunk) => {
+    hash.update(chunk);
+    if (headLength < headBytes) {
+      head.push(Buffer.from(chunk.subarray(0, headBytes - headLength)));
+      headLength += Math.min(chunk.length, headBytes - headLength);
     }
-  } catch (error) {
-    throw new StorageUnavailableError(error);
-  }
-  return { sha256: hash.digest("hex"), size: total, head: Buffer.concat(head), etag: out.ETag };
+  });
+  return "tooLarge" in read ? read : { sha256: hash.digest("hex"), size: read.size, head: Buffer.concat(head), etag: read.etag };
 }
 
 /**
