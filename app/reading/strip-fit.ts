@@ -107,8 +107,9 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   // closer to the chart's swatches (after a white correction from the bare plastic) wins.
   // So does the placement a pad's pitch along from the best (or the best's origin) unless it scores
   // far lower: which of the two is right is for the colours to say.
+  const nearBest = (f: LayoutFit) => fitted.score - f.score < Math.max(2, 0.15 * fitted.score);
   const pitchPartner = (f: LayoutFit) => (f.shiftOf === fitted || fitted.shiftOf === f) && f.score >= 0.5 * fitted.score;
-  const rivals = fits.filter((f) => best.score - f.score < Math.max(2, 0.15 * best.score) || pitchPartner(f));
+  const rivals = fits.filter((f) => nearBest(f) || pitchPartner(f));
   let chosenCost: number;
   if (rivals.length >= 2) {
     const costs = rivals.map((f) => placementColourCost(chart, layout, profile, diff.bare, f));
@@ -117,8 +118,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     const [i0, i1] = order;
     // A pitch partner that scores far lower wins only when its own colours lie near the chart:
     // between two placements that both miss it, the pattern's score stands.
-    const partnerOnly = (f: LayoutFit) => fitted.score - f.score >= Math.max(2, 0.15 * fitted.score);
-    if (costs[i1] - costs[i0] > 3 && (!partnerOnly(rivals[i0]) || costs[i0] <= PARTNER_COST_MAX)) best = rivals[i0];
+    if (costs[i1] - costs[i0] > 3 && (nearBest(rivals[i0]) || costs[i0] <= PARTNER_COST_MAX)) best = rivals[i0];
     else if (rivals[i0].dir !== rivals[i1].dir) {
       warnings.push("The tip and the handle of the strip could not be told apart with certainty.");
       doubts.push("the tip and the handle of the strip could not be told apart, so the pads may be read in the wrong order");
