@@ -6,9 +6,10 @@ import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
-import { decodePhoto, PhotoError, type Inspected } from "../features/photos/decode";
+import type { Inspected } from "../features/photos/decode";
 import type { PhotoType } from "../features/photos/rules";
-import { readStrip, ReadingError, type StripChart, type StripReading } from "../reading";
+import type { StripChart, StripReading } from "../reading";
+import { errorOf, runReaderJob, type ReaderFailure, type ReaderJob as Job } from "./reader-job";
 
 const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
 /** How far reading steps back for the web app (the `nice` increment, 0–19). */
@@ -16,9 +17,6 @@ const READER_NICENESS = 10;
 const NICE = ["/usr/bin/nice", "/bin/nice"].find((p) => existsSync(p));
 
 type Pending = { resolve: (r: unknown) => void; reject: (e: Error) => void };
-/** What a reader process is asked: read a strip with a chart, or decode a new photo once. */
-type Job = { bytes: Buffer; chart?: StripChart; decode?: PhotoType };
-const inThisProcess = (j: Job) => (j.decode ? decodePhoto(j.bytes, j.decode) : readStrip(j.bytes, j.chart!, { crops: true }));
 type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
 
 /** A reader process: Node with the TypeScript loader, started through `nice` where there is one. */
@@ -46,7 +44,7 @@ export function createReaderPool(size = readerPoolSize()) {
   const spawn = (): Slot => {
     const worker = startReader();
     const slot: Slot = { worker, busy: null };
-    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading | Inspected; error?: { code: string | null; message: string; photo?: boolean } }) => {
+    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading | Inspected; error?: ReaderFailure }) => {
       const task = slot.busy;
       if (!task || task.id !== msg.id) return;
       slot.busy = null;
@@ -56,9 +54,7 @@ export function createReaderPool(size = readerPoolSize()) {
         if ("thumb" in r) r.thumb = Buffer.from(r.thumb as unknown as Uint8Array);
         else for (const pad of r.pads) if (pad.crop) pad.crop = Buffer.from(pad.crop as unknown as Uint8Array);
         task.resolve(r);
-      } else if (msg.error!.photo) task.reject(new PhotoError(msg.error!.code!, msg.error!.message));
-      else if (msg.error!.code) task.reject(new ReadingError(msg.error!.code as never, msg.error!.message));
-      else task.reject(new Error(msg.error!.message));
+      } else task.reject(errorOf(msg.error!));
       pump();
     });
     let gone = false;
@@ -74,7 +70,7 @@ export function createReaderPool(size = readerPoolSize()) {
       if (++deathsInRow > 2 * size) {
         if (!inProcess) console.error(`reader processes keep stopping (${why}); reading in the worker's own process`);
         inProcess = true;
-        for (const w of waiting.splice(0)) inThisProcess(w.job).then(w.p.resolve, w.p.reject);
+        for (const w of waiting.splice(0)) runReaderJob(w.job).then(w.p.resolve, w.p.reject);
         return;
       }
       slots.push(spawn());
@@ -96,7 +92,7 @@ export function createReaderPool(size = readerPoolSize()) {
   };
 
   const run = <T>(job: Job): Promise<T> => {
-    if (inProcess) return inThisProcess(job) as Promise<T>;
+    if (inProcess) return runReaderJob(job) as Promise<T>;
     return new Promise<T>((resolve, reject) => {
       waiting.push({ job, p: { resolve: resolve as (r: unknown) => void, reject } });
       pump();

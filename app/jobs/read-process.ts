@@ -3,24 +3,16 @@
 // The pool starts it at a lower priority (nice 10) as a whole process, so every thread of it
 // (the reader's own, and the image library's decoding threads) steps back for the web app's
 // requests where the two share cores, and reads take the rest of the processor.
-import { decodePhoto, PhotoError } from "../features/photos/decode";
-import type { PhotoType } from "../features/photos/rules";
-import { readStrip, ReadingError, type StripChart } from "../reading";
+import { failureOf, runReaderJob, type ReaderJob } from "./reader-job";
 
-/** A strip to read with a chart, or (`decode`) a newly registered photo to decode once: size and thumbnail. */
-type Task = { id: number; bytes: Uint8Array; chart?: StripChart; decode?: PhotoType };
+type Task = Omit<ReaderJob, "bytes"> & { id: number; bytes: Uint8Array };
 
-process.on("message", async ({ id, bytes, chart, decode }: Task) => {
+process.on("message", async ({ id, bytes, ...job }: Task) => {
   try {
-    const buffer = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-    const result = decode ? await decodePhoto(buffer, decode) : await readStrip(buffer, chart!, { crops: true });
+    const result = await runReaderJob({ ...job, bytes: Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength) });
     process.send!({ id, ok: true, result });
   } catch (error) {
-    const e = error as Error;
-    process.send!({
-      id, ok: false,
-      error: error instanceof ReadingError ? { code: error.code, message: error.message } : error instanceof PhotoError ? { code: error.code, message: error.message, photo: true } : { code: null, message: e?.stack ?? String(e) },
-    });
+    process.send!({ id, ok: false, error: failureOf(error) });
   }
 });
 // The pool going away (its worker stopped or died) ends this process too.
