@@ -17,15 +17,24 @@ describe("chartLayout", () => {
   });
 });
 
-describe("searchLayout", () => {
-  // angle 180°: the tip lies towards +x, so towards +t on an axis along +x.
+/**
+ * The drawn strip's profile along an axis through it (angle 180°: the tip lies towards +x, so
+ * towards +t on an axis along +x) and the layout searched between the given ends, the length
+ * taken as confirmed.
+ */
+function searchDrawn(plusEnd: number, minusEnd: number) {
   const img = drawScene(400, 200, [120, 118, 110], strip);
   const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
   const profile = alongProfile(img, axis, -190, 190);
   const diff = plasticDifference(profile, axis.length, axis.width);
   const layout = chartLayout(chart);
-  const ends = { plus: { end: 140, truncated: false }, minus: { end: -140, truncated: false } };
-  const { best, fits } = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+  const ends = { plus: { end: plusEnd, truncated: false }, minus: { end: minusEnd, truncated: false } };
+  const found = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+  return { axis, profile, diff, layout, ...found };
+}
+
+describe("searchLayout", () => {
+  const { axis, profile, diff, layout, best, fits } = searchDrawn(140, -140);
 
   it("puts the tip at the right end, at the right scale", () => {
     expect(best).not.toBeNull();
@@ -66,13 +75,7 @@ describe("padPitchMm", () => {
 describe("searchLayout with an end walked a pad's pitch too far", () => {
   // The same drawn strip; the tip's end is given 7 mm (one pitch) beyond the true tip, as when a
   // grain line runs on past it, with the length taken as confirmed.
-  const img = drawScene(400, 200, [120, 118, 110], strip);
-  const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
-  const profile = alongProfile(img, axis, -190, 190);
-  const diff = plasticDifference(profile, axis.length, axis.width);
-  const layout = chartLayout(chart);
-  const ends = { plus: { end: 140 + 7 * 3.5, truncated: false }, minus: { end: -140 + 7 * 3.5, truncated: false } };
-  const { fits } = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+  const { fits, profile, diff, layout } = searchDrawn(140 + 7 * 3.5, -140 + 7 * 3.5);
 
   it("still finds the true placement, a pitch along from one searched near the given end", () => {
     const right = fits.find((f) => f.dir === -1 && Math.abs(tAt(f, 0) - 140) < 1.5);
