@@ -23,7 +23,7 @@
 import { fork, type ChildProcess } from "node:child_process";
 import { spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
-import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { migrateDatabase } from "../../app/ops/migrate";
@@ -31,6 +31,7 @@ import { seedScale, SCALE_ADMIN_EMAIL, SCALE_PASSWORD, SCALE_TECH_EMAIL } from "
 import {
   assertPortFree, createDatabase, serviceEnv, spawnService, startMailCatcher, startPostgres, startS3, stopChildren, waitForPort,
 } from "../../app/ops/services";
+import { readingPollDelay } from "../../app/features/readings/status-poll";
 import { renderStripPhoto } from "../render/strip-photo";
 
 const P = { postgres: 54400, s3: 4600, smtp: 1050, mailWeb: 1100, app: 3200 };
@@ -64,8 +65,6 @@ const PROFILE = (() => {
   return i < 0 ? null : path.resolve(args[i + 1] ?? "");
 })();
 const FINAL = new Set(["read", "failed", "confirmed", "manual"]);
-/** How often an owner's review screen asks whether the reading is ready (routes/tubs/reading.tsx). */
-const POLL_MS = 1000;
 
 /** CPU seconds (user + system) a process has used so far, from /proc; NaN where there is none. */
 function cpuSeconds(pid: number | undefined) {
@@ -77,6 +76,49 @@ function cpuSeconds(pid: number | undefined) {
     return Number.NaN;
   }
 }
+
+/** CPU seconds of a process with its descendants: the living ones, and those already ended and waited for. */
+function treeCpuSeconds(pid: number | undefined): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    let total = (Number(f[11]) + Number(f[12]) + Number(f[13]) + Number(f[14])) / 100; // utime stime cutime cstime
+    for (const task of readdirSync(`/proc/${pid}/task`)) {
+      const kids = readFileSync(`/proc/${pid}/task/${task}/children`, "utf8").trim();
+      for (const kid of kids ? kids.split(" ") : []) total += treeCpuSeconds(Number(kid));
+    }
+    return total;
+  } catch {
+    return 0;
+  }
+}
+
+/**
+ * The CPU seconds so far of everything an upload touches, by part: the app, the worker with its
+ * reader processes, the S3 service, PostgreSQL (every backend), and the benchmark's own clients.
+ */
+function partsCpu(p: { app?: number; worker?: number; postgresDir: string }) {
+  const ownKids = readFileSync(`/proc/${process.pid}/task/${process.pid}/children`, "utf8").trim().split(" ").filter(Boolean).map(Number);
+  const s3 = ownKids.find((k) => {
+    try {
+      return readFileSync(`/proc/${k}/cmdline`, "utf8").includes("s3rver");
+    } catch {
+      return false;
+    }
+  });
+  let postmaster: number | undefined;
+  try {
+    postmaster = Number(readFileSync(path.join(p.postgresDir, "postmaster.pid"), "utf8").split("\n")[0]);
+  } catch {}
+  const own = process.cpuUsage();
+  const worker = treeCpuSeconds(p.worker);
+  return {
+    app: treeCpuSeconds(p.app), worker: cpuSeconds(p.worker), readers: worker - cpuSeconds(p.worker), s3: treeCpuSeconds(s3), postgres: treeCpuSeconds(postmaster),
+    clients: (own.user + own.system) / 1e6,
+  };
+}
+type PartsCpu = ReturnType<typeof partsCpu>;
+const cpuSince = (a: PartsCpu, b: PartsCpu) => Object.fromEntries(Object.entries(b).map(([k, v]) => [k, v - a[k as keyof PartsCpu]])) as PartsCpu;
 
 /** The page probe (page-probe.mjs): one page back to back in a process of its own. */
 function startProbe() {
@@ -263,7 +305,7 @@ async function main() {
     const ordinary = tub; // the tub page
     const uploads: {
       n: number; done: number; seconds: number; p95: number; median: number; registerP95: number; pageP95: number; pageSamples: number; idleP95: number; idleSamples: number;
-      errors: string[]; appCpu: number;
+      errors: string[]; appCpu: number; parts: PartsCpu; idleParts: PartsCpu; idleCount: number;
     }[] = [];
     let variant = 0;
     const probe = startProbe();
@@ -272,10 +314,13 @@ async function main() {
       // The ordinary page's idle p95 to compare with: the same probe (requests back to back, in its
       // own process) just before the uploads, with none running (so the machine's other load is
       // alike), for at least 10 s and 200 requests.
+      const idle0 = partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir });
       await probe.run(ordinary, tech);
       const idleStart = performance.now();
       while (performance.now() - idleStart < 10_000) await sleep(100);
       let idleTimes = await probe.stop();
+      const idleParts = cpuSince(idle0, partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir }));
+      const idleCount = idleTimes.length;
       while (idleTimes.length < 200) {
         await probe.run(ordinary, tech);
         await sleep(1000);
@@ -283,6 +328,7 @@ async function main() {
       }
       await probe.run(ordinary, tech);
       const cpu0 = cpuSeconds(app.pid);
+      const parts0 = partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir });
       const t0 = performance.now();
       const results = await Promise.all(
         Array.from({ length: n }, async (_, i) => {
@@ -307,12 +353,13 @@ async function main() {
             if (!reg.ok) throw new Error(`register ${reg.status}: ${(await reg.text()).slice(0, 120)}`);
             const out = (await reg.json()) as { readingId?: string; photoId?: string; status?: string };
             // Ready when the reading is stored with its result (read, or could not be read), asked
-            // as the owner's review screen asks: the reading's status from the app, once a second.
+            // as the owner's review screen asks: the reading's status from the app, once a second at
+            // first and then less often (readingPollDelay, the screen's own schedule).
             if (!(out.status && FINAL.has(out.status))) {
               if (!out.readingId) throw new Error("registration answered without a reading");
               const deadline = Date.now() + 240_000;
-              for (;;) {
-                await sleep(POLL_MS);
+              for (let answers = 1; ; answers++) {
+                await sleep(readingPollDelay(answers));
                 const st = await fetch(`${base}/api/tubs/${tubId}/readings/${out.readingId}`, { headers: { cookie: tech, origin: base, accept: "application/json" } });
                 if (!st.ok) throw new Error(`reading status ${st.status}`);
                 if (FINAL.has(((await st.json()) as { status: string }).status)) break;
@@ -328,12 +375,14 @@ async function main() {
       );
       const seconds = (performance.now() - t0) / 1000;
       const appCpu = cpuSeconds(app.pid) - cpu0;
+      // Until every reading is stored the worker has done its part; the S3 service and PostgreSQL finish with it.
+      const parts = cpuSince(parts0, partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir }));
       const pageTimes = await probe.stop();
       const ok = results.filter((r): r is { ms: number; registerMs: number } => r !== null);
       uploads.push({
         n, done: ok.length, seconds, median: quantile(ok.map((r) => r.ms), 0.5), p95: quantile(ok.map((r) => r.ms), 0.95),
         registerP95: quantile(ok.map((r) => r.registerMs), 0.95), pageP95: quantile(pageTimes, 0.95), pageSamples: pageTimes.length,
-        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors, appCpu,
+        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors, appCpu, parts, idleParts, idleCount,
       });
       await sleep(2000);
     }
@@ -384,6 +433,15 @@ async function main() {
     for (const u of uploads) {
       console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(String(u.pageSamples), 7)}${lpad(ms(u.idleP95), 10)}${lpad(String(u.idleSamples), 7)}${lpad(u.appCpu.toFixed(1), 11)}`);
       for (const e of [...new Set(u.errors)].slice(0, 3)) console.log(`    error: ${e}`);
+    }
+    console.log(`\nCPU seconds per upload while they ran, by part, less the tub page probe's share (its CPU per request`);
+    console.log(`in the first 10 s of idle probing, times its requests during the uploads); readers: the worker's reader processes`);
+    console.log(`${pad("uploads", 10)}${lpad("app", 8)}${lpad("worker", 8)}${lpad("readers", 9)}${lpad("S3", 8)}${lpad("PostgreSQL", 12)}${lpad("all served", 12)}${lpad("clients", 9)}`);
+    for (const u of uploads) {
+      const k = u.pageSamples / Math.max(1, u.idleCount);
+      const p = Object.fromEntries(Object.entries(u.parts).map(([key, v]) => [key, v - (key === "clients" ? 0 : k * u.idleParts[key as keyof PartsCpu])])) as PartsCpu;
+      const per = (x: number) => (x / u.n).toFixed(3);
+      console.log(`${pad(String(u.n), 10)}${lpad(per(p.app), 8)}${lpad(per(p.worker), 8)}${lpad(per(p.readers), 9)}${lpad(per(p.s3), 8)}${lpad(per(p.postgres), 12)}${lpad(per(p.app + p.worker + p.readers + p.s3 + p.postgres), 12)}${lpad(per(p.clients), 9)}`);
     }
     console.log(`\nE-mail: ${MAILS} queued through the outbox in ${queuedSeconds.toFixed(1)} s (${sentWhenQueued} already sent by then); ${sent} sent, ${mailRate.toFixed(1)} per s${sent < MAILS ? " (stopped waiting after 120 s)" : ""}`);
 

@@ -17,6 +17,7 @@ import { csvLine, csvNumberSql, csvTextSql } from "~/lib/csv";
 import { analyteSwatches } from "~/features/charts/analyte-swatches";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
+import { AHEAD_SHOWN_UP_TO } from "./status-poll";
 import type { Tub } from "~/lib/tub-access.server";
 import { daysAgo, rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { currentChartFor, tubTargets } from "../tubs/tubs.server";
@@ -386,29 +387,44 @@ export async function cropKeyFor(t: Tub, readingId: string, analyte: string) {
   return row?.key ?? null;
 }
 
+type StatusRow = { id: string; status: string; job_state: string | null; ahead: number | null };
+
+/**
+ * A reading's status with, while it is pending, its live read job (queued, retrying or being
+ * read; found through pg-boss's index of a stately queue's live jobs) and, only while it is
+ * queued, how many jobs were queued before it (counted through the queue's fetch index, up to
+ * AHEAD_SHOWN_UP_TO). One named statement, planned once per connection: the screen asks often.
+ */
+const STATUS_SQL = `
+  select r.id, r.status, j.state as job_state,
+         case when j.state = 'created' then (
+           select count(*)::int from (
+             select 1 from pgboss.job q
+              where q.name = $3 and q.state < 'active' and q.state = 'created' and q.created_on < j.created_on
+              limit ${AHEAD_SHOWN_UP_TO}) ahead)
+         end as ahead
+    from reading r
+    left join lateral (
+      select state, created_on from pgboss.job
+       where r.status = 'pending' and name = $3 and state <= 'active' and policy = 'stately' and coalesce(singleton_key, '') = r.id::text
+       order by created_on desc limit 1) j on true
+   where r.id = $1 and r.tub_id = $2`;
+
 /** Where a reading stands, for the review screen while it waits: pending, then read or failed. */
 export async function readingStatus(t: Tub, readingId: string) {
   if (!isUuid(readingId)) return null;
-  const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } });
-  if (!r) return null;
-  let stage: "queued" | "reading" | "retrying" | "done" = "done";
-  let ahead = 0;
-  if (r.status === "pending") {
-    const job = await db.$client.query<{ state: string; created_on: Date }>(
-      `select state, created_on from pgboss.job where name = $1 and singleton_key = $2 order by created_on desc limit 1`,
-      [READ_QUEUE, r.id],
-    ).catch(() => ({ rows: [] as { state: string; created_on: Date }[] }));
-    const j = job.rows[0];
-    stage = j?.state === "active" ? "reading" : j?.state === "retry" || j?.state === "failed" ? "retrying" : "queued";
-    if (j && stage === "queued") {
-      const q = await db.$client.query<{ n: number }>(
-        `select count(*)::int as n from pgboss.job where name = $1 and state = 'created' and created_on < $2`,
-        [READ_QUEUE, j.created_on],
-      );
-      ahead = q.rows[0]?.n ?? 0;
-    }
+  let row: StatusRow | undefined;
+  try {
+    row = (await db.$client.query<StatusRow>({ name: "dipwell-reading-status", text: STATUS_SQL, values: [readingId, t.id, READ_QUEUE] })).rows[0];
+  } catch {
+    // No job queue in this database (pg-boss not set up yet): the reading's own status is enough.
+    const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } });
+    row = r && { ...r, job_state: null, ahead: null };
   }
-  return { id: r.id, status: r.status, stage, ahead };
+  if (!row) return null;
+  const stage: "queued" | "reading" | "retrying" | "done" =
+    row.status !== "pending" ? "done" : row.job_state === "active" ? "reading" : row.job_state === "retry" ? "retrying" : "queued";
+  return { id: row.id, status: row.status, stage, ahead: row.ahead ?? 0 };
 }
 
 /** The latest reading of a tub as the tub page shows it: each pad against its target range. */

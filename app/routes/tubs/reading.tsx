@@ -8,6 +8,7 @@ import { SwatchColours } from "~/components/reading/SwatchColours";
 import { confirmReading, loadReview } from "~/features/readings/readings.server";
 import { tubGuard } from "~/lib/tub-access.server";
 import { timeWords } from "~/lib/dates";
+import { AHEAD_SHOWN_UP_TO, readingPollDelay } from "~/features/readings/status-poll";
 import type { Route } from "./+types/reading";
 
 export const meta: Route.MetaFunction = () => [{ title: "Check the reading · Dipwell" }];
@@ -66,7 +67,9 @@ function ReadingProgress({ tubId, tubName, readingId, photoId }: { tubId: string
       if (!res.ok) throw new Error(String(res.status));
       return res.json();
     },
-    refetchInterval: (query) => (query.state.data && query.state.data.status !== "pending" ? false : 1000),
+    // Once a second at first, then less often while the reading waits its turn behind other photos.
+    refetchInterval: (query) =>
+      query.state.data && query.state.data.status !== "pending" ? false : readingPollDelay(query.state.dataUpdateCount + query.state.errorUpdateCount),
   });
   const done = q.data && q.data.status !== "pending";
   useEffect(() => {
@@ -93,7 +96,9 @@ function ReadingProgress({ tubId, tubName, readingId, photoId }: { tubId: string
               : stage === "retrying"
                 ? "The first try did not finish; Dipwell is reading it again…"
                 : q.data?.ahead
-                  ? `Waiting its turn: ${q.data.ahead} photo${q.data.ahead > 1 ? "s" : ""} ahead.`
+                  ? q.data.ahead >= AHEAD_SHOWN_UP_TO
+                    ? `Waiting its turn: ${AHEAD_SHOWN_UP_TO} or more photos ahead.`
+                    : `Waiting its turn: ${q.data.ahead} photo${q.data.ahead > 1 ? "s" : ""} ahead.`
                   : "Waiting its turn…"}
         </div>
         <div className="h-3 w-full overflow-hidden rounded-full bg-well-100" role="progressbar" aria-label="Reading progress" aria-valuemin={0} aria-valuemax={2} aria-valuenow={at}>
