@@ -53,7 +53,7 @@ export async function registerJobs(boss: PgBoss) {
 export async function registerReadingWork(boss: PgBoss, pool = createReaderPool()) {
   for (let i = 0; i < pool.size; i++) {
     await boss.work<ReadJob>(READ_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
-      const outcome = await readPendingReading(job.data.readingId, { reader: pool.read, decoder: pool.decode, finalAttempt: job.retryCount >= job.retryLimit });
+      const outcome = await readPendingReading(job.data.readingId, { reader: pool.read, finalAttempt: job.retryCount >= job.retryLimit });
       if (outcome !== "already-done") console.log(`reading ${job.data.readingId}: ${outcome}`);
     });
   }

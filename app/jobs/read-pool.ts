@@ -6,17 +6,14 @@ import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
-import type { Inspected } from "../features/photos/decode";
-import type { PhotoType } from "../features/photos/rules";
-import type { StripChart, StripReading } from "../reading";
-import { errorOf, runReaderJob, type ReaderFailure, type ReaderJob as Job } from "./reader-job";
+import { errorOf, revived, runPhotoRead, type PhotoRead as Job, type PhotoReadResult, type ReaderFailure } from "./reader-job";
 
 const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
 /** How far reading steps back for the web app (the `nice` increment, 0–19). */
 const READER_NICENESS = 10;
 const NICE = ["/usr/bin/nice", "/bin/nice"].find((p) => existsSync(p));
 
-type Pending = { resolve: (r: unknown) => void; reject: (e: Error) => void };
+type Pending = { resolve: (r: PhotoReadResult) => void; reject: (e: Error) => void };
 type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
 
 /** A reader process: Node with the TypeScript loader, started through `nice` where there is one. */
@@ -44,17 +41,13 @@ export function createReaderPool(size = readerPoolSize()) {
   const spawn = (): Slot => {
     const worker = startReader();
     const slot: Slot = { worker, busy: null };
-    worker.on("message", (msg: { id: number; ok: boolean; result?: StripReading | Inspected; error?: ReaderFailure }) => {
+    worker.on("message", (msg: { id: number; ok: boolean; result?: PhotoReadResult; error?: ReaderFailure }) => {
       const task = slot.busy;
       if (!task || task.id !== msg.id) return;
       slot.busy = null;
       deathsInRow = 0;
-      if (msg.ok) {
-        const r = msg.result!;
-        if ("thumb" in r) r.thumb = Buffer.from(r.thumb as unknown as Uint8Array);
-        else for (const pad of r.pads) if (pad.crop) pad.crop = Buffer.from(pad.crop as unknown as Uint8Array);
-        task.resolve(r);
-      } else task.reject(errorOf(msg.error!));
+      if (msg.ok) task.resolve(revived(msg.result!));
+      else task.reject(errorOf(msg.error!));
       pump();
     });
     let gone = false;
@@ -70,7 +63,7 @@ export function createReaderPool(size = readerPoolSize()) {
       if (++deathsInRow > 2 * size) {
         if (!inProcess) console.error(`reader processes keep stopping (${why}); reading in the worker's own process`);
         inProcess = true;
-        for (const w of waiting.splice(0)) runReaderJob(w.job).then(w.p.resolve, w.p.reject);
+        for (const w of waiting.splice(0)) runPhotoRead(w.job).then(w.p.resolve, w.p.reject);
         return;
       }
       slots.push(spawn());
@@ -91,10 +84,10 @@ export function createReaderPool(size = readerPoolSize()) {
     }
   };
 
-  const run = <T>(job: Job): Promise<T> => {
-    if (inProcess) return runReaderJob(job) as Promise<T>;
-    return new Promise<T>((resolve, reject) => {
-      waiting.push({ job, p: { resolve: resolve as (r: unknown) => void, reject } });
+  const run = (job: Job): Promise<PhotoReadResult> => {
+    if (inProcess) return runPhotoRead(job);
+    return new Promise((resolve, reject) => {
+      waiting.push({ job, p: { resolve, reject } });
       pump();
     });
   };
@@ -103,13 +96,8 @@ export function createReaderPool(size = readerPoolSize()) {
 
   return {
     size,
-    read(bytes: Buffer, chart: StripChart) {
-      return run<StripReading>({ bytes, chart });
-    },
-    /** Decodes a newly registered photo once (its size and thumbnail), at the readers' priority. */
-    decode(bytes: Buffer, type: PhotoType) {
-      return run<Inspected>({ bytes, decode: type });
-    },
+    /** Reads a kept photo in one visit to a reader process (see PhotoRead), at the readers' priority. */
+    read: run,
     async close() {
       closed = true;
       await Promise.all(

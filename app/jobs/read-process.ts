@@ -1,16 +1,14 @@
-// One reader process: reads strip photos handed over by the pool (read-pool.ts), one at a time,
-// and decodes newly registered photos (their size and thumbnail) the same way.
+// One reader process: reads the strip photos the pool (read-pool.ts) hands over, one at a time,
+// each in one visit: it fetches the photo from storage itself, checks and decodes a newly
+// registered one (its size and thumbnail), and reads it (reader-job.ts).
 // The pool starts it at a lower priority (nice 10) as a whole process, so every thread of it
-// (the reader's own, and the image library's decoding threads) steps back for the web app's
-// requests where the two share cores, and reads take the rest of the processor.
-import { failureOf, runReaderJob, type ReaderJob } from "./reader-job";
+// (the reader's own, the image library's decoding threads, the fetch from storage) steps back for
+// the web app's requests where the two share cores, and reads take the rest of the processor.
+import { failureOf, runPhotoRead, type PhotoRead } from "./reader-job";
 
-type Task = Omit<ReaderJob, "bytes"> & { id: number; bytes: Uint8Array };
-
-process.on("message", async ({ id, bytes, ...job }: Task) => {
+process.on("message", async ({ id, ...job }: PhotoRead & { id: number }) => {
   try {
-    const result = await runReaderJob({ ...job, bytes: Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength) });
-    process.send!({ id, ok: true, result });
+    process.send!({ id, ok: true, result: await runPhotoRead(job) });
   } catch (error) {
     process.send!({ id, ok: false, error: failureOf(error) });
   }

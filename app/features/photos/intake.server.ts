@@ -127,9 +127,6 @@ export async function keepPhoto(scope: PhotoScope, bytes: Buffer, inspected: Ins
   return { s3Key, contentType: inspected.type, sizeBytes: bytes.length, sha256, width: inspected.width, height: inspected.height, bytes };
 }
 
-/** Decodes a photo (in this process, or in a reader process of the worker's pool). */
-export type PhotoDecoder = (bytes: Buffer, type: PhotoType) => Promise<Inspected>;
-
 export type TakenPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: number; sha256: string };
 
 /**
@@ -137,7 +134,7 @@ export type TakenPhoto = { s3Key: string; contentType: PhotoType; sizeBytes: num
  * light for the web app: the upload is there (HEAD), not over the size limit, and starts with the
  * signature of the type it was declared as; its bytes are hashed as they stream past (never held
  * whole), and storage itself copies them to the final key by content. The decode (a file cut
- * short, the size in pixels, the thumbnail) is the reading job's (`inspectKeptPhoto`). A refused
+ * short, the size in pixels, the thumbnail) is the reading job's, in a reader process (`runPhotoRead`). A refused
  * upload is deleted at once. Idempotent: the same bytes give the same final key.
  *
  * `known` answers whether this scope already keeps a photo with these bytes (then the copy is
@@ -167,17 +164,6 @@ export async function takeUpload(scope: PhotoScope, key: string, known?: (sha256
     }
     return { s3Key, contentType: type, sizeBytes: digest.size, sha256: digest.sha256 };
   });
-}
-
-/**
- * The decode of a photo taken in by `takeUpload`, made by the reading job from the kept bytes:
- * the checks of `inspectPhoto` (a file that ends early, not what its signature said) and the
- * thumbnail, written beside the photo. A refusal is returned in the owner's words; the photo stays.
- */
-export async function inspectKeptPhoto(s3Key: string, bytes: Buffer, type: PhotoType, decode: PhotoDecoder = inspectPhoto): Promise<Inspected> {
-  const inspected = await decode(bytes, type);
-  await withStorage(() => putObject(thumbKey(s3Key), inspected.thumb, "image/webp"));
-  return inspected;
 }
 
 /**

@@ -1,27 +1,27 @@
 // Reading a registered strip photo, off the request path. The registration queues one job per
 // reading (queueRead, in the registration's transaction); the worker runs readPendingReading,
-// which reads the photo with the chart version chosen at registration, writes the pad crops to
+// which has a reader process fetch, check, decode and read the photo in one visit (reader-job.ts)
+// with the chart version chosen at registration, writes the thumbnail and the pad crops to
 // storage (outside any database transaction, under keys named by the reading), then in one short
 // transaction turns the reading from "pending" into "read" or "failed" and stores its pads.
 // Only a pending reading is ever written: a second run (a retried job whose first run was not
 // dead after all, a duplicate job) finds it done and writes nothing, so a photo is read into one
 // reading, once.
-import { createHash } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { chartVersion, photo, reading, readingPad } from "../../db/schema";
 import { READ_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
-import { putObject, readObject } from "../../lib/storage.server";
-import { parseChart, readStrip, ReadingError, type StripChart, type StripReading } from "../../reading";
-import { cropKey, inspectKeptPhoto, PhotoError, type PhotoDecoder } from "../photos/intake.server";
+import { errorOf, runPhotoRead, type PhotoRead, type PhotoReadResult } from "../../jobs/reader-job";
+import { putObject } from "../../lib/storage.server";
+import { parseChart, ReadingError, type StripChart, type StripReading } from "../../reading";
+import { cropKey, PhotoError, thumbKey, withStorage } from "../photos/intake.server";
 import { isPhotoType } from "../photos/rules";
 
 export type ReadJob = { readingId: string };
 
-/** Reads a photo with a chart; the worker passes its thread pool, tests may read in process. */
-export type StripReader = (bytes: Buffer, chart: StripChart) => Promise<StripReading>;
-export const readInProcess: StripReader = (bytes, chart) => readStrip(bytes, chart, { crops: true });
+/** Reads a kept photo in one visit (see PhotoRead); the worker passes its pool of reader processes, tests may read in process. */
+export type PhotoReader = (job: PhotoRead) => Promise<PhotoReadResult>;
 
 /** Queues the read of one reading; sent through the caller's transaction when `executeSql` is given. */
 export async function queueRead(boss: PgBoss, readingId: string, executeSql?: (text: string, values: unknown[]) => Promise<unknown>) {
@@ -66,7 +66,7 @@ async function fail(readingId: string, message: string, detail: object | null = 
  */
 export async function readPendingReading(
   readingId: string,
-  opts: { reader?: StripReader; decoder?: PhotoDecoder; finalAttempt?: boolean } = {},
+  opts: { reader?: PhotoReader; finalAttempt?: boolean } = {},
 ): Promise<"read" | "failed" | "already-done"> {
   const r = await db.query.reading.findFirst({ where: eq(reading.id, readingId) });
   if (!r || r.status !== "pending") return "already-done";
@@ -83,29 +83,28 @@ export async function readPendingReading(
     } catch {
       return await fail(readingId, "The colour chart of this strip batch could not be used. Enter the values by hand below and ask your technician to check the chart.");
     }
-    const bytes = await readObject(p.s3Key);
-    // A photo taken in without a decode (its size in pixels not yet known): decoded here, once,
-    // with its thumbnail; a file that does not open is a failed reading with the reason.
-    if (p.width === null && p.purpose === "strip" && isPhotoType(p.contentType)) {
-      try {
-        // The kept copy is named by the hash of the bytes checked at registration; storage copied
-        // it afterwards, so an upload replaced in between (its upload address was still valid)
-        // is caught here, before anything is read from it.
-        if (createHash("sha256").update(bytes).digest("hex") !== p.sha256) throw new PhotoError("changed", UNOPENED.changed);
-        const inspected = await inspectKeptPhoto(p.s3Key, bytes, p.contentType, opts.decoder);
-        await db.update(photo).set({ width: inspected.width, height: inspected.height }).where(eq(photo.id, p.id));
-      } catch (error) {
-        if (error instanceof PhotoError && error.code !== "storage_unavailable") return await fail(readingId, couldNotOpen(error.code), { code: error.code });
-        throw error;
-      }
-    }
-    let result: StripReading;
+    // A photo taken in without a decode (its size in pixels not yet known) is checked against the
+    // hash registered for it and decoded in the same visit, before it is read; a file that does
+    // not open, or is not the bytes that were checked, is a failed reading with the reason.
+    const decode = p.width === null && p.purpose === "strip" && isPhotoType(p.contentType) ? p.contentType : undefined;
+    let found: PhotoReadResult;
     try {
-      result = await (opts.reader ?? readInProcess)(bytes, chart);
+      found = await (opts.reader ?? runPhotoRead)({ key: p.s3Key, sha256: p.sha256, decode, chart });
     } catch (error) {
-      if (error instanceof ReadingError) return await fail(readingId, error.message, { code: error.code });
+      if (error instanceof PhotoError && error.code !== "storage_unavailable") return await fail(readingId, couldNotOpen(error.code), { code: error.code });
       throw error;
     }
+    if (found.inspected) {
+      const { width, height, thumb } = found.inspected;
+      await withStorage(() => putObject(thumbKey(p.s3Key), thumb, "image/webp"));
+      await db.update(photo).set({ width, height }).where(eq(photo.id, p.id));
+    }
+    if (found.refused) {
+      const refusal = errorOf(found.refused);
+      if (refusal instanceof ReadingError) return await fail(readingId, refusal.message, { code: refusal.code });
+      throw refusal;
+    }
+    const result: StripReading = found.reading!;
     // Crops first, outside the transaction; their keys are the reading's, so a rerun overwrites them.
     const pads: (typeof readingPad.$inferInsert)[] = [];
     for (const pad of result.pads) {
