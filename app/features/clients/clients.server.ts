@@ -194,25 +194,25 @@ async function dashboardPage(user: SessionUser, opts: { q: string; view: Dashboa
     })
   ).rows;
   stopIfAborted(opts.signal);
-  const kindJson = kinds.map((k, i) => {
+  const kindJson = kinds.map((k) => {
     const bands = Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ a: analyte, min: r.min, max: r.max }] : []));
-    return { i, s: k.sanitiser, t: k.targets, g: k.guidance, a: bands.map((b) => b.a), lo: bands.map((b) => b.min), hi: bands.map((b) => b.max) };
+    return { s: k.sanitiser, t: k.targets, g: k.guidance, a: bands.map((b) => b.a), lo: bands.map((b) => b.min), hi: bands.map((b) => b.max) };
   });
   const r = await db.$client.query<DashboardSqlRow & DashboardTotalsSql & { score: number | null }>({
     // A named statement: planned once per connection, not on every visit to the dashboard.
     name: "dipwell-dashboard-page",
     text: `with kind as materialized (
-        select (k->>'i')::int as i, k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance,
+        select k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance,
                array(select jsonb_array_elements_text(k->'a')) as band_analytes,
                array(select x::float8 from jsonb_array_elements_text(k->'lo') x) as band_min,
                array(select x::float8 from jsonb_array_elements_text(k->'hi') x) as band_max
           from jsonb_array_elements($3::jsonb) k
       ), scored as materialized (
-        select x.*, (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
+        -- every client tub, narrow: what orders the list and makes the totals
+        select x.id, x.name, x.waiting, x.overdue, x.out_of_range,
+               (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
           from (
-            select t.id, t.name, t.owner_id, t.test_every_days, t.time_zone, t.sanitiser, t.targets, t.guidance, w.taken_at as latest_at,
-                   w.analytes, w.units, w.vals, coalesce(w.waiting, 0) as waiting, w.waiting_newest,
-                   w.treatment_name, w.treatment_amount, w.treatment_unit, w.treated_at,
+            select t.id, t.name, coalesce(w.waiting, 0) as waiting,
                    (w.taken_at is null or w.taken_at + t.test_every_days * interval '24 hours' < $4::timestamptz) as overdue,
                    -- each of the tub's bands (a handful) looks its value up in the current water's arrays: no join per tub
                    exists (
@@ -232,9 +232,10 @@ async function dashboardPage(user: SessionUser, opts: { q: string; view: Dashboa
                (case when $5::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed"
           from scored
       )
-      select totals.*, p.score, p.id, p.name, p.sanitiser, p.targets, p.guidance, p.test_every_days as "everyDays", p.time_zone as "timeZone",
-             o.name as "ownerName", p.latest_at as "latestAt", p.analytes, p.units, p.vals, p.waiting, p.waiting_newest as "waitingNewest", p.overdue,
-             p.treatment_name as "trName", p.treatment_amount as "trAmount", p.treatment_unit as "trUnit", p.treated_at as "trAt"
+      -- the page's tubs only: their water, last treatment and owner
+      select totals.*, p.score, p.id, p.name, t.sanitiser, t.targets, t.guidance, t.test_every_days as "everyDays", t.time_zone as "timeZone",
+             o.name as "ownerName", w.taken_at as "latestAt", w.analytes, w.units, w.vals, p.waiting, w.waiting_newest as "waitingNewest", p.overdue,
+             w.treatment_name as "trName", w.treatment_amount as "trAmount", w.treatment_unit as "trUnit", w.treated_at as "trAt"
         from totals
         left join lateral (
           select * from scored
@@ -242,7 +243,9 @@ async function dashboardPage(user: SessionUser, opts: { q: string; view: Dashboa
            order by score desc, name collate "und-x-icu", id
            limit $6 offset (case when $7::int < totals."allListed" then $7::int else 0 end)
         ) p on true
-        left join "user" o on o.id = p.owner_id
+        left join tub t on t.id = p.id
+        left join tub_water w on w.tub_id = p.id
+        left join "user" o on o.id = t.owner_id
        order by p.score desc, p.name collate "und-x-icu", p.id`,
     values: [...scope, JSON.stringify(kindJson), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
   });
