@@ -1,7 +1,6 @@
 import { useEffect } from "react";
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
-import { StatusIconSprite } from "./components/status";
 import { availabilityMiddleware } from "./lib/availability.server";
 import { dateSettingsFor, rememberBrowserZone } from "./lib/dates";
 import { useNonce } from "./lib/nonce";
@@ -41,7 +40,6 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="min-h-screen">
-        <StatusIconSprite />
         {children}
         <ScrollRestoration nonce={nonce} />
         <Scripts nonce={nonce} />

@@ -8,21 +8,6 @@ export { rangeStatus, type RangeStatus };
 
 export const STATUS_WORDS: Record<RangeStatus, string> = { in: "In range", low: "Low", high: "High", unknown: "No target" };
 
-const SPRITE_PREFIX = "dw-icon-";
-
-/**
- * The "not confirmed" icon, drawn once per page (in the document's layout): every mark shows it
- * with `<use>`. The status icons of the badges are drawn by the style sheet (`dw-badge`, app.css).
- */
-export function StatusIconSprite() {
-  const line = { fill: "none", stroke: "currentColor", strokeWidth: 2, strokeLinecap: "round" as const };
-  return (
-    <svg aria-hidden="true" focusable="false" className="hidden">
-      <symbol id={`${SPRITE_PREFIX}unconfirmed`} viewBox="0 0 16 16"><g {...line}><circle cx="8" cy="8" r="6.5" strokeDasharray="3 2.2" /><path d="M8 4.8v3.6M8 11.2v.01" /></g></symbol>
-    </svg>
-  );
-}
-
 /**
  * "In range" / "Low" / "High" with its icon; its shape, colours and icon (a decorative drawing
  * before the words) are the `dw-badge` style (app.css).
@@ -35,13 +20,13 @@ export function StatusBadge({ status, className, children }: { status: RangeStat
   );
 }
 
-/** The mark on values the reader was unsure of and nobody has confirmed. */
+/**
+ * The mark on values the reader was unsure of and nobody has confirmed: a dashed pill with its
+ * icon (a decorative drawing before the words) from the `dw-mark` style (app.css).
+ */
 export function UnconfirmedMark({ className, children = "Not confirmed" }: { className?: string; children?: ReactNode }) {
   return (
-    <span data-testid="unconfirmed" className={cx("inline-flex items-center gap-1 rounded-full border border-dashed border-ink-soft px-2 py-0.5 text-sm font-bold text-ink-soft", className)}>
-      <svg width="14" height="14" aria-hidden="true" className="shrink-0">
-        <use href={`#${SPRITE_PREFIX}unconfirmed`} />
-      </svg>
+    <span data-testid="unconfirmed" className={cx("dw-mark", className)}>
       {children}
     </span>
   );

@@ -9,7 +9,7 @@ export function cx(...parts: (string | false | null | undefined)[]) {
 }
 
 export function Card({ className, ...props }: ComponentProps<"section">) {
-  return <section className={cx("rounded-card border border-line bg-shell p-5 shadow-sm", className)} {...props} />;
+  return <section className={cx("dw-card", className)} {...props} />;
 }
 
 export function PageTitle({ children, sub }: { children: ReactNode; sub?: ReactNode }) {
