@@ -1,7 +1,11 @@
 // How much the strip's inner band differs from bare plastic at each t, after evening out the
 // light along the strip with the surface beside it (a shadow across the strip is not a change of
-// colour). Prefix-summed, so that a mean over any span costs two look-ups.
+// colour). Light multiplies linear light, not encoded sRGB: the surface's darkening is measured,
+// and undone on the strip, in linear light (on a dark surface the encoded values' ratio is far
+// from the light's: sRGB's curve is not a power law near black). Prefix-summed, so that a mean
+// over any span costs two look-ups.
 import type { Profile } from "./axis-profile";
+import { SRGB8_TO_LINEAR, linearToSrgb } from "./colour";
 import { middleValues } from "./strip-ends";
 import { median } from "./stats";
 
@@ -34,24 +38,60 @@ export function localLight(profile: Profile, widthPx: number): Float32Array {
   return light;
 }
 
+/** Encoded 0..255 (fractional) → linear light, between the 8-bit table's entries. */
+function toLinear(v: number): number {
+  const i = v <= 0 ? 0 : v >= 254 ? 254 : v | 0;
+  const f = Math.min(1, Math.max(0, v - i));
+  return SRGB8_TO_LINEAR[i] * (1 - f) + SRGB8_TO_LINEAR[i + 1] * f;
+}
+
+/** Encoded values (0..255) at evenly spaced square roots of linear light 0..1: the table toEncoded reads. */
+const ENCODE_STEPS = 1024;
+const ENCODED_AT_ROOT = (() => {
+  const t = new Float32Array(ENCODE_STEPS + 2);
+  for (let i = 0; i <= ENCODE_STEPS + 1; i++) t[i] = 255 * linearToSrgb(Math.min(1, (i / ENCODE_STEPS) ** 2));
+  return t;
+})();
+
+/** Linear light → encoded 0..255 (a table over its square root; beyond full light, the formula). */
+function toEncoded(x: number): number {
+  if (x >= 1) return 255 * linearToSrgb(x);
+  const r = Math.sqrt(Math.max(0, x)) * ENCODE_STEPS, i = r | 0, f = r - i;
+  return ENCODED_AT_ROOT[i] * (1 - f) + ENCODED_AT_ROOT[i + 1] * f;
+}
+
+/** The light's gain in linear light is kept within these (a quarter to four times in encoded values). */
+const MIN_GAIN = Math.pow(0.25, 2.2), MAX_GAIN = Math.pow(4, 2.2);
+
 export function plasticDifference(profile: Profile, axisLength: number, widthPx: number): PlasticDifference {
   const light = localLight(profile, widthPx);
   const lightRef = median(middleValues(profile, light, axisLength).filter((v) => v > 0));
-  const gain = (i: number) => (lightRef > 0 && light[i] > 0 ? Math.max(0.25, Math.min(4, lightRef / light[i])) : 1);
+  const lightRefLin = toLinear(lightRef);
+  // The inner band's colour as if lit like the reference: each channel in linear light times the
+  // local light's gain, encoded again (0..255). Where the light is the reference's, as it is.
+  const evened = new Float32Array(profile.n * 3);
+  for (let i = 0; i < profile.n; i++) {
+    if (!profile.valid[i]) continue;
+    const l = light[i];
+    const gain = lightRef > 0 && l > 0 && l !== lightRef ? Math.max(MIN_GAIN, Math.min(MAX_GAIN, lightRefLin / toLinear(l))) : 1;
+    for (let c = 0; c < 3; c++) {
+      const v = profile.inner[i * 3 + c];
+      evened[i * 3 + c] = gain === 1 ? v : toEncoded(gain * toLinear(v));
+    }
+  }
   // Bare-plastic colour: median of the inner band over the axis span's middle.
   const idx0 = Math.round(-profile.t0);
   const channels: number[][] = [[], [], []];
   for (let t = Math.round(-axisLength * 0.4); t <= Math.round(axisLength * 0.4); t++) {
     const i = idx0 + t;
-    if (i >= 0 && i < profile.n && profile.valid[i]) for (let c = 0; c < 3; c++) channels[c].push(profile.inner[i * 3 + c] * gain(i));
+    if (i >= 0 && i < profile.n && profile.valid[i]) for (let c = 0; c < 3; c++) channels[c].push(evened[i * 3 + c]);
   }
   const bare = channels.map(median);
   const prefix = new Float64Array(profile.n + 1);
   for (let i = 0; i < profile.n; i++) {
     let d = 0;
     if (profile.valid[i]) {
-      const g = gain(i);
-      const dr = profile.inner[i * 3] * g - bare[0], dg = profile.inner[i * 3 + 1] * g - bare[1], db = profile.inner[i * 3 + 2] * g - bare[2];
+      const dr = evened[i * 3] - bare[0], dg = evened[i * 3 + 1] - bare[1], db = evened[i * 3 + 2] - bare[2];
       d = Math.sqrt(dr * dr + dg * dg + db * db);
     }
     prefix[i + 1] = prefix[i] + d;
