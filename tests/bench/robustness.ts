@@ -12,6 +12,7 @@
  * refused as showing no strip; it prints how many were read anyway.
  * --only reads the one photo of that seed in the sweep (same conditions as in the full sweep);
  * --trace prints the locator's diagnostics for it on stderr.
+ * --detail also lists the pads more than half a step off (not only those more than one step off).
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -44,6 +45,7 @@ let pads = 0, in05 = 0, in1 = 0, silent = 0, flagged = 0;
 const fails: string[] = [], worst: string[] = [];
 const reasons = new Map<string, number>();
 const only = args.includes("--only") ? Number(opt("--only", "0")) : null;
+const detail = args.includes("--detail");
 const trace = args.includes("--trace") ? (line: string) => console.error(line) : undefined;
 for (let i = 0; i < N; i++) {
   const seed = seed0 + i;
@@ -99,7 +101,7 @@ for (let i = 0; i < N; i++) {
         for (const r of (p.reason ?? "").replace(/^Please check [^:]*: /, "").replace(/\.$/, "").split("; ")) reasons.set(r, (reasons.get(r) ?? 0) + 1);
       }
       if (trace) console.error("read", t.analyte, "value", p.value, "off", e.toFixed(2), "steps", p.needsReview ? `flagged: ${p.reason}` : "");
-      if (e > 1) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
+      if (e > 1 || (detail && e > 0.5)) worst.push(`${tag} rot ${rot} ${t.analyte} ${e.toFixed(2)} steps${p.needsReview ? " (flagged)" : " (silent)"}`);
     }
   } catch (e) {
     pads += truth.length;
