@@ -165,10 +165,39 @@ type DashboardSqlRow = {
 type DashboardTotals = { tubs: number; attention: number; waiting: number; outOfRange: number; overdue: number; listed: number };
 type DashboardTotalsSql = { allTubs: number; allAttention: number; allWaiting: number; allOutOfRange: number; allOverdue: number; allListed: number };
 
+type TubKind = { sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string };
+/** A kind of tub as the dashboard's query reads it: its key and its bands, as parallel arrays. */
+type KindBands = { s: string; t: unknown; g: string; a: string[]; lo: number[]; hi: number[] };
+
+const kindKey = (t: TubKind) => `${t.sanitiser}|${t.guidance}|${JSON.stringify(t.targets ?? null)}`;
+/** Bands by kind (a pure function of the kind, so they never go stale); a bounded number of kinds. */
+const bandsByKind = new Map<string, Partial<Record<string, Range>>>();
+
 /** A tub's target bands as its own pages show them (its guidance and overrides; broken overrides ignored). */
-function bandsOf(t: { sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }): Partial<Record<string, Range>> {
-  return tubTargets({ sanitiser: t.sanitiser, targets: t.targets as Tub["targets"], guidance: t.guidance }) as unknown as Record<string, Range>;
+function bandsOf(t: TubKind): Partial<Record<string, Range>> {
+  const key = kindKey(t);
+  let bands = bandsByKind.get(key);
+  if (!bands) {
+    bands = tubTargets({ sanitiser: t.sanitiser, targets: t.targets as Tub["targets"], guidance: t.guidance }) as unknown as Record<string, Range>;
+    if (bandsByKind.size >= 1000) bandsByKind.clear();
+    bandsByKind.set(key, bands);
+  }
+  return bands;
 }
+
+const bandsKey = (k: KindBands) => kindKey({ sanitiser: k.s as TubKind["sanitiser"], targets: k.t, guidance: k.g });
+
+function kindBands(k: TubKind): KindBands {
+  const bands = Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ a: analyte, min: r.min, max: r.max }] : []));
+  return { s: k.sanitiser, t: k.targets ?? null, g: k.guidance, a: bands.map((b) => b.a), lo: bands.map((b) => b.min), hi: bands.map((b) => b.max) };
+}
+
+/**
+ * The kinds of tub (sanitiser, guidance, overrides) each technician's dashboard met last time (an
+ * admin's under ""), a bounded number of technicians: passed to the page's query, which says how
+ * many tubs have a kind not among them, so a visit is one query unless a tub's kind has changed.
+ */
+const kindsSeen = new Map<string, KindBands[]>();
 
 /**
  * The dashboard in PostgreSQL, ordered and paged there: per client tub the current water (the
@@ -181,79 +210,97 @@ function bandsOf(t: { sanitiser: "chlorine" | "bromine"; targets: unknown; guida
  *
  * The bands come from the chemistry code, once per distinct sanitiser, guidance and overrides
  * among the tubs (usually a handful), passed in as one JSON value and read out of it once (a
- * materialized CTE: otherwise each tub's out-of-range check would unpack the JSON again).
+ * materialized CTE: otherwise each tub's out-of-range check would unpack the JSON again). The
+ * kinds passed are those the technician's tubs had last time (kindsSeen); the query counts the
+ * tubs whose kind is not among them, and only then are the kinds looked up and the page asked
+ * again, so a visit is one round trip to the database.
  */
 async function dashboardPage(user: SessionUser, opts: { q: string; view: DashboardView; offset: number; signal?: AbortSignal }, now: Date) {
   const scope = [technicianParam(user), opts.q ? likePattern(opts.q) : null];
   const inScope = `${clientTubFilter("t")} and ($2::text is null or t.name ilike $2 or exists (select 1 from "user" o where o.id = t.owner_id and o.name ilike $2))`;
-  const kinds = (
-    await db.$client.query<{ sanitiser: "chlorine" | "bromine"; targets: unknown; guidance: string }>({
-      name: "dipwell-dashboard-kinds",
-      text: `select distinct t.sanitiser, coalesce(t.targets, 'null'::jsonb) as targets, t.guidance from tub t where ${inScope}`,
-      values: scope,
-    })
-  ).rows;
-  stopIfAborted(opts.signal);
-  const kindJson = kinds.map((k) => {
-    const bands = Object.entries(bandsOf(k)).flatMap(([analyte, r]) => (r && !(r.min === 0 && r.max === 0) ? [{ a: analyte, min: r.min, max: r.max }] : []));
-    return { s: k.sanitiser, t: k.targets, g: k.guidance, a: bands.map((b) => b.a), lo: bands.map((b) => b.min), hi: bands.map((b) => b.max) };
-  });
-  const r = await db.$client.query<DashboardSqlRow & DashboardTotalsSql & { score: number | null }>({
-    // A named statement: planned once per connection, not on every visit to the dashboard.
-    name: "dipwell-dashboard-page",
-    text: `with kind as materialized (
-        select k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance,
-               array(select jsonb_array_elements_text(k->'a')) as band_analytes,
-               array(select x::float8 from jsonb_array_elements_text(k->'lo') x) as band_min,
-               array(select x::float8 from jsonb_array_elements_text(k->'hi') x) as band_max
-          from jsonb_array_elements($3::jsonb) k
-      ), scored as materialized (
-        -- every client tub, narrow: what orders the list and makes the totals
-        select x.id, x.name, x.waiting, x.overdue, x.out_of_range,
-               (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
-          from (
-            select t.id, t.name, coalesce(w.waiting, 0) as waiting,
-                   (w.taken_at is null or w.taken_at + t.test_every_days * interval '24 hours' < $4::timestamptz) as overdue,
-                   -- each of the tub's bands (a handful) looks its value up in the current water's arrays: no join per tub
-                   exists (
-                     select 1 from unnest(k.band_analytes, k.band_min, k.band_max) b(analyte, min, max)
-                      cross join lateral (select w.vals[array_position(w.analytes, b.analyte)] as v) p
-                      where p.v < b.min or p.v > b.max
-                   ) as out_of_range
-              from tub t
-              join kind k on k.sanitiser = t.sanitiser::text and k.targets = coalesce(t.targets, 'null'::jsonb) and k.guidance = t.guidance
-              left join tub_water w on w.tub_id = t.id
-             where ${inScope}
-            offset 0
-          ) x
-      ), totals as (
-        select count(*)::int as "allTubs", count(*) filter (where score > 0)::int as "allAttention", coalesce(sum(waiting), 0)::int as "allWaiting",
-               count(*) filter (where out_of_range)::int as "allOutOfRange", count(*) filter (where overdue)::int as "allOverdue",
-               (case when $5::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed"
-          from scored
-      )
-      -- the page's tubs only: their water, last treatment and owner
-      select totals.*, p.score, p.id, p.name, t.sanitiser, t.targets, t.guidance, t.test_every_days as "everyDays", t.time_zone as "timeZone",
-             o.name as "ownerName", w.taken_at as "latestAt", w.analytes, w.units, w.vals, p.waiting, w.waiting_newest as "waitingNewest", p.overdue,
-             w.treatment_name as "trName", w.treatment_amount as "trAmount", w.treatment_unit as "trUnit", w.treated_at as "trAt"
-        from totals
-        left join lateral (
-          select * from scored
-           where $5::text <> 'attention' or score > 0
-           order by score desc, name collate "und-x-icu", id
-           limit $6 offset (case when $7::int < totals."allListed" then $7::int else 0 end)
-        ) p on true
-        left join tub t on t.id = p.id
-        left join tub_water w on w.tub_id = p.id
-        left join "user" o on o.id = t.owner_id
-       order by p.score desc, p.name collate "und-x-icu", p.id`,
-    values: [...scope, JSON.stringify(kindJson), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
-  });
-  const [first] = r.rows;
-  const totals: DashboardTotals = first
-    ? { tubs: first.allTubs, attention: first.allAttention, waiting: first.allWaiting, outOfRange: first.allOutOfRange, overdue: first.allOverdue, listed: first.allListed }
-    : { tubs: 0, attention: 0, waiting: 0, outOfRange: 0, overdue: 0, listed: 0 };
-  return { totals, rows: r.rows.filter((x) => x.id !== null) };
+  const seenKey = technicianParam(user) ?? "";
+  let kinds = kindsSeen.get(seenKey) ?? [];
+  // Usually once; again (at most twice more) when a tub in the list has a kind not passed in.
+  for (let attempt = 0; ; attempt++) {
+    const r = await pageQuery(kinds);
+    stopIfAborted(opts.signal);
+    const [first] = r.rows;
+    if (!first?.unknownKinds || attempt === 2) {
+      const totals: DashboardTotals = first
+        ? { tubs: first.allTubs, attention: first.allAttention, waiting: first.allWaiting, outOfRange: first.allOutOfRange, overdue: first.allOverdue, listed: first.allListed }
+        : { tubs: 0, attention: 0, waiting: 0, outOfRange: 0, overdue: 0, listed: 0 };
+      return { totals, rows: r.rows.filter((x) => x.id !== null) };
+    }
+    const found = (
+      await db.$client.query<TubKind>({
+        name: "dipwell-dashboard-kinds",
+        text: `select distinct t.sanitiser, coalesce(t.targets, 'null'::jsonb) as targets, t.guidance from tub t where ${inScope}`,
+        values: scope,
+      })
+    ).rows.map(kindBands);
+    stopIfAborted(opts.signal);
+    // The kinds met before stay (a search sees some of the tubs), a bounded number of them.
+    const fresh = new Set(found.map(bandsKey));
+    const kept = kinds.filter((k) => !fresh.has(bandsKey(k)));
+    kinds = kept.length + found.length <= 100 ? [...kept, ...found] : found;
+    if (kindsSeen.size >= 1000) kindsSeen.clear();
+    kindsSeen.set(seenKey, kinds);
+  }
+
+  function pageQuery(kinds: KindBands[]) {
+    return db.$client.query<DashboardSqlRow & DashboardTotalsSql & { score: number | null; unknownKinds: number }>({
+      // A named statement: planned once per connection, not on every visit to the dashboard.
+      name: "dipwell-dashboard-page",
+      text: `with kind as materialized (
+          select k->>'s' as sanitiser, k->'t' as targets, k->>'g' as guidance,
+                 array(select jsonb_array_elements_text(k->'a')) as band_analytes,
+                 array(select x::float8 from jsonb_array_elements_text(k->'lo') x) as band_min,
+                 array(select x::float8 from jsonb_array_elements_text(k->'hi') x) as band_max
+            from jsonb_array_elements($3::jsonb) k
+        ), scored as materialized (
+          -- every client tub, narrow: what orders the list and makes the totals
+          select x.id, x.name, x.waiting, x.overdue, x.out_of_range, x.unknown_kind,
+                 (case when x.waiting > 0 then 4 else 0 end) + (case when x.out_of_range then 2 else 0 end) + (case when x.overdue then 1 else 0 end) as score
+            from (
+              select t.id, t.name, coalesce(w.waiting, 0) as waiting, k.sanitiser is null as unknown_kind,
+                     (w.taken_at is null or w.taken_at + t.test_every_days * interval '24 hours' < $4::timestamptz) as overdue,
+                     -- each of the tub's bands (a handful) looks its value up in the current water's arrays: no join per tub
+                     exists (
+                       select 1 from unnest(k.band_analytes, k.band_min, k.band_max) b(analyte, min, max)
+                        cross join lateral (select w.vals[array_position(w.analytes, b.analyte)] as v) p
+                        where p.v < b.min or p.v > b.max
+                     ) as out_of_range
+                from tub t
+                left join kind k on k.sanitiser = t.sanitiser::text and k.targets = coalesce(t.targets, 'null'::jsonb) and k.guidance = t.guidance
+                left join tub_water w on w.tub_id = t.id
+               where ${inScope}
+              offset 0
+            ) x
+        ), totals as (
+          select count(*)::int as "allTubs", count(*) filter (where score > 0)::int as "allAttention", coalesce(sum(waiting), 0)::int as "allWaiting",
+                 count(*) filter (where out_of_range)::int as "allOutOfRange", count(*) filter (where overdue)::int as "allOverdue",
+                 (case when $5::text = 'attention' then count(*) filter (where score > 0) else count(*) end)::int as "allListed",
+                 count(*) filter (where unknown_kind)::int as "unknownKinds"
+            from scored
+        )
+        -- the page's tubs only: their water, last treatment and owner
+        select totals.*, p.score, p.id, p.name, t.sanitiser, t.targets, t.guidance, t.test_every_days as "everyDays", t.time_zone as "timeZone",
+               o.name as "ownerName", w.taken_at as "latestAt", w.analytes, w.units, w.vals, p.waiting, w.waiting_newest as "waitingNewest", p.overdue,
+               w.treatment_name as "trName", w.treatment_amount as "trAmount", w.treatment_unit as "trUnit", w.treated_at as "trAt"
+          from totals
+          left join lateral (
+            select * from scored
+             where $5::text <> 'attention' or score > 0
+             order by score desc, name collate "und-x-icu", id
+             limit $6 offset (case when $7::int < totals."allListed" then $7::int else 0 end)
+          ) p on true
+          left join tub t on t.id = p.id
+          left join tub_water w on w.tub_id = p.id
+          left join "user" o on o.id = t.owner_id
+         order by p.score desc, p.name collate "und-x-icu", p.id`,
+      values: [...scope, JSON.stringify(kinds), now, opts.view, DASHBOARD_PAGE_SIZE, opts.offset],
+    });
+  }
 }
 
 /**
