@@ -206,6 +206,22 @@ describe("the dashboard with 70,000 unreviewed readings", () => {
     }
   });
 
+  it("a tub's changed targets count at the next visit (the kinds of tub met before are checked by the query)", async () => {
+    const before = await dashboard(asTech(tech));
+    expect(before.rows.find((r) => r.id === calm)).toMatchObject({ outOfRange: [] });
+    // Free chlorine 3 mg/L is now below this tub's own range (invented range, for the check only).
+    await sql(`update tub set targets = '{"free_chlorine": {"min": 4, "max": 6}}'::jsonb where id = $1`, [calm]);
+    try {
+      const after = await dashboard(asTech(tech));
+      expect(after.rows.find((r) => r.id === calm)!.outOfRange).toEqual([expect.stringMatching(/^Free chlorine low \(3 mg\/L; aim 4–6\)/)]);
+      expect(after.totals.outOfRange).toBe(before.totals.outOfRange + 1);
+    } finally {
+      await sql(`update tub set targets = '{}'::jsonb where id = $1`, [calm]);
+    }
+    const restored = await dashboard(asTech(tech));
+    expect(restored.rows.find((r) => r.id === calm)).toMatchObject({ outOfRange: [] });
+  });
+
   it("the CSV lists every reading with its pads in their columns (treatment columns empty)", async () => {
     const mod = await importRoute("routes/tubs/history-csv.ts");
     const r = await callRoute(mod.loader!, { url: `/tubs/${calm}/history.csv`, params: { tubId: calm }, user: tech });
