@@ -6,7 +6,7 @@ import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
-import { errorOf, revived, runPhotoRead, type PhotoRead as Job, type PhotoReadResult, type ReaderFailure } from "./reader-job";
+import { errorOf, runPhotoRead, type PhotoRead as Job, type PhotoReadResult, type ReaderFailure } from "./reader-job";
 
 const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
 /** How far reading steps back for the web app (the `nice` increment, 0–19). */
@@ -46,7 +46,7 @@ export function createReaderPool(size = readerPoolSize()) {
       if (!task || task.id !== msg.id) return;
       slot.busy = null;
       deathsInRow = 0;
-      if (msg.ok) task.resolve(revived(msg.result!));
+      if (msg.ok) task.resolve(msg.result!);
       else task.reject(errorOf(msg.error!));
       pump();
     });

@@ -1,7 +1,7 @@
 // Reading a registered strip photo, off the request path. The registration queues one job per
 // reading (queueRead, in the registration's transaction); the worker runs readPendingReading,
 // which has a reader process fetch, check, decode and read the photo in one visit (reader-job.ts)
-// with the chart version chosen at registration, writes the thumbnail and the pad crops to
+// with the chart version chosen at registration and write the thumbnail and the pad crops to
 // storage (outside any database transaction, under keys named by the reading), then in one short
 // transaction turns the reading from "pending" into "read" or "failed" and stores its pads.
 // Only a pending reading is ever written: a second run (a retried job whose first run was not
@@ -13,9 +13,8 @@ import { chartVersion, photo, reading, readingPad } from "../../db/schema";
 import { READ_QUEUE } from "../../jobs/queues";
 import { db } from "../../lib/db.server";
 import { errorOf, runPhotoRead, type PhotoRead, type PhotoReadResult } from "../../jobs/reader-job";
-import { putObject } from "../../lib/storage.server";
 import { parseChart, ReadingError, type StripChart, type StripReading } from "../../reading";
-import { cropKey, PhotoError, thumbKey, withStorage } from "../photos/intake.server";
+import { PhotoError } from "../photos/intake.server";
 import { isPhotoType } from "../photos/rules";
 
 export type ReadJob = { readingId: string };
@@ -89,35 +88,24 @@ export async function readPendingReading(
     const decode = p.width === null && p.purpose === "strip" && isPhotoType(p.contentType) ? p.contentType : undefined;
     let found: PhotoReadResult;
     try {
-      found = await (opts.reader ?? runPhotoRead)({ key: p.s3Key, sha256: p.sha256, decode, chart });
+      found = await (opts.reader ?? runPhotoRead)({ key: p.s3Key, sha256: p.sha256, decode, chart, tubId: r.tubId, readingId: r.id });
     } catch (error) {
       if (error instanceof PhotoError && error.code !== "storage_unavailable") return await fail(readingId, couldNotOpen(error.code), { code: error.code });
       throw error;
     }
-    if (found.inspected) {
-      const { width, height, thumb } = found.inspected;
-      await withStorage(() => putObject(thumbKey(p.s3Key), thumb, "image/webp"));
-      await db.update(photo).set({ width, height }).where(eq(photo.id, p.id));
-    }
+    if (found.size) await db.update(photo).set(found.size).where(eq(photo.id, p.id));
     if (found.refused) {
       const refusal = errorOf(found.refused);
       if (refusal instanceof ReadingError) return await fail(readingId, refusal.message, { code: refusal.code });
       throw refusal;
     }
     const result: StripReading = found.reading!;
-    // Crops first, outside the transaction; their keys are the reading's, so a rerun overwrites them.
-    const pads: (typeof readingPad.$inferInsert)[] = [];
-    for (const pad of result.pads) {
-      let key: string | null = null;
-      if (pad.crop) {
-        key = cropKey(r.tubId, r.id, pad.analyte);
-        await putObject(key, pad.crop, "image/webp");
-      }
-      pads.push({
-        readingId: r.id, analyte: pad.analyte, unit: pad.unit, readValue: roundReading(pad.analyte, pad.value), confidence: pad.confidence,
-        needsReview: pad.needsReview, reviewReason: pad.reason ?? null, lab: pad.lab, swatchIndex: pad.swatchIndex, cropKey: key, source: "auto",
-      });
-    }
+    // The crops are in storage already (the reader wrote them, outside any transaction, under the
+    // reading's keys, so a rerun overwrites them); the pads name them.
+    const pads: (typeof readingPad.$inferInsert)[] = result.pads.map((pad) => ({
+      readingId: r.id, analyte: pad.analyte, unit: pad.unit, readValue: roundReading(pad.analyte, pad.value), confidence: pad.confidence,
+      needsReview: pad.needsReview, reviewReason: pad.reason ?? null, lab: pad.lab, swatchIndex: pad.swatchIndex, cropKey: found.cropKeys?.[pad.analyte] ?? null, source: "auto",
+    }));
     return await db.transaction(async (tx) => {
       const done = await tx
         .update(reading)
