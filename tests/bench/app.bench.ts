@@ -131,10 +131,14 @@ function startProbe() {
       await started;
     },
     async stop() {
-      const answer = next<{ times: number[] }>();
+      const answer = next<{ times: number[]; starts: number[] }>();
       child.send({ stop: true });
-      return (await answer).times;
+      const a = await answer;
+      this.starts = a.starts;
+      return a.times;
     },
+    /** When each request of the last run started (ms since the epoch). */
+    starts: [] as number[],
     close: () => child.send({ exit: true }),
   };
 }
@@ -305,7 +309,7 @@ async function main() {
     const ordinary = tub; // the tub page
     const uploads: {
       n: number; done: number; seconds: number; p95: number; median: number; registerP95: number; pageP95: number; pageSamples: number; idleP95: number; idleSamples: number;
-      errors: string[]; appCpu: number; parts: PartsCpu; idleParts: PartsCpu; idleCount: number;
+      errors: string[]; appCpu: number; parts: PartsCpu; phases: { sending: number[]; reading: number[] }; idleParts: PartsCpu; idleCount: number;
     }[] = [];
     let variant = 0;
     const probe = startProbe();
@@ -330,6 +334,7 @@ async function main() {
       const cpu0 = cpuSeconds(app.pid);
       const parts0 = partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir });
       const t0 = performance.now();
+      let registeredBy = 0; // when the last registration was answered (ms since the epoch)
       const results = await Promise.all(
         Array.from({ length: n }, async (_, i) => {
           // Each upload a different photo (a few bytes after the image's end make a new file).
@@ -350,6 +355,7 @@ async function main() {
               method: "POST", headers: { cookie: tech, origin: base, "content-type": "application/json" }, body: JSON.stringify({ key }),
             });
             const registerMs = performance.now() - r0;
+            registeredBy = Math.max(registeredBy, Date.now());
             if (!reg.ok) throw new Error(`register ${reg.status}: ${(await reg.text()).slice(0, 120)}`);
             const out = (await reg.json()) as { readingId?: string; photoId?: string; status?: string };
             // Ready when the reading is stored with its result (read, or could not be read), asked
@@ -378,11 +384,14 @@ async function main() {
       // Until every reading is stored the worker has done its part; the S3 service and PostgreSQL finish with it.
       const parts = cpuSince(parts0, partsCpu({ app: app.pid, worker: worker?.pid, postgresDir: postgres.dataDir }));
       const pageTimes = await probe.stop();
+      // The tub page while the photos were sent and registered, and afterwards while they were read.
+      const sending = pageTimes.filter((_, i) => probe.starts[i] < registeredBy);
+      const reading = pageTimes.filter((_, i) => probe.starts[i] >= registeredBy);
       const ok = results.filter((r): r is { ms: number; registerMs: number } => r !== null);
       uploads.push({
         n, done: ok.length, seconds, median: quantile(ok.map((r) => r.ms), 0.5), p95: quantile(ok.map((r) => r.ms), 0.95),
         registerP95: quantile(ok.map((r) => r.registerMs), 0.95), pageP95: quantile(pageTimes, 0.95), pageSamples: pageTimes.length,
-        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors, appCpu, parts, idleParts, idleCount,
+        idleP95: quantile(idleTimes, 0.95), idleSamples: idleTimes.length, errors, appCpu, parts, idleParts, idleCount, phases: { sending, reading },
       });
       await sleep(2000);
     }
@@ -433,6 +442,11 @@ async function main() {
     for (const u of uploads) {
       console.log(`${pad(String(u.n), 10)}${lpad(`${u.done}/${u.n}`, 7)}${lpad((u.done / u.seconds).toFixed(2), 8)}${lpad(ms(u.median), 9)}${lpad(ms(u.p95), 9)}${lpad(ms(u.registerP95), 14)}${lpad(ms(u.pageP95), 14)}${lpad(String(u.pageSamples), 7)}${lpad(ms(u.idleP95), 10)}${lpad(String(u.idleSamples), 7)}${lpad(u.appCpu.toFixed(1), 11)}`);
       for (const e of [...new Set(u.errors)].slice(0, 3)) console.log(`    error: ${e}`);
+    }
+    console.log(`\nThe tub page's p95 (n) while the photos were sent and registered, and afterwards while they were read`);
+    for (const u of uploads) {
+      const { sending, reading } = u.phases;
+      console.log(`${pad(String(u.n), 10)}${lpad(ms(quantile(sending, 0.95)), 8)}${lpad(`(${sending.length})`, 7)}${lpad(ms(quantile(reading, 0.95)), 10)}${lpad(`(${reading.length})`, 7)}`);
     }
     console.log(`\nCPU seconds per upload while they ran, by part, less the tub page probe's share (its CPU per request`);
     console.log(`in the first 10 s of idle probing, times its requests during the uploads); readers: the worker's reader processes`);
