@@ -22,14 +22,14 @@ describe("chartLayout", () => {
  * towards +t on an axis along +x) and the layout searched between the given ends, the length
  * taken as confirmed.
  */
-function searchDrawn(plusEnd: number, minusEnd: number) {
+function searchDrawn(plusEnd: number, minusEnd: number, scales: { scale: number; scaleFromWidth: number; lengthOk: boolean } = { scale: 3.5, scaleFromWidth: 3.5, lengthOk: true }) {
   const img = drawScene(400, 200, [120, 118, 110], strip);
   const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
   const profile = alongProfile(img, axis, -190, 190);
   const diff = plasticDifference(profile, axis.length, axis.width);
   const layout = chartLayout(chart);
   const ends = { plus: { end: plusEnd, truncated: false }, minus: { end: minusEnd, truncated: false } };
-  const found = searchLayout(chart, layout, profile, diff, { ...ends, scale: 3.5, scaleFromWidth: 3.5, lengthOk: true, free: false, padEndMm: 20.5 });
+  const found = searchLayout(chart, layout, profile, diff, { ...ends, ...scales, free: false, padEndMm: 20.5 });
   return { axis, profile, diff, layout, ...found };
 }
 
@@ -84,5 +84,21 @@ describe("searchLayout with an end walked a pad's pitch too far", () => {
     expect(partner).toBeDefined();
     // Its colours lie closer to the chart than its partner's.
     expect(placementColourCost(chart, layout, profile, diff.bare, right!)).toBeLessThan(placementColourCost(chart, layout, profile, diff.bare, partner!) - 3);
+  });
+});
+
+describe("searchLayout placed from the handle's end at the width's scale", () => {
+  // The tip's end walked 10 mm past the tip (a grout line in line with the strip), so the length
+  // is not confirmed; the width gives a scale 7 % short (its edges read a little narrow). From the
+  // handle's end, the scale searched must keep the handle where it was seen, not the tip where the
+  // width's scale put it (5.6 mm short of the true tip over an 80 mm strip).
+  const width = 3.5 / 1.07;
+  const { best } = searchDrawn(140 + 10 * 3.5, -140, { scale: width, scaleFromWidth: width, lengthOk: false });
+
+  it("finds the tip within a third of a pad and the scale from the pads", () => {
+    expect(best).not.toBeNull();
+    expect(best!.dir).toBe(-1);
+    expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan((5 / 3) * 3.5);
+    expect(pxPerMm(best!)).toBeCloseTo(3.5, 1);
   });
 });

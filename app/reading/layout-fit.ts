@@ -100,22 +100,30 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   for (const tipSide of [1, -1] as const) {
     const dir = -tipSide as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
-    const anchors: { tip: number; baseScale: number }[] = [];
+    // Each anchor: where it puts the tip at the base scale, and the point (mm from the tip) that
+    // stays in place as the scale is searched. The tip, except for the handle's end when the
+    // length is not confirmed: there the scale is searched widely (±12 % about the width's) and
+    // held about the tip it would move a strip placed from its handle by the scale's error times
+    // the whole strip's length (an end walked on past the tip, a width read a little narrow: the
+    // pads a pitch off); held about the handle, the pads land where the pads' own pattern puts
+    // them. Beside a confirmed length the scale searched is narrow and the tip stays the pivot.
+    const anchors: { tip: number; baseScale: number; pivotMm: number }[] = [];
+    const L = chart.strip.lengthMm;
     let offMin = -(lengthOk ? 2 : 3) * scale, offMax = -offMin, offStep = 0.5;
     if (free) {
       let v0 = -1, v1 = -1;
       for (let i = 0; i < profile.n; i++) if (profile.valid[i]) (v1 = i), v0 < 0 && (v0 = i);
       if (v0 < 0) continue;
-      anchors.push({ tip: profile.t0 + (dir === 1 ? v0 : v1), baseScale: scale });
+      anchors.push({ tip: profile.t0 + (dir === 1 ? v0 : v1), baseScale: scale, pivotMm: 0 });
       (offMin = 0), (offMax = v1 - v0 - s.padEndMm * scale), (offStep = 1);
     } else {
-      if (!tipEnd.truncated || handleEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scale });
-      if (!lengthOk && !handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scale, baseScale: scale });
+      if (!tipEnd.truncated || handleEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scale, pivotMm: 0 });
+      if (!lengthOk && !handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * L * scale, baseScale: scale, pivotMm: L });
       // One end may run on past the strip (a grain line, a seam or a shadow in line with it): the
       // layout is also placed from the other end at the scale given by the width.
       if (lengthOk) {
-        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * chart.strip.lengthMm * scaleFromWidth, baseScale: scaleFromWidth });
-        if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scaleFromWidth });
+        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * L * scaleFromWidth, baseScale: scaleFromWidth, pivotMm: 0 });
+        if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scaleFromWidth, pivotMm: 0 });
       }
     }
     const nK = Math.round((2 * scaleRange) / 0.01) + 1;
@@ -123,14 +131,15 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
     // Coarse grid first (every other scale, offsets a quarter of the smallest pad apart), then
     // the full grid around its best: a pad's score changes smoothly over a quarter of its size.
     const offStride = Math.max(1, Math.floor((0.25 * minPadMm * scale) / offStep));
-    for (const { tip, baseScale } of anchors) {
+    for (const { tip, baseScale, pivotMm } of anchors) {
       // The best so far: score, scale factor, offset, pad score, gap score (a typed array: the
       // search tries thousands of placements and keeps no object per improvement).
       const top = new Float64Array(5);
       let any = false;
       const consider = (k: number, off: number) => {
-        // t of a point mm from the tip: tip + dir × (off + mm × sc)
-        const t0 = tip + dir * off, dt = dir * baseScale * k;
+        // t of a point mm from the tip: tip + dir × (off + pivot × base × (1 − k) + mm × sc), so
+        // that the pivot lies at tip + dir × (off + pivot × base) whatever the scale
+        const t0 = tip + dir * (off + pivotMm * baseScale * (1 - k)), dt = dir * baseScale * k;
         // Each span's mean difference from bare plastic (diff.meanBetween, taken inline: no call
         // per span of each of the thousands of placements tried).
         let padScore = 0, gapScore = 0;
@@ -159,7 +168,7 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
       if (any) refine(2, offStride, midStride);
       if (any && midStride > 1) refine(1, midStride, 1);
       const found: LayoutFit[] = [];
-      const keep = (shiftOf?: LayoutFit) => found.push({ score: top[0], tip, dir, scaleFactor: top[1], offset: top[2], baseScale, padScore: top[3], gapScore: top[4], ...(shiftOf ? { shiftOf } : {}) });
+      const keep = (shiftOf?: LayoutFit) => found.push({ score: top[0], tip, dir, scaleFactor: top[1], offset: top[2] + pivotMm * baseScale * (1 - top[1]), baseScale, padScore: top[3], gapScore: top[4], ...(shiftOf ? { shiftOf } : {}) });
       if (any) keep();
       // Evenly spaced pads fit nearly as well one pad along, one of them off the strip: an end
       // walked a pad's pitch too far (grain or a shadow running on past the tip) leaves the true
