@@ -469,7 +469,9 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
           .map((p) => ({
             id: p.id, analyte: p.analyte, label: chartPads?.get(p.analyte)?.label ?? analyteName(p.analyte), unit: p.unit,
             readValue: p.readValue, confirmedValue: p.confirmedValue, needsReview: p.needsReview, reason: p.reviewReason,
-            confidence: p.confidence, hasCrop: Boolean(p.cropKey && r.photoId), swatches: chartPads?.get(p.analyte)?.swatches ?? [], padCount: chartPads?.get(p.analyte)?.pads ?? 1,
+            hasCrop: Boolean(p.cropKey && r.photoId), padCount: chartPads?.get(p.analyte)?.pads ?? 1,
+            // the chart's colours to tap, for the pads the reader was unsure of (the others are confirmed as read or typed)
+            swatches: p.needsReview ? (chartPads?.get(p.analyte)?.swatches ?? []) : [],
           })),
       };
     }),

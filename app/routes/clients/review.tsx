@@ -1,6 +1,6 @@
 import { data, redirect } from "react-router";
 import { Pager } from "~/components/Pager";
-import { Button, Card, EmptyState, Notice, PageTitle, cx } from "~/components/ui";
+import { Button, Card, EmptyState, Notice, PageTitle } from "~/components/ui";
 import { ClientInputError, markReviewed, reviewQueue } from "~/features/clients/clients.server";
 import { askedPage } from "~/lib/paging";
 import { requirePermission } from "~/lib/session.server";
@@ -14,7 +14,8 @@ export async function loader({ context, request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const queue = await reviewQueue(user, { page: askedPage(url), signal: request.signal });
   const words = timeWords(request);
-  const items = queue.items.map((r) => ({ ...r, when: words.tub(r.takenAt, r.timeZone) }));
+  // What the page shows: the time in words in the tub's zone (the zone and the status stay here).
+  const items = queue.items.map(({ timeZone, status: _status, ...r }) => ({ ...r, when: words.tub(r.takenAt, timeZone) }));
   return { ...queue, items, done: url.searchParams.has("done") };
 }
 
@@ -118,14 +119,14 @@ export default function Review({ loaderData, actionData }: Route.ComponentProps)
                       <fieldset className="flex flex-wrap gap-1">
                         <legend className="sr-only">Chart colours for {p.label}: tap the one the pad matches</legend>
                         {p.swatches.map((s) => (
-                          <label key={s.value} className="flex cursor-pointer flex-col items-center text-xs">
-                            <input type="radio" form={formId} name={`swatch_${p.id}`} value={s.value} className="peer sr-only" />
-                            <span className={cx("flex overflow-hidden rounded border-2 border-line peer-checked:border-ink peer-focus-visible:outline peer-focus-visible:outline-2", p.padCount > 1 ? "h-9 w-14" : "h-9 w-9")}>
+                          <label key={s.value} className="dw-swatch">
+                            <input type="radio" form={formId} name={`swatch_${p.id}`} value={s.value} />
+                            <span data-pads={p.padCount > 1 ? "" : undefined}>
                               {s.colors.map((c, k) => (
-                                <span key={k} className="block h-full flex-1" style={{ background: c }} />
+                                <span key={k} style={{ background: c }} />
                               ))}
                             </span>
-                            <span className={s.value === p.readValue ? "font-bold" : ""}>{s.value}</span>
+                            <span className={s.value === p.readValue ? "font-bold" : undefined}>{s.value}</span>
                           </label>
                         ))}
                       </fieldset>
