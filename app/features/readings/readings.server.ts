@@ -451,44 +451,51 @@ export type TubGlance = {
   ago: string;
   /** false while the reader's values wait for the owner or a technician to confirm them */
   confirmed: boolean;
-  values: { analyte: string; label: string; value: number; unit: string; status: RangeStatus }[];
+  /** the values outside the tub's targets (what the card names), by label */
+  off: { analyte: string; label: string; value: number; unit: string; status: "low" | "high" }[];
 };
 
 /**
  * The water at a glance for tub cards: the latest reading that has values (one per tub, chosen in
- * SQL), each value's status against the tub's targets, and whether anyone confirmed it.
+ * SQL with one index probe per tub, reading_tub_taken_idx, however long its history), its values
+ * outside the tub's targets, how long ago and whether it is confirmed. One round trip for a page
+ * of tubs (the list is one page, so it stays short).
  */
 export async function glanceByTub(tubIds: string[], now = new Date()) {
   const out = new Map<string, TubGlance>();
   if (!tubIds.length) return out;
-  const tubs = await db.select().from(tubTable).where(inArray(tubTable.id, tubIds));
-  // Each tub's newest reading (not a failed one): one index probe per tub (reading_tub_taken_idx),
-  // however long its history. The list is one page of tubs, so it stays short.
-  const latest = (
-    await db.$client.query<{ id: string; tubId: string; takenAt: Date; status: string; reviewedAt: Date | null }>(
-      `select r.id, t.id as "tubId", r.taken_at as "takenAt", r.status, r.reviewed_at as "reviewedAt"
-         from unnest($1::uuid[]) as t(id)
-         cross join lateral (
-           select r.id, r.taken_at, r.status, r.reviewed_at from reading r
-            where r.tub_id = t.id and r.status <> 'failed' order by r.taken_at desc limit 1
-         ) r`,
-      [tubs.map((t) => t.id)],
-    )
+  const rows = (
+    await db.$client.query<{
+      tubId: string; sanitiser: "chlorine" | "bromine"; targets: Tub["targets"]; guidance: Tub["guidance"]; timeZone: string;
+      takenAt: Date; status: string; reviewedAt: Date | null; analytes: string[]; units: (string | null)[]; vals: number[];
+    }>({
+      name: "dipwell-tub-glance",
+      text: `select t.id as "tubId", t.sanitiser, t.targets, t.guidance, t.time_zone as "timeZone",
+                    r.taken_at as "takenAt", r.status, r.reviewed_at as "reviewedAt", p.analytes, p.units, p.vals
+               from unnest($1::uuid[]) as ids(id)
+               join tub t on t.id = ids.id
+              cross join lateral (
+                select r.id, r.taken_at, r.status, r.reviewed_at from reading r
+                 where r.tub_id = t.id and r.status <> 'failed' order by r.taken_at desc limit 1
+              ) r
+              cross join lateral (
+                select array_agg(rp.analyte) as analytes, array_agg(rp.unit) as units, array_agg(coalesce(rp.confirmed_value, rp.read_value)) as vals
+                  from reading_pad rp
+                 where rp.reading_id = r.id and coalesce(rp.confirmed_value, rp.read_value) is not null
+              ) p
+             where p.analytes is not null`,
+      values: [tubIds],
+    })
   ).rows;
-  if (!latest.length) return out;
-  const padsOfLatest = await padsByReading(latest.map((r) => r.id));
-  const tubById = new Map(tubs.map((t) => [t.id, t]));
-  for (const r of latest) {
-    const t = tubById.get(r.tubId)!;
-    const targets = new Map(tubTargets(t).map((x) => [x.parameter, x]));
-    const values = (padsOfLatest.get(r.id) ?? [])
-      .filter((p) => (p.confirmedValue ?? p.readValue) !== null)
-      .map((p) => {
-        const value = (p.confirmedValue ?? p.readValue)!;
-        return { analyte: p.analyte, label: analyteName(p.analyte), value, unit: p.unit ?? "", status: rangeStatus(value, targets.get(p.analyte)) };
-      })
-      .sort((a, b) => a.label.localeCompare(b.label));
-    out.set(r.tubId, { ago: daysAgo(r.takenAt, now, t.timeZone), confirmed: r.status === "confirmed" || r.reviewedAt !== null, values });
+  for (const r of rows) {
+    const targets = new Map(tubTargets(r).map((x) => [x.parameter, x]));
+    const off: TubGlance["off"] = [];
+    r.analytes.forEach((analyte, i) => {
+      const status = rangeStatus(r.vals[i], targets.get(analyte));
+      if (status === "low" || status === "high") off.push({ analyte, label: analyteName(analyte), value: r.vals[i], unit: r.units[i] ?? "", status });
+    });
+    off.sort((a, b) => a.label.localeCompare(b.label));
+    out.set(r.tubId, { ago: daysAgo(r.takenAt, now, r.timeZone), confirmed: r.status === "confirmed" || r.reviewedAt !== null, off });
   }
   return out;
 }

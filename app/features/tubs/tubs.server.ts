@@ -196,23 +196,32 @@ export async function tubListPage(user: SessionUser, opts: { page?: number; q?: 
           or ($3::boolean and exists (select 1 from tub_access a where a.tub_id = t.id and a.technician_id = $1 and a.revoked_at is null)))
      and ($4::text is null or t.name ilike $4 or o.name ilike $4)`;
   const params = [user.id, can(user, { tub: ["all"] }), can(user, { tub: ["shared"] }), opts.q ? likePattern(opts.q) : null];
-  const [{ total, own }] = (
-    await db.$client.query<{ total: number; own: number }>(
-      `select count(*)::int as total, count(*) filter (where t.owner_id = $1)::int as own from tub t join "user" o on o.id = t.owner_id where ${where}`,
-      params,
-    )
+  const asked = Number.isInteger(opts.page) && opts.page! >= 1 && opts.page! <= 1_000_000 ? opts.page! : 1;
+  // The count and the page in one round trip: a page past the end gives the first page, as pageOf does.
+  const found = (
+    await db.$client.query<{ total: number; own: number; id: string | null; name: string; volumeLitres: number; sanitiser: "chlorine" | "bromine"; mine: boolean; ownerName: string }>({
+      name: "dipwell-tub-list-page",
+      text: `with listed as (
+          select t.id, t.name, t.volume_litres, t.sanitiser, t.owner_id, o.name as owner_name
+            from tub t join "user" o on o.id = t.owner_id
+           where ${where}
+        ), totals as (
+          select count(*)::int as total, count(*) filter (where owner_id = $1)::int as own from listed
+        )
+        select totals.total, totals.own, p.id, p.name, p.volume_litres as "volumeLitres", p.sanitiser, p.mine, p.owner_name as "ownerName"
+          from totals
+          left join lateral (
+            select l.*, l.owner_id = $1 as mine from listed l
+             order by (l.owner_id = $1) desc, l.name, l.id
+             limit $5 offset (case when $6::int < totals.total then $6::int else 0 end)
+          ) p on true
+         order by p.mine desc, p.name, p.id`,
+      values: [...params, TUB_PAGE_SIZE, (asked - 1) * TUB_PAGE_SIZE],
+    })
   ).rows;
-  const page = pageOf(total, TUB_PAGE_SIZE, opts.page ?? 1);
-  const rows = (
-    await db.$client.query<{ id: string; name: string; volumeLitres: number; sanitiser: "chlorine" | "bromine"; mine: boolean; ownerName: string }>(
-      `select t.id, t.name, t.volume_litres as "volumeLitres", t.sanitiser, t.owner_id = $1 as mine, o.name as "ownerName"
-         from tub t join "user" o on o.id = t.owner_id
-        where ${where}
-        order by (t.owner_id = $1) desc, t.name, t.id
-        limit $5 offset $6`,
-      [...params, page.size, page.offset],
-    )
-  ).rows;
+  const { total, own } = found[0];
+  const page = pageOf(total, TUB_PAGE_SIZE, asked);
+  const rows = found.flatMap(({ total: _t, own: _o, id, ...r }) => (id === null ? [] : [{ id, ...r }]));
   return { tubs: rows, page, own };
 }
 

@@ -107,8 +107,8 @@ function TubCards({ tubs, showOwner }: { tubs: Route.ComponentProps["loaderData"
 
 /** The latest water on a card: the overall state first, then each value that is off. */
 function TubGlance({ glance }: { glance: Route.ComponentProps["loaderData"]["tubs"][number]["glance"] }) {
-  if (!glance || glance.values.length === 0) return <p className="mt-2 text-sm text-ink-soft" data-testid="tub-glance">No reading yet</p>;
-  const off = glance.values.filter((v) => v.status === "low" || v.status === "high");
+  if (!glance) return <p className="mt-2 text-sm text-ink-soft" data-testid="tub-glance">No reading yet</p>;
+  const { off } = glance;
   return (
     <div className="mt-2 space-y-1.5 text-sm" data-testid="tub-glance">
       <p className="flex flex-wrap items-center gap-1.5">
