@@ -413,6 +413,9 @@ export async function dashboardCards(
 
 export const REVIEW_PAGE_SIZE = 10;
 
+/** Each chart version's swatches by analyte (undefined: the chart does not parse), a bounded number of versions. */
+const swatchesByVersion = new Map<string, Map<string, AnalyteSwatches> | undefined>();
+
 type ReviewSqlRow = { id: string; tubId: string; tubName: string; timeZone: string; ownerName: string; takenAt: Date; status: string; photoId: string | null; chartVersionId: string | null };
 
 /**
@@ -440,15 +443,18 @@ export async function reviewQueue(user: SessionUser, opts: { page?: number; sign
   ).rows;
   // One page: at most REVIEW_PAGE_SIZE readings, so these lists stay small.
   const pads = await padsByReading(rows.map((r) => r.id));
+  // A chart version is never changed once saved, so its swatches are read and parsed once.
   const versionIds = [...new Set(rows.map((r) => r.chartVersionId).filter((v): v is string => Boolean(v)))];
-  const versions = versionIds.length ? await db.select({ id: chartVersion.id, definition: chartVersion.definition }).from(chartVersion).where(inArray(chartVersion.id, versionIds)) : [];
-  const swatchesByVersion = new Map<string, Map<string, AnalyteSwatches>>();
+  const unknown = versionIds.filter((id) => !swatchesByVersion.has(id));
+  const versions = unknown.length ? await db.select({ id: chartVersion.id, definition: chartVersion.definition }).from(chartVersion).where(inArray(chartVersion.id, unknown)) : [];
+  if (swatchesByVersion.size + versions.length > 500) swatchesByVersion.clear();
   for (const v of versions) {
     try {
       const chart = parseChart(v.definition);
       swatchesByVersion.set(v.id, new Map(analyteSwatches(chart.pads).map((g) => [g.analyte, g])));
     } catch {
       // a chart that no longer parses: the values are shown without swatches
+      swatchesByVersion.set(v.id, undefined);
     }
   }
   return {
