@@ -1,6 +1,7 @@
 // Photo decoding and robust region sampling.
 import sharp, { type Metadata, type OutputInfo } from "sharp";
 import { SRGB8_TO_LINEAR, linearRgbToLab, deltaE2000, type Rgb } from "./colour";
+import { markAdditiveGlare } from "./glare";
 import { quantileOf } from "./stats";
 
 export type ReadingErrorCode = "not_an_image" | "truncated" | "too_small" | "too_large" | "no_strip" | "too_few_pads" | "bad_chart";
@@ -147,7 +148,24 @@ export type SampleOptions = {
    * brightest pixels clip first, the median stays right while fewer than half are clipped.
    */
   whiteReference?: boolean;
+  /**
+   * The light's colour as photographed (the bare plastic's linear RGB): glare is then found as
+   * light of that colour added to the region's own (glare.ts), which holds however much of the
+   * region it covers; where none shows, by brightness against the region's median as without it.
+   */
+  lamp?: Rgb;
 };
+
+/** The region's glare as the lamp's light added to the pad's (glare.ts); null when none shows. */
+function additiveGlare(data: Uint8Array, idx: Int32Array, n: number, clipped: Uint8Array, lamp: Rgb): Uint8Array | null {
+  const lin = new Float32Array(3 * n), usable = new Uint8Array(n), glare = new Uint8Array(n);
+  for (let k = 0; k < n; k++) {
+    const o = idx[k];
+    (lin[3 * k] = SRGB8_TO_LINEAR[data[o]]), (lin[3 * k + 1] = SRGB8_TO_LINEAR[data[o + 1]]), (lin[3 * k + 2] = SRGB8_TO_LINEAR[data[o + 2]]);
+    usable[k] = clipped[k] ? 0 : 1;
+  }
+  return markAdditiveGlare(lin, usable, lamp, glare) < 0 ? null : glare;
+}
 
 export function sampleQuad(img: RgbImage, corners: [number, number][], opts: SampleOptions = {}): RegionSample | null {
   const { width: W, height: H, data } = img;
@@ -195,11 +213,20 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
   const medY = quantileOf(Y, 0.5), medC = quantileOf(C, 0.5);
   const keep = new Uint8Array(n);
   let nGlare = 0, nKeep = 0;
-  for (let k = 0; k < n; k++) {
-    const glare = Y[k] > medY * 1.5 || (Y[k] > medY * 1.15 && C[k] < medC * 0.8);
-    if (glare) nGlare++;
-    if (!glare && (opts.whiteReference || !clipped[k])) (keep[k] = 1), nKeep++;
-  }
+  const lampGlare = opts.lamp ? additiveGlare(data, idx, n, clipped, opts.lamp) : null;
+  if (lampGlare) {
+    for (let k = 0; k < n; k++) {
+      // A clipped pixel is glare too when it is far brighter than the region (not a pale pad at full light).
+      const g = lampGlare[k] === 1 || (clipped[k] === 1 && Y[k] > medY * 1.5);
+      if (g) nGlare++;
+      if (!g && (opts.whiteReference || !clipped[k])) (keep[k] = 1), nKeep++;
+    }
+  } else
+    for (let k = 0; k < n; k++) {
+      const glare = Y[k] > medY * 1.5 || (Y[k] > medY * 1.15 && C[k] < medC * 0.8);
+      if (glare) nGlare++;
+      if (!glare && (opts.whiteReference || !clipped[k])) (keep[k] = 1), nKeep++;
+    }
   if (nKeep < Math.max(4, n * 0.15)) {
     // Too little left: fall back to everything but the glare.
     nKeep = 0;

@@ -112,9 +112,10 @@ export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, 
   const stripLinear = hexToRgb(chart.strip.color).map(srgbToLinear);
   const pads = chart.pads.map((cp, i): PadMeasurement => {
     const pl = g.pads[i];
-    const sample = sampleQuad(img, pl.inner ?? quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6));
-    if (!sample) throw new ReadingError("no_strip", "Part of the strip lies outside the photo. Take the photo again with the whole strip in view.");
     const white = whiteAt(bare, pl.t, maxBareY);
+    // Glare is the light's own colour, which the bare plastic beside the pad shows.
+    const sample = sampleQuad(img, pl.inner ?? quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6), { lamp: white });
+    if (!sample) throw new ReadingError("no_strip", "Part of the strip lies outside the photo. Take the photo again with the whole strip in view.");
     const m: Mat3 = whiteCorrectionMatrix(white, stripLinear);
     const corrected = correctLinear(m, sample.linear);
     const lab = linearRgbToLab(corrected[0], corrected[1], corrected[2]);
@@ -125,7 +126,7 @@ export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, 
     const minPadToStrip = Math.min(...cp.swatches.map((s) => deltaE2000(s.lab, chart.strip.lab)));
     const plasticLike = toStrip < 2.5 && spread < 2;
     const missing = plasticLike && minPadToStrip >= 4 && toStrip < 0.4 * minPadToStrip;
-    trace?.(`pad ${i + 1} ${cp.analyte}: lab ${[lab.l, lab.a, lab.b].map((v) => v.toFixed(1)).join(" ")} spread ${spread.toFixed(1)}${missing ? " missing" : ""}`);
+    trace?.(`pad ${i + 1} ${cp.analyte}: lab ${[lab.l, lab.a, lab.b].map((v) => v.toFixed(1)).join(" ")} spread ${spread.toFixed(1)} glare ${sample.glareFraction.toFixed(2)}${missing ? " missing" : ""}`);
     return { lab, spread, sample, white, plasticLike, missing, centre: pl.centre, half: Math.max(pl.halfAlong, pl.halfAcross) };
   });
   return { pads, warnings };
