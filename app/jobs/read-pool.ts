@@ -2,7 +2,7 @@
 // a process that dies fails only its own photo (the job is retried) and is replaced. The processes
 // run at a lower priority (nice 10), every thread of them: where the worker shares the machine
 // with the web app, pages are served first and reading takes the rest of the processor.
-import { spawn as spawnProcess, type ChildProcess } from "node:child_process";
+import { spawn as spawnProcess, spawnSync, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
@@ -12,14 +12,23 @@ const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url)
 /** How far reading steps back for the web app (the `nice` increment, 0–19). */
 const READER_NICENESS = 10;
 const NICE = ["/usr/bin/nice", "/bin/nice"].find((p) => existsSync(p));
+/**
+ * Where the system allows it (Linux, `chrt`), reader processes also run under the idle scheduling
+ * policy: they use a processor only when no ordinary process wants it, and a request of the web app
+ * that wakes up takes the processor from them at once, instead of after their time slice.
+ */
+const CHRT = ["/usr/bin/chrt", "/bin/chrt"].find((p) => existsSync(p));
+let idlePolicy: boolean | undefined;
+const idlePolicyWorks = () => (idlePolicy ??= Boolean(CHRT) && spawnSync(CHRT!, ["--idle", "0", "true"]).status === 0);
 
 type Pending = { resolve: (r: PhotoReadResult) => void; reject: (e: Error) => void };
 type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
 
-/** A reader process: Node with the TypeScript loader, started through `nice` where there is one. */
+/** A reader process: Node with the TypeScript loader, started through `nice` (and `chrt --idle`) where there are. */
 function startReader(): ChildProcess {
   const node = [process.execPath, "--import", import.meta.resolve("tsx"), PROCESS_FILE];
-  const [command, ...args] = NICE ? [NICE, "-n", String(READER_NICENESS), ...node] : node;
+  const niced = NICE ? [NICE, "-n", String(READER_NICENESS), ...node] : node;
+  const [command, ...args] = idlePolicyWorks() ? [CHRT!, "--idle", "0", ...niced] : niced;
   return spawnProcess(command, args, { stdio: ["ignore", "inherit", "inherit", "ipc"], serialization: "advanced" });
 }
 
