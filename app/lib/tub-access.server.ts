@@ -26,15 +26,19 @@ const activeAccess = db
   .limit(1)
   .prepare("dipwell-tub-access-active");
 
-async function tubRelation(user: SessionUser, t: Tub): Promise<TubRelation | null> {
-  if (t.ownerId === user.id) return "owner";
+/**
+ * How a user relates to a tub, from its owner and whether they hold an active grant to it
+ * (`shared`, asked only when needed: a function that looks it up). The one rule for every route.
+ */
+export async function relationOf(user: SessionUser, ownerId: string, shared: () => Promise<boolean>): Promise<TubRelation | null> {
+  if (ownerId === user.id) return "owner";
   if (can(user, { tub: ["all"] })) return "admin";
-  if (can(user, { tub: ["shared"] })) {
-    const [access] = await activeAccess.execute({ tubId: t.id, technicianId: user.id });
-    if (access) return "technician";
-  }
+  if (can(user, { tub: ["shared"] }) && (await shared())) return "technician";
   return null;
 }
+
+const tubRelation = (user: SessionUser, t: Tub) =>
+  relationOf(user, t.ownerId, async () => (await activeAccess.execute({ tubId: t.id, technicianId: user.id })).length > 0);
 
 export async function requireTub(user: SessionUser, tubId: string | undefined, need: TubNeed = "view") {
   const notFound = () => data({ message: "We could not find that tub." }, { status: 404 });

@@ -18,7 +18,7 @@ import { analyteSwatches } from "~/features/charts/analyte-swatches";
 import { pageOf } from "~/lib/paging";
 import { MAX_TREND_DAYS, TREND_PERIODS } from "./periods";
 import { AHEAD_SHOWN_UP_TO } from "./status-poll";
-import type { Tub } from "~/lib/tub-access.server";
+import { relationOf, requireTub, type Tub } from "~/lib/tub-access.server";
 import { daysAgo, rangeStatus, type RangeStatus } from "~/lib/range-status";
 import { currentChartFor, tubTargets } from "../tubs/tubs.server";
 import { analyteName } from "~/chemistry";
@@ -387,43 +387,59 @@ export async function cropKeyFor(t: Tub, readingId: string, analyte: string) {
   return row?.key ?? null;
 }
 
-type StatusRow = { id: string; status: string; job_state: string | null; ahead: number | null };
+type StatusRow = { owner_id: string; shared: boolean; id: string | null; status: string | null; job_state: string | null; ahead: number | null };
 
 /**
- * A reading's status with, while it is pending, its live read job (queued, retrying or being
- * read; found through pg-boss's index of a stately queue's live jobs) and, only while it is
- * queued, how many jobs were queued before it (counted through the queue's fetch index, up to
- * AHEAD_SHOWN_UP_TO). One named statement, planned once per connection: the screen asks often.
+ * Everything the review screen's poll needs, in one named statement (planned once per connection:
+ * the screen asks often): the tub's owner and whether the user holds an active grant to it (for
+ * the tub guard's rule, relationOf), the reading's status with, while it is pending, its live read
+ * job (queued, retrying or being read; found through pg-boss's index of a stately queue's live
+ * jobs) and, only while it is queued, how many jobs were queued before it (through the queue's
+ * fetch index, whose condition `state < 'active'` is repeated so the planner can use it, up to
+ * AHEAD_SHOWN_UP_TO).
  */
 const STATUS_SQL = `
-  select r.id, r.status, j.state as job_state,
+  select t.owner_id,
+         exists (select 1 from tub_access a where a.tub_id = t.id and a.technician_id = $4 and a.revoked_at is null) as shared,
+         r.id, r.status, j.state as job_state,
          case when j.state = 'created' then (
            select count(*)::int from (
              select 1 from pgboss.job q
               where q.name = $3 and q.state < 'active' and q.state = 'created' and q.created_on < j.created_on
               limit ${AHEAD_SHOWN_UP_TO}) ahead)
          end as ahead
-    from reading r
+    from tub t
+    left join reading r on r.id = $1 and r.tub_id = t.id
     left join lateral (
       select state, created_on from pgboss.job
        where r.status = 'pending' and name = $3 and state <= 'active' and policy = 'stately' and coalesce(singleton_key, '') = r.id::text
        order by created_on desc limit 1) j on true
-   where r.id = $1 and r.tub_id = $2`;
+   where t.id = $2`;
 
-/** Where a reading stands, for the review screen while it waits: pending, then read or failed. */
-export async function readingStatus(t: Tub, readingId: string) {
-  if (!isUuid(readingId)) return null;
+export type ReadingStatus = { id: string; status: string; stage: "queued" | "reading" | "retrying" | "done"; ahead: number };
+
+/**
+ * Where a reading stands, for the review screen while it waits (pending, then read or failed),
+ * with the tub guard's check for viewing the tub made in the same statement: "no tub" when the
+ * tub does not exist or the user may not see it (a 404, as the guard answers), null when the tub
+ * has no such reading.
+ */
+export async function readingStatusFor(user: SessionUser, tubId: string | undefined, readingId: string): Promise<ReadingStatus | "no tub" | null> {
+  if (!isUuid(tubId)) return "no tub";
   let row: StatusRow | undefined;
   try {
-    row = (await db.$client.query<StatusRow>({ name: "dipwell-reading-status", text: STATUS_SQL, values: [readingId, t.id, READ_QUEUE] })).rows[0];
+    const values = [isUuid(readingId) ? readingId : null, tubId, READ_QUEUE, user.id];
+    row = (await db.$client.query<StatusRow>({ name: "dipwell-reading-status", text: STATUS_SQL, values })).rows[0];
   } catch {
-    // No job queue in this database (pg-boss not set up yet): the reading's own status is enough.
-    const r = await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } });
-    row = r && { ...r, job_state: null, ahead: null };
+    // No job queue in this database (pg-boss not set up yet): the tub guard and the reading's own status.
+    const { tub: t } = await requireTub(user, tubId, "view").catch(() => ({ tub: null }));
+    if (!t) return "no tub";
+    const r = isUuid(readingId) ? await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } }) : null;
+    row = { owner_id: t.ownerId, shared: true, id: r?.id ?? null, status: r?.status ?? null, job_state: null, ahead: null };
   }
-  if (!row) return null;
-  const stage: "queued" | "reading" | "retrying" | "done" =
-    row.status !== "pending" ? "done" : row.job_state === "active" ? "reading" : row.job_state === "retry" ? "retrying" : "queued";
+  if (!row || !(await relationOf(user, row.owner_id, async () => row.shared))) return "no tub";
+  if (!row.id || !row.status) return null;
+  const stage = row.status !== "pending" ? "done" : row.job_state === "active" ? "reading" : row.job_state === "retry" ? "retrying" : "queued";
   return { id: row.id, status: row.status, stage, ahead: row.ahead ?? 0 };
 }
 
