@@ -29,7 +29,10 @@ function startReader(): ChildProcess {
   const node = [process.execPath, "--import", import.meta.resolve("tsx"), PROCESS_FILE];
   const niced = NICE ? [NICE, "-n", String(READER_NICENESS), ...node] : node;
   const [command, ...args] = idlePolicyWorks() ? [CHRT!, "--idle", "0", ...niced] : niced;
-  return spawnProcess(command, args, { stdio: ["ignore", "inherit", "inherit", "ipc"], serialization: "advanced" });
+  // A session of its own (detached): where the kernel groups processes by session for scheduling
+  // (autogroup), a reader's priority then counts against the web app's processes, not only within
+  // the worker's session (read-process.ts gives its group the reader's own nice value).
+  return spawnProcess(command, args, { stdio: ["ignore", "inherit", "inherit", "ipc"], serialization: "advanced", detached: true });
 }
 
 export function readerPoolSize() {

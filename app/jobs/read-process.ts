@@ -4,7 +4,16 @@
 // The pool starts it at a lower priority (nice 10) as a whole process, so every thread of it
 // (the reader's own, the image library's decoding threads, the fetch from storage) steps back for
 // the web app's requests where the two share cores, and reads take the rest of the processor.
+import { writeFileSync } from "node:fs";
+import { getPriority } from "node:os";
 import { failureOf, runPhotoRead, type PhotoRead } from "./reader-job";
+
+// Started in a session of its own: where the kernel schedules sessions as groups (Linux autogroup),
+// plain nice only orders the processes within a group, so the group is given the reader's nice
+// value too. Elsewhere there is no such file, and the process's own priority is all there is.
+try {
+  writeFileSync("/proc/self/autogroup", String(getPriority()));
+} catch {}
 
 process.on("message", async ({ id, ...job }: PhotoRead & { id: number }) => {
   try {
