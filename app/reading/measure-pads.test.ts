@@ -2,8 +2,8 @@ import { describe, expect, it } from "vitest";
 import { parseChart } from "./chart";
 import { deltaE2000, hexToRgb, linearToSrgb, srgbToLinear } from "./colour";
 import type { StripGeometry } from "./geometry";
-import type { RgbImage } from "./image";
-import { consistentBare, measurePads } from "./measure-pads";
+import { sampleQuad, type RgbImage } from "./image";
+import { consistentBare, measurePads, quadAt } from "./measure-pads";
 
 // A small synthetic strip (invented colours): horizontal, 20 px wide, one pad at x 90–110, the
 // whole scene under a warm light given as per-channel gains in linear light. Under such a
@@ -50,6 +50,34 @@ describe("measuring pads with the white reference from the bare plastic", () => 
     const m = measurePads(scene("#f4f3ef"), chart, geometry);
     expect(m.pads[0].plasticLike).toBe(true);
     expect(m.pads[0].missing).toBe(true);
+  });
+});
+
+describe("a pad mostly under glare", () => {
+  // The same scene with a glare spot of the light's own colour (a Gaussian of 3 px, invented) at
+  // the pad's middle: it covers the pad's inner 60 % nearly whole, and leaves its edges alone.
+  function glared(padHex: string, sigma = 3): RgbImage {
+    const img = scene(padHex);
+    for (let y = 20; y < 40; y++)
+      for (let x = 90; x < 110; x++) {
+        const g = 0.8 * Math.exp(-((x + 0.5 - 100) ** 2 + (y + 0.5 - 30) ** 2) / (2 * sigma * sigma));
+        for (let k = 0; k < 3; k++) {
+          const o = (y * img.width + x) * 3 + k;
+          img.data[o] = Math.round(255 * linearToSrgb(Math.min(1, srgbToLinear(img.data[o] / 255) + g * gains[k])));
+        }
+      }
+    return img;
+  }
+  it("is sampled again over more of its area and reads its own colour within 1.5 ΔE00", () => {
+    const img = glared("#d87a3c");
+    // The inner 60 % alone holds next to nothing of the pad's own colour: it reads far paler.
+    const white = sampleQuad(img, quadAt(geometry, 50, 20, 6), { whiteReference: true })!.linear;
+    const inner = sampleQuad(img, quadAt(geometry, 100, 6, 6), { lamp: white })!;
+    expect(inner.glareFraction).toBeGreaterThan(0);
+    const m = measurePads(img, chart, geometry);
+    expect(m.pads[0].sample.pixels).toBeGreaterThan(inner.pixels);
+    expect(deltaE2000(m.pads[0].lab, chart.pads[0].swatches[0].lab)).toBeLessThan(1.5);
+    expect(m.pads[0].spread).toBeLessThan(1);
   });
 });
 

@@ -97,6 +97,15 @@ function whiteAt(bare: BareSample[], t: number, maxBareY: number): Rgb {
   return [0, 1, 2].map((c) => use[0].s.linear[c] * w0 + use[1].s.linear[c] * w1) as Rgb;
 }
 
+/** Share of the pad (along and across) sampled again when glare shows on its inner 60 %. */
+const WIDER_SHARE = 0.85;
+
+/** A quadrilateral scaled about its centre. */
+export function scaleQuad(q: [number, number][], k: number): [number, number][] {
+  const cx = (q[0][0] + q[1][0] + q[2][0] + q[3][0]) / 4, cy = (q[0][1] + q[1][1] + q[2][1] + q[3][1]) / 4;
+  return q.map(([x, y]) => [cx + (x - cx) * k, cy + (y - cy) * k]);
+}
+
 export type StripMeasurement = { pads: PadMeasurement[]; warnings: string[] };
 
 /** Samples and white-corrects every chart pad at its placement. */
@@ -114,7 +123,15 @@ export function measurePads(img: RgbImage, chart: StripChart, g: StripGeometry, 
     const pl = g.pads[i];
     const white = whiteAt(bare, pl.t, maxBareY);
     // Glare is the light's own colour, which the bare plastic beside the pad shows.
-    const sample = sampleQuad(img, pl.inner ?? quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6), { lamp: white });
+    const inner = pl.inner ?? quadAt(g, pl.t, pl.halfAlong * 0.6, pl.halfAcross * 0.6);
+    let sample = sampleQuad(img, inner, { lamp: white });
+    // Glare on the pad: it is sampled again over more of its area (a spot near its middle may
+    // cover the inner part nearly whole and leave the pad's own colour towards its edges); the
+    // more even of the two samples stands.
+    if (sample && sample.glareFraction > 0) {
+      const wider = sampleQuad(img, scaleQuad(inner, WIDER_SHARE / 0.6), { lamp: white });
+      if (wider && wider.spreadDeltaE < sample.spreadDeltaE) sample = wider;
+    }
     if (!sample) throw new ReadingError("no_strip", "Part of the strip lies outside the photo. Take the photo again with the whole strip in view.");
     const m: Mat3 = whiteCorrectionMatrix(white, stripLinear);
     const corrected = correctLinear(m, sample.linear);
