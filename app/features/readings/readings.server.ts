@@ -430,9 +430,17 @@ export async function readingStatusFor(user: SessionUser, tubId: string | undefi
   try {
     const values = [isUuid(readingId) ? readingId : null, tubId, READ_QUEUE, user.id];
     row = (await db.$client.query<StatusRow>({ name: "dipwell-reading-status", text: STATUS_SQL, values })).rows[0];
-  } catch {
-    // No job queue in this database (pg-boss not set up yet): the tub guard and the reading's own status.
-    const { tub: t } = await requireTub(user, tubId, "view").catch(() => ({ tub: null }));
+  } catch (error) {
+    // No job queue in this database (pg-boss not set up yet: its schema or table is missing): the
+    // tub guard and the reading's own status. Any other failure (the database away) is thrown.
+    if (!["3F000", "42P01"].includes((error as { code?: string }).code ?? "")) throw error;
+    const t = await requireTub(user, tubId, "view").then(
+      (found) => found.tub,
+      (thrown: { type?: string }) => {
+        if (thrown?.type === "DataWithResponseInit") return null;
+        throw thrown;
+      },
+    );
     if (!t) return "no tub";
     const r = isUuid(readingId) ? await db.query.reading.findFirst({ where: and(eq(reading.id, readingId), eq(reading.tubId, t.id)), columns: { id: true, status: true } }) : null;
     row = { owner_id: t.ownerId, shared: true, id: r?.id ?? null, status: r?.status ?? null, job_state: null, ahead: null };
