@@ -5,7 +5,7 @@ import { describe, expect, it } from "vitest";
 import { drawScene, sceneChart, threePadStrip } from "../../tests/reading/strip-scene";
 import { parseChart } from "./chart";
 import { chartLayout } from "./layout-fit";
-import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, SAME_EDGES_PX, fitStrip, prepareAxis, sameEdges, samePlacement } from "./strip-fit";
+import { MAX_SCALE_OVER_WIDTH, MIN_SCALE_UNDER_WIDTH, SAME_EDGES_PX, edgesWin, fitStrip, prepareAxis, sameEdges, samePlacement } from "./strip-fit";
 
 const strip = threePadStrip({ cx: 240, cy: 180, angleDeg: 0, pxPerMm: 4 });
 const chart = parseChart(sceneChart(strip));
@@ -59,5 +59,23 @@ describe("sameEdges", () => {
     expect(sameEdges(g, axis(100, 0.005))).toBe(false);
     expect(sameEdges(g, axis(100, 0.001))).toBe(true);
     expect(sameEdges(g, axis(100, 0, 20 + SAME_EDGES_PX * 2))).toBe(false);
+  });
+});
+
+describe("edgesWin", () => {
+  // Placements as the fit gives them (scores and mean ΔE00 to the chart invented).
+  const fromColour = { convincing: true, fitScore: 124, colourCost: 1.2 };
+  it("keeps the colour's placement against one from the edges that scores a little higher with colours far from the chart", () => {
+    // A strip running out of the photo at its tip: the edges' ends place it the other way round.
+    expect(edgesWin(fromColour, { convincing: true, fitScore: 126, colourCost: 28 })).toBe(false);
+  });
+  it("takes the edges' placement when it scores as well and its colours lie as near the chart", () => {
+    expect(edgesWin(fromColour, { convincing: true, fitScore: 126, colourCost: 2.5 })).toBe(true);
+    expect(edgesWin(fromColour, { convincing: true, fitScore: 120, colourCost: 0.5 })).toBe(false);
+  });
+  it("takes a convincing placement over none, and never an unconvincing one", () => {
+    expect(edgesWin(null, { convincing: true, fitScore: 10, colourCost: 30 })).toBe(true);
+    expect(edgesWin({ ...fromColour, convincing: false }, { convincing: true, fitScore: 10, colourCost: 30 })).toBe(true);
+    expect(edgesWin(null, { convincing: false, fitScore: 200, colourCost: 0 })).toBe(false);
   });
 });

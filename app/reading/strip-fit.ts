@@ -192,14 +192,26 @@ export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, p
   const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;
   const e = fitStrip(prepared, chart, layout, padEndMm, true, trace);
-  // The edges' ends win only with pads fitting at least as well: a confirmed length alone does not.
-  if (e && e.convincing && (!g || !g.convincing || e.fitScore >= g.fitScore)) {
+  if (e && edgesWin(g, e)) {
     // Pads searched for anywhere along the axis that land where the one end seen put them confirm
     // that end: the placement from it stands, with no doubt about the ends.
     if (g && g.convincing && g.endSeen && samePlacement(g, e, Math.min(...chart.pads.map((p) => p.sizeMm)))) return g;
     return e;
   }
   return g;
+}
+
+/**
+ * Whether the placement from the strip's edges (`e`) replaces the one from its colour (`g`): a
+ * convincing one wins over none; else only with pads fitting at least as well and colours not
+ * clearly further from the chart (WHOLE_STRIP_COST_SLACK). A confirmed length alone does not win,
+ * nor does a pattern scoring a little higher the other way round (a strip running out of the photo
+ * at its tip fits both ways nearly alike, and its colours tell which is right).
+ */
+export function edgesWin(g: Pick<StripGeometry, "convincing" | "fitScore" | "colourCost"> | null, e: Pick<StripGeometry, "convincing" | "fitScore" | "colourCost">): boolean {
+  if (!e.convincing) return false;
+  if (!g || !g.convincing) return true;
+  return e.fitScore >= g.fitScore && e.colourCost <= g.colourCost + WHOLE_STRIP_COST_SLACK;
 }
 
 /** Two placements along one axis put the tip within a third of the smallest pad and the scale within 6 %, the same way round. */
