@@ -46,6 +46,48 @@ describe("components", () => {
   });
 });
 
+/** Components by a plain flood fill (4-connected), each as [pixel count, Σx, Σy, Σx², Σy², Σxy]. */
+function floodFill(values: Float32Array, t: number, w: number, h: number): number[][] {
+  const seen = new Uint8Array(w * h), out: number[][] = [];
+  for (let i = 0; i < w * h; i++) {
+    if (seen[i] || !(values[i] > t)) continue;
+    const m = [0, 0, 0, 0, 0, 0], stack = [i];
+    seen[i] = 1;
+    while (stack.length) {
+      const j = stack.pop()!, x = j % w, y = (j - x) / w;
+      m[0]++, (m[1] += x), (m[2] += y), (m[3] += x * x), (m[4] += y * y), (m[5] += x * y);
+      for (const [nx, ny] of [[x - 1, y], [x + 1, y], [x, y - 1], [x, y + 1]])
+        if (nx >= 0 && ny >= 0 && nx < w && ny < h && !seen[ny * w + nx] && values[ny * w + nx] > t) (seen[ny * w + nx] = 1), stack.push(ny * w + nx);
+    }
+    out.push(m);
+  }
+  return out;
+}
+
+describe("components against a flood fill", () => {
+  it("finds the same components with the same moments on random masks (spirals, combs and specks included)", () => {
+    let seed = 12345;
+    const rand = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    for (let trial = 0; trial < 20; trial++) {
+      const w = 20 + Math.floor(rand() * 60), h = 10 + Math.floor(rand() * 50);
+      // Smooth-ish random values so that components of many shapes appear at each threshold.
+      const v = new Float32Array(w * h).map(() => rand());
+      for (let pass = 0; pass < trial % 3; pass++) for (let i = 1; i < w * h; i++) v[i] = (v[i] + v[i - 1] + (i >= w ? v[i - w] : 0)) / (i >= w ? 3 : 2);
+      const t = 0.35 + rand() * 0.3;
+      const ref = floodFill(v, t, w, h);
+      const got = components(v, t, w, h, 1);
+      expect(got.length).toBe(ref.length);
+      // Raster order of each component's first pixel, as the flood fill finds them.
+      got.forEach((c, k) => {
+        const [n, sx, sy] = ref[k];
+        expect(c.n).toBe(n);
+        expect(c.cx).toBeCloseTo(sx / n, 9);
+        expect(c.cy).toBeCloseTo(sy / n, 9);
+      });
+    }
+  });
+});
+
 describe("scoreCandidate", () => {
   it("scores a strip-shaped rectangle and refuses a square or a thin ragged blob", () => {
     const strip = { cx: 0, cy: 0, angle: 0, length: 160, width: 10, score: 0, n: 1600 };

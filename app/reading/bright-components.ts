@@ -5,19 +5,27 @@ import type { StripChart } from "./chart";
 import type { StripCandidate } from "./geometry";
 import { boxMean, type SearchCopy } from "./search-copy";
 
-let labelBuffer = new Int32Array(0);
 /** Union-find parents and moments per provisional label, kept between calls (grown as needed). */
 let parentBuffer = new Int32Array(1024);
 let momentBuffer = new Float64Array(1024 * 6);
+/** Runs of the previous and the current row (start, end inclusive, label), kept between calls. */
+let runBuffer = new Int32Array(0);
+
+/** Σ k² for k = 0 … n (0 for n < 0). */
+const sumSquares = (n: number) => (n < 0 ? 0 : (n * (n + 1) * (2 * n + 1)) / 6);
 
 /**
  * Connected components (4-connected) of the pixels of `values` above `threshold`, with their
- * image moments, in one pass: moments are gathered per provisional label and merged by root.
- * Each component comes back as its moment rectangle (centre, angle, length, width, pixel count).
+ * image moments, in one pass over runs: each row's runs of pixels above the threshold join the
+ * runs above them that they overlap, and a run adds its moments in closed form (its pixels are
+ * consecutive x at one y). Each component comes back as its moment rectangle (centre, angle,
+ * length, width, pixel count), in the raster order of its first pixel.
  */
 export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number, rowMax?: Float32Array): StripCandidate[] {
-  if (labelBuffer.length < w * h) labelBuffer = new Int32Array(w * h);
-  const labels = labelBuffer;
+  // At most ⌈w/2⌉ runs per row; two rows of (start, end, label).
+  if (runBuffer.length < 6 * (w + 1)) runBuffer = new Int32Array(6 * (w + 1));
+  let prev = runBuffer.subarray(0, 3 * (w + 1)), cur = runBuffer.subarray(3 * (w + 1), 6 * (w + 1));
+  let nPrev = 0;
   let cap = parentBuffer.length;
   let parent = parentBuffer;
   // Per label: count, Σx, Σy, Σx², Σy², Σxy (zeroed as each label is opened).
@@ -28,30 +36,31 @@ export function components(values: Float32Array, threshold: number, w: number, h
   };
   let next = 1;
   for (let y = 0; y < h; y++) {
-    const row = y * w;
-    // A row with nothing above the threshold (its maximum given) holds no component.
+    // A row with nothing above the threshold (its maximum given) holds no run.
     if (rowMax && !(rowMax[y] > threshold)) {
-      labels.fill(0, row, row + w);
+      nPrev = 0;
       continue;
     }
+    const row = y * w;
+    let nCur = 0, j = 0; // j: the first run above that may still overlap
     for (let x = 0; x < w; x++) {
-      const i = row + x;
-      if (!(values[i] > threshold)) {
-        labels[i] = 0;
-        continue;
-      }
-      const left = x > 0 ? labels[i - 1] : 0;
-      const up = y > 0 ? labels[i - w] : 0;
-      let lab: number;
-      if (left && up) {
-        if (left === up) lab = left;
-        else {
-          const a = find(left), b = find(up);
-          lab = a < b ? a : b;
-          if (a !== b) parent[a < b ? b : a] = lab;
+      if (!(values[row + x] > threshold)) continue;
+      const x0 = x;
+      while (x + 1 < w && values[row + x + 1] > threshold) x++;
+      const x1 = x;
+      // Runs above overlapping [x0, x1]: those ending at x0 or later and starting at x1 or before.
+      while (j < nPrev && prev[3 * j + 1] < x0) j++;
+      let lab = 0;
+      for (let k = j; k < nPrev && prev[3 * k] <= x1; k++) {
+        const other = find(prev[3 * k + 2]);
+        if (!lab) lab = other;
+        else if (other !== lab) {
+          const root = other < lab ? other : lab;
+          parent[other < lab ? lab : other] = root;
+          lab = root;
         }
-      } else if (left || up) lab = left || up;
-      else {
+      }
+      if (!lab) {
         if (next >= cap) {
           cap *= 2;
           const np = new Int32Array(cap);
@@ -66,15 +75,21 @@ export function components(values: Float32Array, threshold: number, w: number, h
         moments.fill(0, next * 6, next * 6 + 6);
         lab = next++;
       }
-      labels[i] = lab;
+      cur[3 * nCur] = x0;
+      cur[3 * nCur + 1] = x1;
+      cur[3 * nCur + 2] = lab;
+      nCur++;
+      const n = x1 - x0 + 1, sx = (n * (x0 + x1)) / 2;
       const o = lab * 6;
-      moments[o]++;
-      moments[o + 1] += x;
-      moments[o + 2] += y;
-      moments[o + 3] += x * x;
-      moments[o + 4] += y * y;
-      moments[o + 5] += x * y;
+      moments[o] += n;
+      moments[o + 1] += sx;
+      moments[o + 2] += n * y;
+      moments[o + 3] += sumSquares(x1) - sumSquares(x0 - 1);
+      moments[o + 4] += n * y * y;
+      moments[o + 5] += sx * y;
     }
+    [prev, cur] = [cur, prev];
+    nPrev = nCur;
   }
   for (let r = next - 1; r >= 1; r--) {
     const root = find(r);
