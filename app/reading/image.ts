@@ -57,6 +57,8 @@ export type StartedDecode = {
   original: { width: number; height: number };
   /** The working copy's expected size (sharp's fit inside the long side, never enlarged). */
   working: { width: number; height: number };
+  /** The photo's format as sharp names it ("jpeg", "png", "webp", ...). */
+  format?: string;
   decoded: Promise<DecodedPhoto>;
 };
 
@@ -105,7 +107,7 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
     },
   );
   decoded.catch(() => {}); // the caller awaits it when it needs the pixels
-  return { original, working, decoded };
+  return { original, working, format: meta.format, decoded };
 }
 
 export type RegionSample = {

@@ -8,9 +8,8 @@
 //    is matched jointly along their joint path (joint-match.ts) -> one value and one confidence.
 import type { StripChart } from "./chart";
 import { ChartError, parseChart } from "./chart";
-import { brightCandidates } from "./bright-components";
-import { WIDE_DIV, locateStrip } from "./locate";
-import { decodeSearchCopy, searchDecodePays } from "./search-decode";
+import { locateStrip } from "./locate";
+import { earlySearch } from "./search-decode";
 import { ReadingError, cropPad, cropStrip, startDecode } from "./image";
 import { analyteGroups } from "./joint-match";
 import { judgeAnalyte, type PadReading } from "./judge";
@@ -90,12 +89,10 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   } catch (e) {
     throw new ReadingError("bad_chart", e instanceof ChartError ? e.message : "The colour chart could not be used.");
   }
-  // The search copy of a large photo is decoded small beside the working copy; its wide-scale
-  // candidates are found while the working copy is still being decoded. A photo near the working
-  // size is decoded once: its search copy is reduced from the working copy (locate.ts).
+  // The search for candidate strips starts on a small copy while the working copy is still being
+  // decoded (search-decode.ts earlySearch).
   const started = await startDecode(photo);
-  const search = searchDecodePays(started.original, started.working) ? await decodeSearchCopy(photo, started.working) : null;
-  const early = search ? { search, wide: brightCandidates(search, chart, WIDE_DIV) } : undefined;
+  const early = await earlySearch(photo, started, chart);
   const { image: img, original } = await started.decoded;
   const k = original.width / img.width; // working px -> original px
   const g = locateStrip(img, chart, options.trace, early);

@@ -43,6 +43,21 @@ const CANDIDATES_PER_SCALE = 5;
 /** The wide scale's candidates tried before the edge pairs (the rest after them). */
 const WIDE_BEFORE_EDGES = 2;
 
+/**
+ * How far a candidate's outline is from the chart's strip: |ln| of the ratio between the scales
+ * its length and its width give (0 for a band of the strip's proportions). A strip running out of
+ * the photo or merged with something pale beside it is off too, so this only orders the search.
+ */
+export function shapeOff(c: Pick<StripCandidate, "length" | "width">, chart: StripChart): number {
+  return Math.abs(Math.log(c.length / chart.strip.lengthMm / (c.width / chart.strip.widthMm)));
+}
+/** Beyond this shapeOff (scales more than 1.6 times apart) a candidate does not have the strip's proportions. */
+const SHAPE_OFF = Math.log(1.6);
+/** Whether none of the wide scale's best few candidates has the strip's proportions (the edge pairs are then wanted first). */
+export function wideLooksOff(wide: StripCandidate[], chart: StripChart): boolean {
+  return wide.slice(0, WIDE_BEFORE_EDGES).every((c) => shapeOff(c, chart) > SHAPE_OFF);
+}
+
 /** A placement whose pads stand out from the bare plastic beats one whose gaps look as coloured as its pads, whatever their scores. */
 function better(g: StripGeometry, best: StripGeometry | null): boolean {
   if (!best) return true;
@@ -66,8 +81,8 @@ const SETTLED_COLOUR_COST = 5;
 /** Mean ΔE00 beyond which a placement's colours are no longer trusted in full (layout-fit.ts colourTrust). */
 const FAR_COLOUR_COST = 8;
 
-/** Search work done before the working image was decoded (readStrip): the search copy and its wide-scale candidates. */
-export type EarlySearch = { search: SearchCopy; wide?: StripCandidate[] };
+/** Search work done before the working image was decoded (search-decode.ts earlySearch): the search copy, its wide-scale candidates and maybe its edge-pair candidates. */
+export type EarlySearch = { search: SearchCopy; wide?: StripCandidate[]; edges?: StripCandidate[] };
 
 export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, early?: EarlySearch): StripGeometry {
   const { min: minPxPerMm, max: maxPxPerMm } = scaleBounds(img.width, img.height, chart);
@@ -91,9 +106,13 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   const tried: StripCandidate[] = [];
   // Each background scale's candidates, best first, and how far through them the search has come.
   const scales = new Map<number, { list: StripCandidate[]; next: number; n: number }>();
-  const tryBright = (div: number, upTo = CANDIDATES_PER_SCALE) => {
+  const scale = (div: number) => {
     let at = scales.get(div);
     if (!at) scales.set(div, (at = { list: div === WIDE_DIV && early?.wide ? early.wide : brightCandidates(search, chart, div), next: 0, n: 0 }));
+    return at;
+  };
+  const tryBright = (div: number, upTo = CANDIDATES_PER_SCALE) => {
+    const at = scale(div);
     for (; at.next < at.list.length && at.n < upTo; at.next++) {
       const c = at.list[at.next];
       if (tried.some((o) => Math.hypot(o.cx - c.cx, o.cy - c.cy) < o.width * 2 && Math.abs(Math.sin(o.angle - c.angle)) < 0.1)) continue;
@@ -109,10 +128,12 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   // pairs of long parallel edges. Also when the best placement's colours lie far from every
   // swatch: a pad-like pattern along some other bright edge (a sheet of paper's border).
   let edgesTried = false;
+  let edges = early?.edges;
+  const edgeList = () => (edges ??= edgePairCandidates(search, chart));
   const needEdges = () => !edgesTried && (!best || !best.lengthOk || !best.convincing || best.colourCost > FAR_COLOUR_COST);
   const tryEdges = () => {
     edgesTried = true;
-    for (const c of edgePairCandidates(search, chart)) {
+    for (const c of edgeList()) {
       traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
@@ -135,7 +156,16 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   // profiled), then the rest of the wide scale, then the narrow scale (and the edge pairs after
   // it if they were not needed before), then the pad rows: each only while nothing has settled
   // the search.
+  // When none of the wide scale's best few has the strip's proportions and the edge pairs' best
+  // has, the edge pairs come first: those blobs are mostly a pale surface or a strip merged with
+  // one, each fitted in vain.
+  const edgesFirst = () => {
+    if (!wideLooksOff(scale(WIDE_DIV).list, chart)) return false;
+    const first = edgeList()[0];
+    return !!first && shapeOff(first, chart) <= SHAPE_OFF;
+  };
   if (
+    (edgesFirst() && tryEdges()) ||
     tryBright(WIDE_DIV, WIDE_BEFORE_EDGES) ||
     (needEdges() && tryEdges()) ||
     tryBright(WIDE_DIV) ||

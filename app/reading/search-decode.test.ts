@@ -2,7 +2,8 @@
 import sharp from "sharp";
 import { describe, expect, it } from "vitest";
 import { startDecode } from "./image";
-import { decodeSearchCopy, searchDecodePays } from "./search-decode";
+import { parseChart } from "./chart";
+import { decodeSearchCopy, earlySearch, searchDecodePays } from "./search-decode";
 import { makeSearchCopy } from "./search-copy";
 
 const grey = (width: number, height: number, v = 128) =>
@@ -39,10 +40,33 @@ describe("decodeSearchCopy", () => {
 });
 
 describe("searchDecodePays", () => {
-  it("decodes the search copy apart only from a photo at least twice the working size", () => {
-    expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 })).toBe(true);
+  it("decodes the search copy apart from a photo whose decoder shrinks on load, or one at least twice the working size", () => {
+    expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 }, "png")).toBe(true);
     expect(searchDecodePays({ width: 3200, height: 2400 }, { width: 1600, height: 1200 })).toBe(true);
-    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 })).toBe(false);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 })).toBe(false);
+    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "jpeg")).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "webp")).toBe(true);
+    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "png")).toBe(false);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "tiff")).toBe(false);
+  });
+  it("never for a photo already about the size of a search copy", () => {
+    expect(searchDecodePays({ width: 560, height: 420 }, { width: 560, height: 420 }, "jpeg")).toBe(false);
+  });
+});
+
+describe("earlySearch", () => {
+  const chart = parseChart({
+    format: "strip-chart/1",
+    strip: { widthMm: 5, lengthMm: 80, color: "#f4f3ef" },
+    pads: [{ analyte: "ph", label: "pH", unit: "pH", centerMm: 5, sizeMm: 5, swatches: [{ value: 7, color: "#e08040" }, { value: 8, color: "#c04060" }] }],
+  });
+  it("searches a JPEG's small copy before its working copy is decoded", async () => {
+    const photo = await grey(1600, 1200);
+    const early = await earlySearch(photo, await startDecode(photo), chart);
+    expect(early?.search.factor).toBe(4);
+    expect(Array.isArray(early?.wide)).toBe(true);
+  });
+  it("leaves a PNG near the working size to the working copy (no second full decode)", async () => {
+    const photo = await sharp({ create: { width: 1600, height: 1200, channels: 3, background: "#808080" } }).png().toBuffer();
+    expect(await earlySearch(photo, await startDecode(photo), chart)).toBeUndefined();
   });
 });

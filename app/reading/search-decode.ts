@@ -2,17 +2,48 @@
 // own threads while the working copy is still being decoded, so that the search for candidate
 // strips runs in the meantime instead of after the decode.
 import sharp from "sharp";
-import { sharpInputOptions } from "./image";
+import type { StripChart } from "./chart";
+import { brightCandidates } from "./bright-components";
+import { edgePairCandidates } from "./edge-pairs";
+import { sharpInputOptions, type StartedDecode } from "./image";
+import { WIDE_DIV, wideLooksOff, type EarlySearch } from "./locate";
 import { searchCopyFromReduced, searchFactor, type SearchCopy } from "./search-copy";
 
+/** Formats whose decoder shrinks on load (libjpeg's and libwebp's scaled decoding). */
+const SHRINK_ON_LOAD = new Set(["jpeg", "webp"]);
+
 /**
- * Whether decoding the search copy apart from the working copy saves time: only when the photo is
- * at least twice the working size, so that both decodes shrink on load and the small one costs a
- * fraction of the working one. A photo near the working size would be decoded twice in full; its
- * search copy is reduced from the working copy instead (search-copy.ts makeSearchCopy).
+ * Whether decoding the search copy apart from the working copy saves time: when the decoder
+ * shrinks on load, or the photo is at least twice the working size (both decodes then shrink), so
+ * that the small decode costs a fraction of the working one. Any other photo would be decoded
+ * twice in full; its search copy is reduced from the working copy instead (search-copy.ts
+ * makeSearchCopy).
  */
-export function searchDecodePays(original: { width: number; height: number }, working: { width: number; height: number }): boolean {
+export function searchDecodePays(original: { width: number; height: number }, working: { width: number; height: number }, format?: string): boolean {
+  if (searchFactor(working.width, working.height) <= 1) return false;
+  if (format && SHRINK_ON_LOAD.has(format)) return true;
   return Math.max(original.width, original.height) >= 2 * Math.max(working.width, working.height);
+}
+
+/**
+ * The search work done while the working copy is still being decoded: the search copy decoded
+ * small, its wide-scale candidates, and the edge-pair candidates too when none of the wide
+ * scale's best few has the strip's proportions (locate.ts wideLooksOff: the edge pairs are then
+ * tried first) and the working decode is still running, so that they cost no wall time.
+ * Undefined when the search copy is better reduced from the working copy.
+ */
+export async function earlySearch(photo: Buffer, started: StartedDecode, chart: StripChart): Promise<EarlySearch | undefined> {
+  if (!searchDecodePays(started.original, started.working, started.format)) return undefined;
+  let decoded = false;
+  started.decoded.then(
+    () => (decoded = true),
+    () => (decoded = true),
+  );
+  const search = await decodeSearchCopy(photo, started.working);
+  if (!search) return undefined;
+  const early: EarlySearch = { search, wide: brightCandidates(search, chart, WIDE_DIV) };
+  if (!decoded && wideLooksOff(early.wide!, chart)) early.edges = edgePairCandidates(search, chart);
+  return early;
 }
 
 /**

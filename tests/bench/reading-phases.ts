@@ -1,16 +1,16 @@
-// Where a read's time goes, per photo, as readStrip spends it: decode (the working copy and the
-// search copy beside it), the wide-scale search on the search copy, locate (with the number of
-// candidate fits) and measure, in CPU milliseconds (decode's include libvips' worker threads).
+// Where a read's time goes, per photo, as readStrip spends it: the header and the early search
+// (the search copy decoded beside the working copy, its wide-scale candidates and maybe its edge
+// pairs), the rest of the working decode, locate (with the number of candidate fits) and measure,
+// in CPU milliseconds (the decodes' include libvips' worker threads).
 // The bench's photos are rendered once into a cache directory. Figures only, nothing asserted.
 //
 //   npx tsx tests/bench/reading-phases.ts [--cache /tmp/dipwell-bench-photos]
 import fs from "node:fs";
 import path from "node:path";
 import { parseChart } from "../../app/reading/chart";
-import { brightCandidates } from "../../app/reading/bright-components";
 import { startDecode } from "../../app/reading/image";
-import { WIDE_DIV, locateStrip } from "../../app/reading/locate";
-import { decodeSearchCopy, searchDecodePays } from "../../app/reading/search-decode";
+import { locateStrip } from "../../app/reading/locate";
+import { earlySearch } from "../../app/reading/search-decode";
 import { measurePads } from "../../app/reading/measure-pads";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
@@ -47,12 +47,11 @@ for (let pass = 0; pass < 2; pass++)
     const buf = fs.readFileSync(c.file);
     let t = now();
     const started = await startDecode(buf);
-    const search = searchDecodePays(started.original, started.working) ? await decodeSearchCopy(buf, started.working) : null;
+    const early = await earlySearch(buf, started, c.chart);
+    const tSearch = ms(t);
+    t = now();
     const { image } = await started.decoded;
     const tDecode = ms(t);
-    t = now();
-    const early = search ? { search, wide: brightCandidates(search, c.chart, WIDE_DIV) } : undefined;
-    const tSearch = ms(t);
     let fits = 0;
     t = now();
     let tLocate = 0, tMeasure = 0, note = "";
@@ -66,5 +65,5 @@ for (let pass = 0; pass < 2; pass++)
       tLocate = ms(t);
       note = String((e as Error).message).slice(0, 40);
     }
-    if (pass === 1) console.log(`${c.name.padEnd(28)} decode ${tDecode.toFixed(1).padStart(6)}  wide search ${tSearch.toFixed(1).padStart(5)}  locate ${tLocate.toFixed(1).padStart(7)} (${fits} fits)  measure ${tMeasure.toFixed(1).padStart(5)} ${note}`);
+    if (pass === 1) console.log(`${c.name.padEnd(28)} start+early search ${tSearch.toFixed(1).padStart(6)}  rest of decode ${tDecode.toFixed(1).padStart(5)}  locate ${tLocate.toFixed(1).padStart(7)} (${fits} fits)  measure ${tMeasure.toFixed(1).padStart(5)} ${note}`);
   }
