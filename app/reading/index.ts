@@ -12,7 +12,7 @@ import { locateStrip } from "./locate";
 import { earlySearch } from "./search-decode";
 import { ReadingError, cropPad, cropStrip, startDecode } from "./image";
 import { analyteGroups } from "./joint-match";
-import { judgeAnalyte, type PadReading } from "./judge";
+import { judgeStrip, type PadReading } from "./judge";
 import { matchSwatches } from "./match";
 import { measurePads, type PadMeasurement } from "./measure-pads";
 
@@ -100,18 +100,14 @@ export async function readStrip(photo: Buffer, chartIn: StripChart, options: Rea
   const warnings = [...g.warnings, ...measured.warnings];
   checkStripShown(chart, measured.pads, options.checkPads !== false, g.lengthOk);
 
-  const pads: PadReading[] = [];
-  for (const [analyte, indices] of analyteGroups(chart.pads)) {
-    const chartPads = indices.map((i) => chart.pads[i]);
-    const ms = indices.map((i) => measured.pads[i]);
-    const reading = judgeAnalyte(analyte, chartPads, ms, indices, k, g.doubts);
-    if (options.crops) {
+  const pads = judgeStrip(chart.pads, measured.pads, analyteGroups(chart.pads), k, g.doubts);
+  if (options.crops)
+    for (const reading of pads) {
+      const ms = reading.parts.map((p) => measured.pads[p.chartIndex]);
       const crops = await Promise.all(ms.map((m) => cropPad(img, m.centre[0], m.centre[1], m.half * 1.4)));
       reading.parts.forEach((p, j) => (p.crop = crops[j]));
       reading.crop = crops.length === 1 ? crops[0] : await cropStrip(crops);
     }
-    pads.push(reading);
-  }
   const [ux, uy] = g.u;
   const ax = g.dir * ux, ay = g.dir * uy; // tip -> handle
   const tipP = [g.centre[0] + g.tipT * ux, g.centre[1] + g.tipT * uy];

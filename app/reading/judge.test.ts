@@ -6,7 +6,7 @@ import fs from "node:fs";
 import { describe, expect, it } from "vitest";
 import { parseChart, type ChartPad } from "./chart";
 import { lerpLab, type Lab } from "./colour";
-import { FAR_FROM_PATH, judgeAnalyte, REVIEW_BELOW } from "./judge";
+import { FAR_FROM_PATH, judgeAnalyte, judgeStrip, REVIEW_BELOW, STRIP_FAR_FROM_CHART } from "./judge";
 import { matchSwatches } from "./match";
 import type { PadMeasurement } from "./measure-pads";
 
@@ -107,5 +107,28 @@ describe("judgeAnalyte: when a reading goes to review", () => {
       expect(r.confidence).toBeLessThan(REVIEW_BELOW);
       expect(r.reason).toBe(`Please check pH: ${doubt}.`);
     }
+  });
+});
+
+describe("judgeStrip: a strip whose pads mostly match no printed colour", () => {
+  const pads = demo3.pads;
+  const groups = pads.map((p, i) => [p.analyte, [i]] as [string, number[]]);
+  // Each pad's own colour halfway between its second and third swatches: on the chart.
+  const onChart = pads.map((p) => measured(lerpLab(p.swatches[1].lab, p.swatches[2].lab, 0.5)));
+  const blue = measured({ l: 45, a: 10, b: -55 }), green = measured({ l: 40, a: -60, b: 40 });
+  it("flags every pad when more than half lie far from the chart, the matching one with the reason", () => {
+    const rs = judgeStrip(pads, [blue, green, onChart[2]], groups, 1, []);
+    expect(rs.every((r) => r.needsReview)).toBe(true);
+    expect(rs[2].confidence).toBeLessThan(REVIEW_BELOW);
+    expect(rs[2].reason).toBe(`Please check ${pads[2].label}: ${STRIP_FAR_FROM_CHART}.`);
+    expect(rs[0].reason).not.toContain(STRIP_FAR_FROM_CHART);
+  });
+  it("leaves the others alone when only one of three is far (a value beyond the chart's range)", () => {
+    const rs = judgeStrip(pads, [blue, onChart[1], onChart[2]], groups, 1, []);
+    expect(rs.map((r) => r.needsReview)).toEqual([true, false, false]);
+  });
+  it("reads a strip on the chart as judgeAnalyte does, pad by pad", () => {
+    const rs = judgeStrip(pads, onChart, groups, 1, []);
+    rs.forEach((r, i) => expect(r).toEqual(judgeAnalyte(pads[i].analyte, [pads[i]], [onChart[i]], [i], 1, [])));
   });
 });

@@ -50,6 +50,32 @@ export const FAR_FROM_PATH = 12;
 
 /** One analyte's value, confidence and reasons from its pads' measurements. */
 export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): PadReading {
+  return judge(analyte, chartPads, ms, indices, k, doubts).reading;
+}
+
+/** The reason given when more than half of a strip's analytes match no colour on the chart. */
+export const STRIP_FAR_FROM_CHART =
+  "most of the strip's pads match no colour printed on the chart, so the strip may be wrongly placed in the photo or the light unusual";
+
+/**
+ * Every analyte of one strip. When more than half of them lie far from the chart's colours, the
+ * strip's placement or the light is in doubt, and so is every reading from it: the others go to
+ * review too, since a pad that happens to match a printed colour proves nothing on its own.
+ */
+export function judgeStrip(chartPads: ChartPad[], ms: PadMeasurement[], groups: [string, number[]][], k: number, doubts: string[]): PadReading[] {
+  const verdicts = groups.map(([analyte, idx]) => judge(analyte, idx.map((i) => chartPads[i]), idx.map((i) => ms[i]), idx, k, doubts));
+  const far = verdicts.filter((v) => v.far).length;
+  if (far > verdicts.length / 2)
+    for (const { reading, far } of verdicts) {
+      if (far) continue;
+      reading.confidence = Math.min(reading.confidence, REVIEW_BELOW - 0.01);
+      reading.reason = reading.needsReview ? `${reading.reason!.slice(0, -1)}; ${STRIP_FAR_FROM_CHART}.` : `Please check ${reading.label}: ${STRIP_FAR_FROM_CHART}.`;
+      reading.needsReview = true;
+    }
+  return verdicts.map((v) => v.reading);
+}
+
+function judge(analyte: string, chartPads: ChartPad[], ms: PadMeasurement[], indices: number[], k: number, doubts: string[]): { reading: PadReading; far: boolean } {
   const first = chartPads[0];
   const match = matchJoint(chartPads, ms.map((m) => m.lab));
   const reasons: string[] = [];
@@ -59,7 +85,8 @@ export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeas
   // and a colour halfway between two printed ones yet far from both their path is no reading.
   const perPad = match.deltaE / Math.sqrt(chartPads.length);
   const farAbsolute = perPad > FAR_FROM_PATH;
-  if (rel > 1 || farAbsolute) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
+  const far = rel > 1 || farAbsolute;
+  if (far) reasons.push(chartPads.length > 1 ? "its pads' colours are far from every set of colours printed on the chart" : "its colour is far from every colour printed on the chart");
   if (farAbsolute) conf = Math.min(conf, REVIEW_BELOW - 0.01);
   const relS = Math.max(...ms.map((m) => m.spread)) / match.halfStep;
   conf *= Math.exp(-0.5 * relS * relS);
@@ -105,5 +132,5 @@ export function judgeAnalyte(analyte: string, chartPads: ChartPad[], ms: PadMeas
     parts,
   };
   if (needsReview) reading.reason = `Please check ${first.label}: ${reasons.length ? reasons.join("; ") : "the reading is uncertain"}.`;
-  return reading;
+  return { reading, far };
 }
