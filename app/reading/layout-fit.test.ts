@@ -22,8 +22,8 @@ describe("chartLayout", () => {
  * towards +t on an axis along +x) and the layout searched between the given ends, the length
  * taken as confirmed.
  */
-function searchDrawn(plusEnd: number, minusEnd: number, scales: { scale: number; scaleFromWidth: number; lengthOk: boolean } = { scale: 3.5, scaleFromWidth: 3.5, lengthOk: true }) {
-  const img = drawScene(400, 200, [120, 118, 110], strip);
+function searchDrawn(plusEnd: number, minusEnd: number, scales: { scale: number; scaleFromWidth: number; lengthOk: boolean } = { scale: 3.5, scaleFromWidth: 3.5, lengthOk: true }, surface: [number, number, number] = [120, 118, 110], drawn = strip) {
+  const img = drawScene(400, 200, surface, drawn);
   const axis = { cx: 200, cy: 100, ux: 1, uy: 0, width: 17.5, length: 200 };
   const profile = alongProfile(img, axis, -190, 190);
   const diff = plasticDifference(profile, axis.length, axis.width);
@@ -100,5 +100,20 @@ describe("searchLayout placed from the handle's end at the width's scale", () =>
     expect(best!.dir).toBe(-1);
     expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan((5 / 3) * 3.5);
     expect(pxPerMm(best!)).toBeCloseTo(3.5, 1);
+  });
+});
+
+describe("searchLayout on a dark surface, the width reading wide", () => {
+  // Pale pads, both ends seen where they are, the length confirmed; the width gives a scale 12 %
+  // too large (an overexposed white strip blooms into a dark cloth). Placed from the handle's end
+  // at the width's scale, the first pad would land on the cloth past the tip, which differs from
+  // bare plastic far more than a pale pad: pads count only on the strip, so the tip stays put.
+  const pale: SceneStrip = { ...strip, pads: strip.pads.map((p, i) => ({ ...p, color: [[228, 212, 196], [206, 214, 232], [230, 208, 220]][i] as [number, number, number] })) };
+  const { best } = searchDrawn(140, -140, { scale: 3.5, scaleFromWidth: 3.5 * 1.12, lengthOk: true }, [25, 27, 35], pale);
+
+  it("keeps every pad on the strip", () => {
+    expect(best).not.toBeNull();
+    expect(best!.dir).toBe(-1);
+    expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan(3.5);
   });
 });

@@ -97,6 +97,12 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
   // Both ends (mm) of every span scored: the pads' first, then the gaps'.
   const spanMm = Float64Array.from([...padMid.flatMap((m, j) => [m - padHalf[j], m + padHalf[j]]), ...gapMid.flatMap((m, j) => [m - gapHalf[j], m + gapHalf[j]])]);
   const prefix = diff.prefix, profileT0 = profile.t0, lastIndex = profile.n - 1;
+  // Pads count only on the strip: past an end the walk saw (with a millimetre to spare) lies the
+  // surface, and a dark surface differs from bare plastic more than any pad does. A strip whose
+  // width reads wide (an overexposed white strip on a dark cloth) would otherwise be placed from
+  // its handle a pad beyond its tip.
+  const padLo = free || minus.truncated ? 0 : Math.round(minus.end - scale - profileT0);
+  const padHi = free || plus.truncated ? lastIndex : Math.round(plus.end + scale - profileT0);
   for (const tipSide of [1, -1] as const) {
     const dir = -tipSide as 1 | -1; // t direction from tip to handle
     const tipEnd = tipSide === 1 ? plus : minus, handleEnd = tipSide === 1 ? minus : plus;
@@ -146,9 +152,10 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
         for (let j = 0; j < spanMm.length; j += 2) {
           const ra = Math.round(t0 + dt * spanMm[j] - profileT0), rb = Math.round(t0 + dt * spanMm[j + 1] - profileT0);
           const a = Math.max(0, ra < rb ? ra : rb), b = Math.min(lastIndex, ra < rb ? rb : ra);
-          const mean = b < a ? 0 : (prefix[b + 1] - prefix[a]) / (b - a + 1);
-          if (j < 2 * padMid.length) padScore += mean;
-          else gapScore += mean;
+          if (j < 2 * padMid.length) {
+            const pa = a > padLo ? a : padLo, pb = b < padHi ? b : padHi;
+            padScore += pb < pa ? 0 : (prefix[pb + 1] - prefix[pa]) / (b - a + 1);
+          } else gapScore += b < a ? 0 : (prefix[b + 1] - prefix[a]) / (b - a + 1);
         }
         padScore /= padMid.length;
         gapScore /= gapMid.length;
