@@ -22,15 +22,21 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const { w, h, whiteness } = s;
   const n = w * h;
   // The per-pixel planes are kept between searches (a photo's search would otherwise leave
-  // megabytes of garbage behind): log whiteness, gradient magnitude and both components.
-  if (planes.length < 4 * n) planes = new Float32Array(4 * n);
+  // megabytes of garbage behind): log whiteness and gradient magnitude.
+  if (planes.length < 2 * n) planes = new Float32Array(2 * n);
   const L = planes.subarray(0, n);
   for (let i = 0; i < n; i++) L[i] = Math.log(whiteness[i]);
   // A 3 × 3 box blur first: a woven or grained surface's fine texture would otherwise scatter the
   // direction of a faint edge (a strip barely lighter or darker than the surface) over many angles.
   boxBlur3(L, w, h);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
-  const mag = planes.subarray(n, 2 * n), gradX = planes.subarray(2 * n, 3 * n), gradY = planes.subarray(3 * n, 4 * n);
+  const mag = planes.subarray(n, 2 * n);
+  // Both components at one pixel, as float32 (the few edge pixels' are taken again below).
+  const gradAt = (i: number) => {
+    gradX = Math.fround(L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1]);
+    gradY = Math.fround(L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1]);
+  };
+  let gradX = 0, gradY = 0;
   // The border keeps no gradient (read as a neighbour by the thinning below).
   mag.fill(0);
   const hist = new Uint32Array(256);
@@ -41,8 +47,6 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
       const m = Math.sqrt(gx * gx + gy * gy) / 8;
       mag[i] = m;
-      gradX[i] = gx;
-      gradY[i] = gy;
       hist[Math.min(255, (m * 1000) | 0)]++;
     }
   let thr = 0;
@@ -71,10 +75,11 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       if (!(m > thr)) continue;
       // Thin edges: keep local maxima of the magnitude across the edge.
       // Unit gradient direction (cos and sin of its angle).
-      const c = gradX[i] / (8 * m), sn = gradY[i] / (8 * m);
+      gradAt(i);
+      const c = gradX / (8 * m), sn = gradY / (8 * m);
       const dx = Math.round(c), dy = Math.round(sn);
       if (mag[i + dy * w + dx] > m || mag[i - dy * w - dx] >= m) continue;
-      const a = Math.atan2(gradY[i], gradX[i]);
+      const a = Math.atan2(gradY, gradX);
       let th = a < 0 ? a + Math.PI : a;
       if (th >= Math.PI) th -= Math.PI;
       const k0 = Math.round((th * nT) / Math.PI);
