@@ -59,6 +59,8 @@ export type StartedDecode = {
   working: { width: number; height: number };
   /** The photo's format as sharp names it ("jpeg", "png", "webp", ...). */
   format?: string;
+  /** A progressive (or interlaced) photo: decoded scan by scan, slower than a baseline one. */
+  progressive?: boolean;
   decoded: Promise<DecodedPhoto>;
 };
 
@@ -107,7 +109,7 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
     },
   );
   decoded.catch(() => {}); // the caller awaits it when it needs the pixels
-  return { original, working, format: meta.format, decoded };
+  return { original, working, format: meta.format, progressive: !!meta.isProgressive, decoded };
 }
 
 export type RegionSample = {

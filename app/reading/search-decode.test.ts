@@ -40,16 +40,20 @@ describe("decodeSearchCopy", () => {
 });
 
 describe("searchDecodePays", () => {
-  it("decodes the search copy apart from a photo whose decoder shrinks on load, or one at least twice the working size", () => {
+  it("decodes the search copy apart from a photo at least twice the working size, whatever its format", () => {
     expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 }, "png")).toBe(true);
     expect(searchDecodePays({ width: 3200, height: 2400 }, { width: 1600, height: 1200 })).toBe(true);
+  });
+  it("from a JPEG or WebP nearer the working size only when its own decode is slow: progressive, or resized", () => {
     expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "jpeg")).toBe(true);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "webp")).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "jpeg", true)).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "webp")).toBe(false);
+    expect(searchDecodePays({ width: 1600, height: 1200 }, { width: 1600, height: 1200 }, "jpeg")).toBe(false);
     expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "png")).toBe(false);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "tiff")).toBe(false);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "tiff", true)).toBe(false);
   });
   it("never for a photo already about the size of a search copy", () => {
-    expect(searchDecodePays({ width: 560, height: 420 }, { width: 560, height: 420 }, "jpeg")).toBe(false);
+    expect(searchDecodePays({ width: 560, height: 420 }, { width: 560, height: 420 }, "jpeg", true)).toBe(false);
   });
 });
 
@@ -60,10 +64,14 @@ describe("earlySearch", () => {
     pads: [{ analyte: "ph", label: "pH", unit: "pH", centerMm: 5, sizeMm: 5, swatches: [{ value: 7, color: "#e08040" }, { value: 8, color: "#c04060" }] }],
   });
   it("searches a JPEG's small copy before its working copy is decoded", async () => {
-    const photo = await grey(1600, 1200);
+    const photo = await grey(2000, 1500);
     const early = await earlySearch(photo, await startDecode(photo), chart);
     expect(early?.search.factor).toBe(4);
     expect(Array.isArray(early?.wide)).toBe(true);
+  });
+  it("leaves a baseline JPEG at the working size to the working copy (a quick decode, not slowed by a second)", async () => {
+    const photo = await grey(1600, 1200);
+    expect(await earlySearch(photo, await startDecode(photo), chart)).toBeUndefined();
   });
   it("leaves a PNG near the working size to the working copy (no second full decode)", async () => {
     const photo = await sharp({ create: { width: 1600, height: 1200, channels: 3, background: "#808080" } }).png().toBuffer();
