@@ -10,6 +10,7 @@ import { applyMap } from "./projective-1d";
 import { median } from "./stats";
 import { CLOSE, refineAxis } from "./strip-axis";
 import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
+import { axisFromPads } from "./pad-width";
 import { fitStripPlane, planePoint } from "./strip-plane";
 
 /** One candidate axis, refined, with its profile: what both ways of finding the ends share. */
@@ -186,19 +187,37 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
  * fit is tried again with the ends taken from the strip's sharp long edges alone (a strip lying in
  * line with a grout line or a seam: colour differences run on past its ends, its edges do not).
  */
-export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0, maxPxPerMm = Infinity, refined?: Axis): StripGeometry | null {
+export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, padEndMm: number, axis0: Axis, trace: Trace, minPxPerMm = 0, maxPxPerMm = Infinity, refined?: Axis, fromPads = false): StripGeometry | null {
   const prepared = prepareAxis(img, chart, axis0, minPxPerMm, maxPxPerMm, refined);
   if (!prepared) return null;
   const g = fitStrip(prepared, chart, layout, padEndMm, false, trace);
   if (g && g.lengthOk && g.convincing) return g;
+  let out = g;
   const e = fitStrip(prepared, chart, layout, padEndMm, true, trace);
-  if (e && edgesWin(g, e)) {
-    // Pads searched for anywhere along the axis that land where the one end seen put them confirm
-    // that end: the placement from it stands, with no doubt about the ends.
-    if (g && g.convincing && g.endSeen && samePlacement(g, e, Math.min(...chart.pads.map((p) => p.sizeMm)))) return g;
-    return e;
-  }
-  return g;
+  // Pads searched for anywhere along the axis that land where the one end seen put them confirm
+  // that end: the placement from it stands, with no doubt about the ends.
+  if (e && edgesWin(g, e) && !(g && g.convincing && g.endSeen && samePlacement(g, e, Math.min(...chart.pads.map((p) => p.sizeMm))))) out = e;
+  if (fromPads || (out && out.lengthOk && out.convincing)) return out;
+  // The width read from the long edges may take in a line beside the strip (grout along it): the
+  // pads' sides tell the strip's width and where it lies, and the fit is tried again there.
+  const pads = axisFromPads(img, chart, prepared.axis, prepared.profile, prepared.diff);
+  if (!pads) return out;
+  traceLine(trace, "width from the pads", { w: +prepared.axis.width.toFixed(1), pads: +pads.width.toFixed(1), off: +((pads.cx - prepared.axis.cx) * -prepared.axis.uy + (pads.cy - prepared.axis.cy) * prepared.axis.ux).toFixed(1) });
+  const p = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm, maxPxPerMm, pads, true);
+  return p && padsWin(out, p) ? p : out;
+}
+
+/**
+ * Whether the placement on the axis the pads give (`p`) replaces the one on the edges' axis
+ * (`g`): only one that sees an end of the strip (pads searched for anywhere along the new axis
+ * prove nothing the first did not); then a convincing one wins over none, a confirmed length over
+ * none, else the higher rank.
+ */
+export function padsWin(g: Pick<StripGeometry, "convincing" | "lengthOk" | "rank"> | null, p: Pick<StripGeometry, "convincing" | "lengthOk" | "rank" | "endSeen">): boolean {
+  if (!p.convincing || !p.endSeen) return false;
+  if (!g || !g.convincing) return true;
+  if (p.lengthOk !== g.lengthOk) return p.lengthOk;
+  return p.rank > g.rank;
 }
 
 /**
