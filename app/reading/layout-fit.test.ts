@@ -117,3 +117,20 @@ describe("searchLayout on a dark surface, the width reading wide", () => {
     expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan(3.5);
   });
 });
+
+describe("searchLayout from the handle's end beside a confirmed length", () => {
+  // The tip's end walked 5.5 mm on past the tip (a shadow or glare in line with it), the length
+  // still within the confirmed share; the width gives a scale 4 % short (its edges read a little
+  // narrow). The length's scale is then too large and the width's too small: placed from the
+  // handle's end, the scale searched must keep the handle where it was seen (the tip would land
+  // 3.2 mm short of the true tip, nearly half a pitch, at the width's scale).
+  const width = 3.5 * 0.96, plusEnd = 140 + 5.5 * 3.5;
+  const { best } = searchDrawn(plusEnd, -140, { scale: (plusEnd + 140) / 80, scaleFromWidth: width, lengthOk: true });
+
+  it("finds the tip and the scale the pads show", () => {
+    expect(best).not.toBeNull();
+    expect(best!.dir).toBe(-1);
+    expect(Math.abs(tAt(best!, 0) - 140)).toBeLessThan(1.5);
+    expect(pxPerMm(best!)).toBeCloseTo(3.5, 1);
+  });
+});

@@ -112,7 +112,10 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
     // held about the tip it would move a strip placed from its handle by the scale's error times
     // the whole strip's length (an end walked on past the tip, a width read a little narrow: the
     // pads a pitch off); held about the handle, the pads land where the pads' own pattern puts
-    // them. Beside a confirmed length the scale searched is narrow and the tip stays the pivot.
+    // them. Beside a confirmed length the scale searched is narrow and the tip stays the pivot,
+    // except from the handle's end at the width's scale: there too the handle stays where it was
+    // seen (a width read 4 % narrow would put the tip 3 mm short over a 76 mm strip, near half a
+    // pitch, beyond the offsets searched).
     const anchors: { tip: number; baseScale: number; pivotMm: number }[] = [];
     const L = chart.strip.lengthMm;
     let offMin = -(lengthOk ? 2 : 3) * scale, offMax = -offMin, offStep = 0.5;
@@ -126,9 +129,9 @@ export function searchLayout(chart: StripChart, layout: Layout, profile: Profile
       if (!tipEnd.truncated || handleEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scale, pivotMm: 0 });
       if (!lengthOk && !handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * L * scale, baseScale: scale, pivotMm: L });
       // One end may run on past the strip (a grain line, a seam or a shadow in line with it): the
-      // layout is also placed from the other end at the scale given by the width.
+      // layout is also placed from the other end at the scale given by the width, held about it.
       if (lengthOk) {
-        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * L * scaleFromWidth, baseScale: scaleFromWidth, pivotMm: 0 });
+        if (!handleEnd.truncated) anchors.push({ tip: handleEnd.end - dir * L * scaleFromWidth, baseScale: scaleFromWidth, pivotMm: L });
         if (!tipEnd.truncated) anchors.push({ tip: tipEnd.end, baseScale: scaleFromWidth, pivotMm: 0 });
       }
     }
