@@ -15,8 +15,39 @@ import { median } from "./stats";
 /** Degrees either side of an edge pixel's gradient direction it votes for. */
 const ANGLE_REACH = 3;
 
+/** The least gradient magnitude (of log whiteness, per pixel) an edge pixel has. */
+const EDGE_FLOOR = 0.008;
+
+/** ln(1 + k / LOG_STEPS) for k = 0 … LOG_STEPS: the mantissa's share of a float's logarithm. */
+const LOG_BITS = 12, LOG_STEPS = 1 << LOG_BITS;
+const LOG_MANTISSA = (() => {
+  const t = new Float64Array(LOG_STEPS + 1);
+  for (let k = 0; k <= LOG_STEPS; k++) t[k] = Math.log1p(k / LOG_STEPS);
+  return t;
+})();
+let logBits = new Int32Array(1);
+
+/**
+ * Natural logarithms of positive float32 values, from their bits: the exponent times ln 2 plus
+ * ln(mantissa), interpolated in a table of 4096 steps (within about 1e-8 of Math.log, below
+ * float32's own rounding; several times faster on a whole search copy).
+ */
+export function logInto(src: Float32Array, out: Float32Array) {
+  const n = src.length;
+  if (logBits.length < n) logBits = new Int32Array(n);
+  const bits = logBits;
+  new Float32Array(bits.buffer, 0, n).set(src);
+  const t = LOG_MANTISSA, low = 23 - LOG_BITS, lowScale = 1 / (1 << low), lowMask = (1 << low) - 1;
+  for (let i = 0; i < n; i++) {
+    const b = bits[i];
+    const k = (b >>> low) & (LOG_STEPS - 1), f = (b & lowMask) * lowScale;
+    out[i] = ((b >>> 23) - 127) * Math.LN2 + t[k] + (t[k + 1] - t[k]) * f;
+  }
+}
+
 /** Scratch kept between searches: the per-pixel planes, the Hough accumulator, the blur's row pass. */
 let planes = new Float32Array(0), houghBuffer = new Float32Array(0), blurBuffer = new Float32Array(0);
+let edgeIndex = new Int32Array(0), edgeStep = new Uint8Array(0);
 
 export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8): StripCandidate[] {
   const { w, h, whiteness } = s;
@@ -25,18 +56,12 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   // megabytes of garbage behind): log whiteness and gradient magnitude.
   if (planes.length < 2 * n) planes = new Float32Array(2 * n);
   const L = planes.subarray(0, n);
-  for (let i = 0; i < n; i++) L[i] = Math.log(whiteness[i]);
+  logInto(whiteness, L);
   // A 3 × 3 box blur first: a woven or grained surface's fine texture would otherwise scatter the
   // direction of a faint edge (a strip barely lighter or darker than the surface) over many angles.
   boxBlur3(L, w, h);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
   const mag = planes.subarray(n, 2 * n);
-  // Both components at one pixel, as float32 (the few edge pixels' are taken again below).
-  const gradAt = (i: number) => {
-    gradX = Math.fround(L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1]);
-    gradY = Math.fround(L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1]);
-  };
-  let gradX = 0, gradY = 0;
   // The border keeps no gradient (read as a neighbour by the thinning below).
   mag.fill(0);
   const hist = new Uint32Array(256);
@@ -47,7 +72,8 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
       const m = Math.sqrt(gx * gx + gy * gy) / 8;
       mag[i] = m;
-      hist[Math.min(255, (m * 1000) | 0)]++;
+      // Only magnitudes at or above the floor can set the threshold (most pixels lie below it).
+      if (m >= EDGE_FLOOR) hist[Math.min(255, (m * 1000) | 0)]++;
     }
   let thr = 0;
   for (let b = 255, acc = 0; b >= 0; b--) {
@@ -57,7 +83,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       break;
     }
   }
-  thr = Math.max(thr, 0.008);
+  thr = Math.max(thr, EDGE_FLOOR);
   const nT = 180, diag = Math.ceil(Math.hypot(w, h)), nR = 2 * diag + 1;
   const cosT = new Float32Array(nT), sinT = new Float32Array(nT);
   for (let k = 0; k < nT; k++) (cosT[k] = Math.cos((k * Math.PI) / nT)), (sinT[k] = Math.sin((k * Math.PI) / nT));
@@ -67,15 +93,20 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   // A vote's weight by how far (in angle steps) its direction lies from the gradient's.
   const voteWeight = new Float64Array(2 * ANGLE_REACH + 1);
   for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) voteWeight[dk + ANGLE_REACH] = 1 - Math.abs(dk) / (ANGLE_REACH + 1);
-  const ex: number[] = [], ey: number[] = [], et: number[] = [];
+  // Edge pixels: their index in the search copy and their angle step (kept between searches).
+  if (edgeIndex.length < n) (edgeIndex = new Int32Array(n)), (edgeStep = new Uint8Array(n));
+  const ei = edgeIndex, et = edgeStep;
+  let nEdges = 0;
   for (let y = 1; y < h - 1; y++)
     for (let x = 1; x < w - 1; x++) {
       const i = y * w + x;
       const m = mag[i];
       if (!(m > thr)) continue;
-      // Thin edges: keep local maxima of the magnitude across the edge.
-      // Unit gradient direction (cos and sin of its angle).
-      gradAt(i);
+      // Both components again at the few edge pixels, as float32 (as the magnitude was kept).
+      const gradX = Math.fround(L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1]);
+      const gradY = Math.fround(L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1]);
+      // Thin edges: keep local maxima of the magnitude across the edge (along the unit gradient
+      // direction, the cos and sin of its angle).
       const c = gradX / (8 * m), sn = gradY / (8 * m);
       const dx = Math.round(c), dy = Math.round(sn);
       if (mag[i + dy * w + dx] > m || mag[i - dy * w - dx] >= m) continue;
@@ -83,7 +114,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       let th = a < 0 ? a + Math.PI : a;
       if (th >= Math.PI) th -= Math.PI;
       const k0 = Math.round((th * nT) / Math.PI);
-      ex.push(x), ey.push(y), et.push(k0 % nT);
+      (ei[nEdges] = i), (et[nEdges++] = k0 % nT);
       // A vote for each direction within ±3° of the gradient's, less the further off: an edge's
       // direction from a 3 × 3 gradient is only that precise on a stepped (aliased) or grainy edge.
       for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) {
@@ -141,10 +172,10 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   // Edge pixels grouped by their angle step (a counting sort), so that a pair's extent looks only
   // at the pixels within reach of its angle.
   const byAngle = new Int32Array(nT + 1);
-  for (let j = 0; j < et.length; j++) byAngle[et[j] + 1]++;
+  for (let j = 0; j < nEdges; j++) byAngle[et[j] + 1]++;
   for (let k = 0; k < nT; k++) byAngle[k + 1] += byAngle[k];
-  const fill = byAngle.slice(0, nT), sorted = new Int32Array(et.length);
-  for (let j = 0; j < et.length; j++) sorted[fill[et[j]]++] = j;
+  const fill = byAngle.slice(0, nT), sorted = new Int32Array(nEdges);
+  for (let j = 0; j < nEdges; j++) sorted[fill[et[j]]++] = j;
   const out: StripCandidate[] = [];
   const chosen: Pair[] = [];
   // Positions along the lines of a pair's edge pixels (a typed array, sorted without a comparator).
@@ -162,8 +193,8 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     for (let dk = -(ANGLE_REACH + 1); dk <= ANGLE_REACH + 1; dk++) {
       const k = (p.k + dk + nT) % nT;
       for (let m = byAngle[k]; m < byAngle[k + 1]; m++) {
-        const j = sorted[m];
-        const r = ex[j] * c + ey[j] * sn + diag;
+        const at = ei[sorted[m]], ex = at % w, ey = (at - ex) / w;
+        const r = ex * c + ey * sn + diag;
         const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
         if (!on1 && !on2) continue;
         if (on1) n1++;
@@ -173,7 +204,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
           grown.set(sAlong);
           sAlong = grown;
         }
-        sAlong[nAlong++] = -ex[j] * sn + ey[j] * c;
+        sAlong[nAlong++] = -ex * sn + ey * c;
       }
     }
     if (n1 < 5 || n2 < 5) continue;
@@ -216,20 +247,22 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
 export function boxBlur3(a: Float32Array, w: number, h: number) {
   if (blurBuffer.length < w * h) blurBuffer = new Float32Array(w * h);
   const tmp = blurBuffer;
-  for (let y = 0; y < h; y++)
-    for (let x = 0; x < w; x++) {
-      const i = y * w + x;
-      let s = a[i], n = 1;
-      if (x > 0) (s += a[i - 1]), n++;
-      if (x < w - 1) (s += a[i + 1]), n++;
-      tmp[i] = s / n;
+  // The borders apart, so that the inner loops test nothing (sums in the same order throughout).
+  for (let y = 0; y < h; y++) {
+    const r = y * w;
+    if (w === 1) {
+      tmp[r] = a[r];
+      continue;
     }
-  for (let y = 0; y < h; y++)
-    for (let x = 0; x < w; x++) {
-      const i = y * w + x;
-      let s = tmp[i], n = 1;
-      if (y > 0) (s += tmp[i - w]), n++;
-      if (y < h - 1) (s += tmp[i + w]), n++;
-      a[i] = s / n;
-    }
+    tmp[r] = (a[r] + a[r + 1]) / 2;
+    for (let i = r + 1, end = r + w - 1; i < end; i++) tmp[i] = (a[i] + a[i - 1] + a[i + 1]) / 3;
+    tmp[r + w - 1] = (a[r + w - 1] + a[r + w - 2]) / 2;
+  }
+  if (h === 1) {
+    a.set(tmp.subarray(0, w));
+    return;
+  }
+  for (let x = 0; x < w; x++) a[x] = (tmp[x] + tmp[x + w]) / 2;
+  for (let i = w, end = (h - 1) * w; i < end; i++) a[i] = (tmp[i] + tmp[i - w] + tmp[i + w]) / 3;
+  for (let i = (h - 1) * w; i < h * w; i++) a[i] = (tmp[i] + tmp[i - w]) / 2;
 }
