@@ -6,6 +6,7 @@ import { spawn as spawnProcess, spawnSync, type ChildProcess } from "node:child_
 import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
+import { READER_V8_FLAGS } from "../reading/process-flags";
 import { errorOf, runPhotoRead, type PhotoRead as Job, type PhotoReadResult, type ReaderFailure } from "./reader-job";
 
 const PROCESS_FILE = fileURLToPath(new URL("./read-process.ts", import.meta.url));
@@ -24,9 +25,9 @@ const idlePolicyWorks = () => (idlePolicy ??= Boolean(CHRT) && spawnSync(CHRT!, 
 type Pending = { resolve: (r: PhotoReadResult) => void; reject: (e: Error) => void };
 type Slot = { worker: ChildProcess; busy: Pending & { id: number } | null };
 
-/** A reader process: Node with the TypeScript loader, started through `nice` (and `chrt --idle`) where there are. */
+/** A reader process: Node with the reader's heap flags and the TypeScript loader, started through `nice` (and `chrt --idle`) where there are. */
 function startReader(): ChildProcess {
-  const node = [process.execPath, "--import", import.meta.resolve("tsx"), PROCESS_FILE];
+  const node = [process.execPath, ...READER_V8_FLAGS, "--import", import.meta.resolve("tsx"), PROCESS_FILE];
   const niced = NICE ? [NICE, "-n", String(READER_NICENESS), ...node] : node;
   const [command, ...args] = idlePolicyWorks() ? [CHRT!, "--idle", "0", ...niced] : niced;
   // A session of its own (detached): where the kernel groups processes by session for scheduling

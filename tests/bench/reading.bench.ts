@@ -9,16 +9,25 @@
 //
 // Photos: synthetic strips rendered by tests/render at several sizes (up to 12 MP), and the real
 // photos in ../shared/eval/real (read where they lie at run time, never copied) when present.
-// Figures are printed side by side; nothing here asserts a time.
+// Figures are printed side by side; nothing here asserts a time. The process runs with a reader
+// process's V8 flags (app/reading/process-flags.ts), as the worker's readers do.
+import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import sharp from "sharp";
+import { READER_V8_FLAGS } from "../../app/reading/process-flags";
 import { parseChart, type StripChart } from "../../app/reading/chart";
 import { workingPipeline } from "../../app/reading/image";
 import { readStrip } from "../../app/reading/index";
 import { renderStripPhoto } from "../render/strip-photo";
 import { asRenderChart } from "../render/types";
 
+// The figures are those of a reader process (app/jobs/read-pool.ts): started again with its V8
+// flags when run without them.
+if (!READER_V8_FLAGS.every((f) => process.execArgv.includes(f))) {
+  const again = spawnSync(process.execPath, [...READER_V8_FLAGS, ...process.execArgv, ...process.argv.slice(1)], { stdio: "inherit" });
+  process.exit(again.status ?? 1);
+}
 const argv = process.argv.slice(2);
 const opt = (name: string, dflt: string) => {
   const i = argv.indexOf(`--${name}`);
@@ -110,4 +119,4 @@ const worst = rows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
 console.log(`photos ${rows.length}; read and decode: medians of ${runs} rounds after a warm-up (${warm === "all" ? "every photo read once" : "the first photo"}); decode = sharp decode + downscale to the working size`);
 console.log("ratio = median read / median decode; fastest = fastest read / fastest decode (the machine's noise left out)");
 console.log(`mean ratio ${mean.toFixed(2)} (target ≤ 1.5); worst ${worst.ratio.toFixed(2)} (${worst.name}; target ≤ 3)`);
-console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB`);
+console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB; V8 flags of a reader process: ${READER_V8_FLAGS.join(" ")}`);
