@@ -1,6 +1,6 @@
 // Connected components and candidate scoring on small synthetic masks.
 import { describe, expect, it } from "vitest";
-import { brightCandidates, components, kthLargestAbove, scoreCandidate } from "./bright-components";
+import { brightCandidates, components, componentsOfRuns, kthLargestAbove, runsAbove, scoreCandidate, type Runs } from "./bright-components";
 import { parseChart } from "./chart";
 
 const chart = parseChart({
@@ -120,5 +120,26 @@ describe("kthLargestAbove", () => {
   });
   it("is NaN when fewer than k values lie above the floor", () => {
     expect(kthLargestAbove(Float32Array.from([0.5, 2, 3]), 1, 3)).toBeNaN();
+  });
+});
+
+describe("runsAbove within a lower level's runs", () => {
+  it("gives the same runs as a scan of every row, level after level, and the same components", () => {
+    let seed = 777;
+    const rand = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    for (let trial = 0; trial < 10; trial++) {
+      const w = 15 + Math.floor(rand() * 70), h = 8 + Math.floor(rand() * 40);
+      const v = new Float32Array(w * h).map(() => rand());
+      for (let pass = 0; pass < trial % 3; pass++) for (let i = 1; i < w * h; i++) v[i] = (v[i] + v[i - 1]) / 2;
+      let below: Runs | undefined;
+      for (const t of [0.2, 0.35, 0.5, 0.6, 0.8]) {
+        const alone = runsAbove(v, t, w, h);
+        below = runsAbove(v, t, w, h, below);
+        expect([...below.rowStart]).toEqual([...alone.rowStart]);
+        expect([...below.x.subarray(0, 2 * below.rowStart[h])]).toEqual([...alone.x.subarray(0, 2 * alone.rowStart[h])]);
+        expect(below.pixels).toBe(alone.pixels);
+        expect(componentsOfRuns(below, 1)).toEqual(components(v, t, w, h, 1));
+      }
+    }
   });
 });

@@ -8,24 +8,76 @@ import { boxMean, type SearchCopy } from "./search-copy";
 /** Union-find parents and moments per provisional label, kept between calls (grown as needed). */
 let parentBuffer = new Int32Array(1024);
 let momentBuffer = new Float64Array(1024 * 6);
-/** Runs of the previous and the current row (start, end inclusive, label), kept between calls. */
-let runBuffer = new Int32Array(0);
+/** Labels of the previous and the current row's runs, kept between calls. */
+let labelBuffer = new Int32Array(0);
 
 /** Σ k² for k = 0 … n (0 for n < 0). */
 const sumSquares = (n: number) => (n < 0 ? 0 : (n * (n + 1) * (2 * n + 1)) / 6);
 
 /**
+ * Runs of pixels above a threshold, row by row: row y's runs are runs[rowStart[y]] …
+ * runs[rowStart[y + 1] − 1], each a start and an end x (inclusive) at runs[2k], runs[2k + 1].
+ */
+export type Runs = { h: number; rowStart: Int32Array; x: Int32Array; pixels: number };
+
+/**
+ * The runs of the pixels of `values` above `threshold`. Within the runs of a lower threshold when
+ * given (a pixel above this one is above that one too, so only their pixels are looked at: the
+ * levels of a ladder each cost what lies above the one below), else over every row (a row whose
+ * maximum `rowMax` gives is not above the threshold is skipped). Into `into` when it is large enough.
+ */
+export function runsAbove(values: Float32Array, threshold: number, w: number, h: number, within?: Runs, rowMax?: Float32Array, into?: Runs): Runs {
+  const rowStart = into && into.rowStart.length >= h + 1 ? into.rowStart : new Int32Array(h + 1);
+  // At most ⌈w/2⌉ runs per row; within runs of a lower level, at most ⌈L/2⌉ in a run of L pixels.
+  const cap = 2 * (within ? Math.ceil((within.pixels + within.rowStart[within.h]) / 2) : h * Math.ceil(w / 2));
+  const x = into && into.x.length >= cap ? into.x : new Int32Array(Math.max(2, cap));
+  let n = 0, pixels = 0;
+  for (let y = 0; y < h; y++) {
+    rowStart[y] = n;
+    const row = y * w;
+    if (within) {
+      for (let k = within.rowStart[y], end = within.rowStart[y + 1]; k < end; k++) {
+        const x1 = within.x[2 * k + 1];
+        for (let i = within.x[2 * k]; i <= x1; i++) {
+          if (!(values[row + i] > threshold)) continue;
+          const x0 = i;
+          while (i < x1 && values[row + i + 1] > threshold) i++;
+          (x[2 * n] = x0), (x[2 * n + 1] = i), n++, (pixels += i - x0 + 1);
+        }
+      }
+    } else if (!rowMax || rowMax[y] > threshold)
+      for (let i = 0; i < w; i++) {
+        if (!(values[row + i] > threshold)) continue;
+        const x0 = i;
+        while (i + 1 < w && values[row + i + 1] > threshold) i++;
+        (x[2 * n] = x0), (x[2 * n + 1] = i), n++, (pixels += i - x0 + 1);
+      }
+  }
+  rowStart[h] = n;
+  return { h, rowStart, x, pixels };
+}
+
+/**
  * Connected components (4-connected) of the pixels of `values` above `threshold`, with their
- * image moments, in one pass over runs: each row's runs of pixels above the threshold join the
- * runs above them that they overlap, and a run adds its moments in closed form (its pixels are
- * consecutive x at one y). Each component comes back as its moment rectangle (centre, angle,
- * length, width, pixel count), in the raster order of its first pixel.
+ * image moments (see componentsOfRuns).
  */
 export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number, rowMax?: Float32Array): StripCandidate[] {
-  // At most ⌈w/2⌉ runs per row; two rows of (start, end, label).
-  if (runBuffer.length < 6 * (w + 1)) runBuffer = new Int32Array(6 * (w + 1));
-  let prev = runBuffer.subarray(0, 3 * (w + 1)), cur = runBuffer.subarray(3 * (w + 1), 6 * (w + 1));
-  let nPrev = 0;
+  return componentsOfRuns(runsAbove(values, threshold, w, h, undefined, rowMax), minArea);
+}
+
+/**
+ * Connected components (4-connected) of rows of runs, with their image moments, in one pass: each
+ * row's runs join the runs above them that they overlap, and a run adds its moments in closed
+ * form (its pixels are consecutive x at one y). Each component comes back as its moment rectangle
+ * (centre, angle, length, width, pixel count), in the raster order of its first pixel.
+ */
+export function componentsOfRuns(runs: Runs, minArea: number): StripCandidate[] {
+  const { h, rowStart, x: rx } = runs;
+  let widest = 0;
+  for (let y = 0; y < h; y++) widest = Math.max(widest, rowStart[y + 1] - rowStart[y]);
+  if (labelBuffer.length < 2 * widest) labelBuffer = new Int32Array(2 * widest);
+  // Labels of the previous row's runs and of the current row's.
+  let prevLab = labelBuffer.subarray(0, widest), curLab = labelBuffer.subarray(widest, 2 * widest);
   let cap = parentBuffer.length;
   let parent = parentBuffer;
   // Per label: count, Σx, Σy, Σx², Σy², Σxy (zeroed as each label is opened).
@@ -36,23 +88,17 @@ export function components(values: Float32Array, threshold: number, w: number, h
   };
   let next = 1;
   for (let y = 0; y < h; y++) {
-    // A row with nothing above the threshold (its maximum given) holds no run.
-    if (rowMax && !(rowMax[y] > threshold)) {
-      nPrev = 0;
-      continue;
-    }
-    const row = y * w;
-    let nCur = 0, j = 0; // j: the first run above that may still overlap
-    for (let x = 0; x < w; x++) {
-      if (!(values[row + x] > threshold)) continue;
-      const x0 = x;
-      while (x + 1 < w && values[row + x + 1] > threshold) x++;
-      const x1 = x;
+    const r0 = rowStart[y], r1 = rowStart[y + 1];
+    // The runs above (none on the first row).
+    const p0 = y > 0 ? rowStart[y - 1] : r0, nPrev = y > 0 ? r0 - p0 : 0;
+    let j = 0; // the first run above that may still overlap
+    for (let r = r0; r < r1; r++) {
+      const x0 = rx[2 * r], x1 = rx[2 * r + 1];
       // Runs above overlapping [x0, x1]: those ending at x0 or later and starting at x1 or before.
-      while (j < nPrev && prev[3 * j + 1] < x0) j++;
+      while (j < nPrev && rx[2 * (p0 + j) + 1] < x0) j++;
       let lab = 0;
-      for (let k = j; k < nPrev && prev[3 * k] <= x1; k++) {
-        const other = find(prev[3 * k + 2]);
+      for (let k = j; k < nPrev && rx[2 * (p0 + k)] <= x1; k++) {
+        const other = find(prevLab[k]);
         if (!lab) lab = other;
         else if (other !== lab) {
           const root = other < lab ? other : lab;
@@ -75,10 +121,7 @@ export function components(values: Float32Array, threshold: number, w: number, h
         moments.fill(0, next * 6, next * 6 + 6);
         lab = next++;
       }
-      cur[3 * nCur] = x0;
-      cur[3 * nCur + 1] = x1;
-      cur[3 * nCur + 2] = lab;
-      nCur++;
+      curLab[r - r0] = lab;
       const n = x1 - x0 + 1, sx = (n * (x0 + x1)) / 2;
       const o = lab * 6;
       moments[o] += n;
@@ -88,8 +131,7 @@ export function components(values: Float32Array, threshold: number, w: number, h
       moments[o + 4] += n * y * y;
       moments[o + 5] += sx * y;
     }
-    [prev, cur] = [cur, prev];
-    nPrev = nCur;
+    [prevLab, curLab] = [curLab, prevLab];
   }
   for (let r = next - 1; r >= 1; r--) {
     const root = find(r);
@@ -165,8 +207,9 @@ export function kthLargestAbove(values: Float32Array, floor: number, k: number):
   return n === k ? heap[0] : NaN;
 }
 
-/** The whiteness-to-background ratio, kept between searches. */
+/** The whiteness-to-background ratio, and the runs of each level of the ladder, kept between searches. */
 let ratioBuffer = new Float32Array(0);
+const runStore: Runs[] = [];
 
 /**
  * Candidates at one background scale (the box mean's radius is the long side / `div`), best
@@ -195,8 +238,17 @@ export function brightCandidates(s: SearchCopy, chart: StripChart, div: number):
   const top = Number.isNaN(kth) ? 0 : (Math.min(511, Math.floor(Math.log(kth) * 200)) + 0.5) / 200;
   const ladder = div === 16 ? [0.04, 0.07, 0.11, 0.17, 0.26, 0.4, 0.6] : [0.03, 0.06, 0.1, 0.16, 0.25];
   const thresholds = [...ladder, top * 0.35, top * 0.55].filter((t) => t > 0.02 && t < top);
+  // Each level's runs from those of the level below it (lowest first); the components are then
+  // taken level by level in the ladder's order.
+  const byLevel = new Map<number, Runs>();
+  let below: Runs | undefined;
+  [...thresholds].sort((a, b) => a - b).forEach((t, k) => {
+    if (runStore.length <= k) runStore.push({ h: 0, rowStart: new Int32Array(0), x: new Int32Array(0), pixels: 0 });
+    below = runStore[k] = runsAbove(ratio, Math.exp(t), w, h, below, rowMax, runStore[k]);
+    byLevel.set(t, below);
+  });
   for (const t of thresholds) {
-    for (const c of components(ratio, Math.exp(t), w, h, minArea, rowMax)) {
+    for (const c of componentsOfRuns(byLevel.get(t)!, minArea)) {
       c.score = scoreCandidate(c, chart);
       if (c.score > 0) cands.push(c);
     }
