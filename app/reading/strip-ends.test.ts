@@ -3,7 +3,8 @@ import { describe, expect, it } from "vitest";
 import { drawScene, type SceneStrip } from "../../tests/reading/strip-scene";
 import { alongProfile } from "./axis-profile";
 import { plasticDifference } from "./plastic-difference";
-import { endsFromEdges, walkEnd } from "./strip-ends";
+import type { Profile } from "./axis-profile";
+import { endShowsAt, endsFromEdges, walkEnd } from "./strip-ends";
 
 const strip: SceneStrip = {
   cx: 200, cy: 100, angleDeg: 0, pxPerMm: 3.5, widthMm: 5, lengthMm: 80, color: [244, 243, 239],
@@ -53,5 +54,31 @@ describe("plasticDifference", () => {
     expect(d.meanBetween(tipT + 4 * 3.5 - 5, tipT + 4 * 3.5 + 5)).toBeGreaterThan(50);
     expect(d.meanBetween(0, 60)).toBeLessThan(2);
     expect(d.bare[0]).toBeCloseTo(244, 0);
+  });
+});
+
+describe("endShowsAt", () => {
+  // A profile 1 px a sample from t = −100: the strip's presence (30) from t = −100 to 0, then
+  // surface (2) to 40, then a dark line across the surface (60) from 40 to 52, then surface.
+  const values = Float32Array.from({ length: 260 }, (_, i) => {
+    const t = i - 100;
+    return t < 0 ? 30 : t < 40 ? 2 : t < 52 ? 60 : 2;
+  });
+  const profile = { t0: -100, n: 260, valid: new Uint8Array(260).fill(1) } as unknown as Profile;
+
+  it("sees the end where the placement puts it, the walk from just inside stopping there", () => {
+    expect(endShowsAt(profile, values, 10, -5, 0, 2, 3, 20)).toBe(true);
+    // A walk that bridges gaps as long as a pad runs on into the line: the end it gives is the line's.
+    expect(walkEnd(profile, values, 10, 45, 1).end).toBeGreaterThan(50);
+  });
+  it("does not see it where the placement puts the end a pad beyond the strip or inside it", () => {
+    // The placed end out on the surface: the walk starts off the strip.
+    expect(endShowsAt(profile, values, 10, 20, 25, 2, 3, 20)).toBe(false);
+    // The placed end well inside the strip: the walk runs on past it to the true end.
+    expect(endShowsAt(profile, values, 10, -30, -25, 2, 3, 20)).toBe(false);
+  });
+  it("does not see it where the values come back soon after (a gap in the strip, not its end)", () => {
+    const gap = values.map((v, i) => (i - 100 >= 4 && i - 100 < 40 ? 30 : v));
+    expect(endShowsAt(profile, gap, 10, -5, 0, 2, 3, 20)).toBe(false);
   });
 });

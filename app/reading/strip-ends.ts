@@ -60,3 +60,34 @@ export function endsFromEdges(profile: Profile, axisLength: number, maxGap: numb
   }
   return null;
 }
+
+/**
+ * Whether the strip's end shows where a placement puts it (`endT`): walked from `fromT` (on the
+ * strip, a little inside that end: the plastic before the first pad) towards it while `values`
+ * stays above `threshold` (runs below it of at most `maxGap` px bridged), the walk stops within
+ * `tolerance` px of `endT`, and beyond it the values stay below the threshold over most of
+ * `clear` px (surface, not a pale pad or a gap in the strip). For pads placed from their colours
+ * alone (a strip whose walked ends ran on into a line across the surface): the end seen where the
+ * pads say it is.
+ */
+export function endShowsAt(profile: Profile, values: Float32Array, threshold: number, fromT: number, endT: number, maxGap: number, tolerance: number, clear: number): boolean {
+  const dir = endT >= fromT ? 1 : -1;
+  const at = (t: number) => Math.round(t - profile.t0);
+  const i0 = at(fromT);
+  if (i0 < 0 || i0 >= profile.n || !profile.valid[i0] || !(values[i0] > threshold)) return false;
+  let last = i0, below = 0, i = i0;
+  for (; ; i += dir) {
+    if (i < 0 || i >= profile.n || !profile.valid[i]) return false;
+    if (values[i] > threshold) (last = i), (below = 0);
+    else if (++below > maxGap) break;
+  }
+  if (Math.abs(profile.t0 + last + dir * 0.5 - endT) > tolerance) return false;
+  let n = 0, low = 0;
+  for (let k = 1; k <= clear; k++) {
+    const j = last + dir * k;
+    if (j < 0 || j >= profile.n || !profile.valid[j]) break;
+    n++;
+    if (!(values[j] > threshold)) low++;
+  }
+  return n >= clear * 0.8 && low >= 0.8 * n;
+}

@@ -9,7 +9,7 @@ import { plasticDifference, type PlasticDifference } from "./plastic-difference"
 import { applyMap } from "./projective-1d";
 import { median } from "./stats";
 import { CLOSE, refineAxis } from "./strip-axis";
-import { endsFromEdges, middleValues, walkEnd } from "./strip-ends";
+import { endShowsAt, endsFromEdges, middleValues, walkEnd } from "./strip-ends";
 import { axisFromPads } from "./pad-width";
 import { fitStripPlane, planePoint } from "./strip-plane";
 
@@ -127,8 +127,12 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     chosenCost = costs[rivals.indexOf(best)] ?? placementColourCost(chart, layout, profile, diff.bare, best);
   } else chosenCost = placementColourCost(chart, layout, profile, diff.bare, best);
   if (!lengthOk) warnings.push("The strip in the photo is not the length the chart describes; the pads were placed from its width.");
-  if (free) doubts.push("neither end of the strip could be seen clearly, so the pads were placed from their colours alone");
   const s = pxPerMm(best);
+  // Pads placed from their colours alone whose tip's end shows just where they put it (the walk
+  // ran on past it into a line across the surface): that end is seen.
+  const firstPadMm = Math.min(...layout.pads.map((p) => p[0]));
+  const tipSeen = free && endShowsAt(profile, profile.presence, threshold, tAt(best, firstPadMm / 2), tAt(best, 0), Math.max(2, 0.3 * s), Math.max(3, s), 2 * s);
+  if (free && !tipSeen) doubts.push("neither end of the strip could be seen clearly, so the pads were placed from their colours alone");
   const widthMm = chart.strip.widthMm;
   // Searched for anywhere along the axis, the best of many placements must stand out further.
   const convincing = free ? best.score >= Math.max(10, 2 * best.gapScore) : best.score >= Math.max(4, best.gapScore);
@@ -175,7 +179,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     colourCost: chosenCost,
     axisSpan: axis.length,
     lengthOk,
-    endSeen: !free && !(plus.truncated && minus.truncated),
+    endSeen: tipSeen || (!free && !(plus.truncated && minus.truncated)),
     convincing,
     warnings,
     doubts,
