@@ -5,7 +5,7 @@
 // reads photo after photo; the first read of each kind of photo also compiles its code paths).
 // `--warm first` warms up on the first photo only, as a process that has read one photo.
 //
-//   npm run bench:reading [-- --runs N (rounds, 7)] [-- --real DIR] [-- --warm all|first]
+//   npm run bench:reading [-- --runs N (rounds, 7)] [-- --real DIR] [-- --warm all|first] [-- --plain-node]
 //
 // Photos: synthetic strips rendered by tests/render at several sizes (up to 12 MP), and the real
 // photos in ../shared/eval/real (read where they lie at run time, never copied) when present.
@@ -24,7 +24,8 @@ import { asRenderChart } from "../render/types";
 
 // The figures are those of a reader process (app/jobs/read-pool.ts): started again with its V8
 // flags when run without them.
-if (!READER_V8_FLAGS.every((f) => process.execArgv.includes(f))) {
+// `--plain-node` runs without them (to compare).
+if (!process.argv.includes("--plain-node") && !READER_V8_FLAGS.every((f) => process.execArgv.includes(f))) {
   const again = spawnSync(process.execPath, [...READER_V8_FLAGS, ...process.execArgv, ...process.argv.slice(1)], { stdio: "inherit" });
   process.exit(again.status ?? 1);
 }
@@ -119,4 +120,5 @@ const worst = rows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
 console.log(`photos ${rows.length}; read and decode: medians of ${runs} rounds after a warm-up (${warm === "all" ? "every photo read once" : "the first photo"}); decode = sharp decode + downscale to the working size`);
 console.log("ratio = median read / median decode; fastest = fastest read / fastest decode (the machine's noise left out)");
 console.log(`mean ratio ${mean.toFixed(2)} (target ≤ 1.5); worst ${worst.ratio.toFixed(2)} (${worst.name}; target ≤ 3)`);
-console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB; V8 flags of a reader process: ${READER_V8_FLAGS.join(" ")}`);
+const flags = READER_V8_FLAGS.every((f) => process.execArgv.includes(f)) ? `V8 flags of a reader process: ${READER_V8_FLAGS.join(" ")}` : "Node's default V8 flags";
+console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB; ${flags}`);
