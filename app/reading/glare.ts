@@ -32,6 +32,9 @@ export function halfSampleMode(sorted: ArrayLike<number>): number {
   return n === 2 ? (sorted[lo] + sorted[lo + 1]) / 2 : sorted[lo];
 }
 
+/** Work arrays kept from one region to the next (grown as needed). */
+const kept = { level: new Float32Array(0), sorted: new Float32Array(0) };
+
 /** Noise multiples above the pad's own level beyond which a pixel counts as glare. */
 const GLARE_SIGMAS = 3;
 /** …and never less than this share of the level (the pad's own texture). */
@@ -49,14 +52,16 @@ const EVIDENT_GLARE = 1.5;
 export function markAdditiveGlare(linear: Float32Array, usable: Uint8Array, lamp: readonly number[], glare: Uint8Array): number {
   const n = usable.length;
   const lr = lamp[0] > 0 ? 1 / lamp[0] : 0, lg = lamp[1] > 0 ? 1 / lamp[1] : 0, lb = lamp[2] > 0 ? 1 / lamp[2] : 0;
-  const level = new Float32Array(n);
+  if (kept.level.length < n) kept.level = new Float32Array(Math.max(n, 2 * kept.level.length));
+  const level = kept.level;
   let m = 0;
   for (let k = 0; k < n; k++) {
     level[k] = (linear[3 * k] * lr + linear[3 * k + 1] * lg + linear[3 * k + 2] * lb) / 3;
     if (usable[k]) m++;
   }
   if (m < 8) return -1;
-  const sorted = new Float32Array(m);
+  if (kept.sorted.length < m) kept.sorted = new Float32Array(Math.max(m, 2 * kept.sorted.length));
+  const sorted = kept.sorted.subarray(0, m);
   for (let k = 0, j = 0; k < n; k++) if (usable[k]) sorted[j++] = level[k];
   sorted.sort();
   const own = halfSampleMode(sorted);

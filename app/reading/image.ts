@@ -160,9 +160,26 @@ export type SampleOptions = {
   lamp?: Rgb;
 };
 
+/**
+ * Work arrays of region samples, kept from one region to the next (grown as needed): a read
+ * samples a dozen regions of thousands of pixels each, whose arrays would otherwise be garbage.
+ */
+const scratch = { idx: new Int32Array(0), f32: Array.from({ length: 5 }, () => new Float32Array(0)), lin: new Float32Array(0), u8: [new Uint8Array(0), new Uint8Array(0), new Uint8Array(0), new Uint8Array(0)] };
+/** The k-th kept Float32Array of at least n values (its first n, as a view). */
+function f32(k: number, n: number): Float32Array {
+  if (scratch.f32[k].length < n) scratch.f32[k] = new Float32Array(Math.max(n, 2 * scratch.f32[k].length));
+  return scratch.f32[k].subarray(0, n);
+}
+/** The k-th kept Uint8Array of at least n values, zeroed. */
+function u8(k: number, n: number): Uint8Array {
+  if (scratch.u8[k].length < n) scratch.u8[k] = new Uint8Array(Math.max(n, 2 * scratch.u8[k].length));
+  return scratch.u8[k].subarray(0, n).fill(0);
+}
+
 /** The region's glare as the lamp's light added to the pad's (glare.ts); null when none shows. */
 function additiveGlare(data: Uint8Array, idx: Int32Array, n: number, clipped: Uint8Array, lamp: Rgb): Uint8Array | null {
-  const lin = new Float32Array(3 * n), usable = new Uint8Array(n), glare = new Uint8Array(n);
+  if (scratch.lin.length < 3 * n) scratch.lin = new Float32Array(Math.max(3 * n, 2 * scratch.lin.length));
+  const lin = scratch.lin.subarray(0, 3 * n), usable = u8(2, n), glare = u8(3, n);
   for (let k = 0; k < n; k++) {
     const o = idx[k];
     (lin[3 * k] = SRGB8_TO_LINEAR[data[o]]), (lin[3 * k + 1] = SRGB8_TO_LINEAR[data[o + 1]]), (lin[3 * k + 2] = SRGB8_TO_LINEAR[data[o + 2]]);
@@ -189,21 +206,28 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
   const sx0 = corners.map((c) => c[0]), sy0 = corners.map((c) => c[1]);
   const sdx = corners.map((c, i) => corners[(i + 1) % 4][0] - c[0]), sdy = corners.map((c, i) => corners[(i + 1) % 4][1] - c[1]);
   const cap = (ix1 - ix0 + 1) * (iy1 - iy0 + 1);
-  const idx = new Int32Array(cap);
+  if (scratch.idx.length < cap) scratch.idx = new Int32Array(Math.max(cap, 2 * scratch.idx.length));
+  const idx = scratch.idx;
   let n = 0;
+  // A pixel centre inside all four sides' half-planes. Their intersection is convex, so on each
+  // row the pixels inside form one run: found from both ends, and every pixel between taken.
+  const inside = (px: number, py: number) => {
+    for (let i = 0; i < 4; i++) if (sgn * (sdx[i] * (py - sy0[i]) - sdy[i] * (px - sx0[i])) < 0) return false;
+    return true;
+  };
   for (let y = iy0; y <= iy1; y++) {
     const py = y + 0.5;
-    for (let x = ix0; x <= ix1; x++) {
-      const px = x + 0.5;
-      let inside = true;
-      for (let i = 0; i < 4 && inside; i++) if (sgn * (sdx[i] * (py - sy0[i]) - sdy[i] * (px - sx0[i])) < 0) inside = false;
-      if (inside) idx[n++] = (y * W + x) * 3;
-    }
+    let xa = ix0;
+    while (xa <= ix1 && !inside(xa + 0.5, py)) xa++;
+    if (xa > ix1) continue;
+    let xb = ix1;
+    while (xb > xa && !inside(xb + 0.5, py)) xb--;
+    for (let x = xa, o = (y * W + xa) * 3; x <= xb; x++, o += 3) idx[n++] = o;
   }
   if (n === 0) return null;
   // first pass: clipping, luminance and chroma
-  const Y = new Float32Array(n), C = new Float32Array(n);
-  const clipped = new Uint8Array(n);
+  const Y = f32(0, n), C = f32(1, n);
+  const clipped = u8(0, n);
   let nClip = 0;
   for (let k = 0; k < n; k++) {
     const o = idx[k];
@@ -215,7 +239,7 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     C[k] = (mx - mn) / (mx + 1);
   }
   const medY = quantileOf(Y, 0.5), medC = quantileOf(C, 0.5);
-  const keep = new Uint8Array(n);
+  const keep = u8(1, n);
   let nGlare = 0, nKeep = 0;
   const lampGlare = opts.lamp ? additiveGlare(data, idx, n, clipped, opts.lamp) : null;
   if (lampGlare) {
@@ -252,7 +276,7 @@ export function sampleQuad(img: RgbImage, corners: [number, number][], opts: Sam
     counts[512 + data[o + 2]]++;
   }
   const ch = [0, 1, 2].map((c) => {
-    const sorted = new Float32Array(nKeep);
+    const sorted = f32(2 + c, nKeep);
     for (let v = 0, m = 0; v < 256; v++) sorted.fill(SRGB8_TO_LINEAR[v], m, (m += counts[c * 256 + v]));
     return sorted;
   });
