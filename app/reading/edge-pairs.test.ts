@@ -2,7 +2,7 @@
 // a bright patch beside it (so that thresholded components cannot separate it).
 import { describe, expect, it } from "vitest";
 import { parseChart } from "./chart";
-import { boxBlur3, edgePairCandidates, logInto } from "./edge-pairs";
+import { boxBlur3, edgePairCandidates, logBlur3, logInto } from "./edge-pairs";
 
 const chart = parseChart({
   format: "strip-chart/1",
@@ -58,6 +58,19 @@ describe("boxBlur3", () => {
     const col = Float32Array.from([3, 6, 9]);
     boxBlur3(col, 1, 3);
     expect([...col]).toEqual([4.5, 6, 7.5]);
+  });
+});
+
+describe("logBlur3", () => {
+  it("gives the blur of the logarithms exactly, as logInto then boxBlur3 do", () => {
+    for (const [w, h] of [[1, 1], [1, 4], [5, 1], [7, 5], [40, 30]]) {
+      const src = new Float32Array(w * h).map((_, i) => 0.002 + ((i * 7919) % 1000) / 1000);
+      const a = new Float32Array(w * h), b = new Float32Array(w * h);
+      logInto(src, a);
+      boxBlur3(a, w, h);
+      logBlur3(src, w, h, b);
+      expect([...b]).toEqual([...a]);
+    }
   });
 });
 

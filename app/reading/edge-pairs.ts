@@ -25,7 +25,16 @@ const LOG_MANTISSA = (() => {
   for (let k = 0; k <= LOG_STEPS; k++) t[k] = Math.log1p(k / LOG_STEPS);
   return t;
 })();
-let logBits = new Int32Array(1);
+
+/** ln of the float32 whose bits are b (see logInto). */
+function lnOfBits(b: number): number {
+  const t = LOG_MANTISSA, k = (b >>> LOW_BITS) & (LOG_STEPS - 1);
+  return ((b >>> 23) - 127) * Math.LN2 + t[k] + (t[k + 1] - t[k]) * (b & LOW_MASK) * LOW_SCALE;
+}
+const LOW_BITS = 23 - LOG_BITS, LOW_MASK = (1 << LOW_BITS) - 1, LOW_SCALE = 1 / (1 << LOW_BITS);
+
+/** The bits of a Float32Array's values, read in place. */
+const bitsOf = (a: Float32Array) => new Int32Array(a.buffer, a.byteOffset, a.length);
 
 /**
  * Natural logarithms of positive float32 values, from their bits: the exponent times ln 2 plus
@@ -33,17 +42,26 @@ let logBits = new Int32Array(1);
  * float32's own rounding; several times faster on a whole search copy).
  */
 export function logInto(src: Float32Array, out: Float32Array) {
-  const n = src.length;
-  if (logBits.length < n) logBits = new Int32Array(n);
-  const bits = logBits;
-  new Float32Array(bits.buffer, 0, n).set(src);
-  const t = LOG_MANTISSA, low = 23 - LOG_BITS, lowScale = 1 / (1 << low), lowMask = (1 << low) - 1;
-  for (let i = 0; i < n; i++) {
-    const b = bits[i];
-    const k = (b >>> low) & (LOG_STEPS - 1), f = (b & lowMask) * lowScale;
-    out[i] = ((b >>> 23) - 127) * Math.LN2 + t[k] + (t[k + 1] - t[k]) * f;
-  }
+  const bits = bitsOf(src);
+  for (let i = 0; i < src.length; i++) out[i] = lnOfBits(bits[i]);
 }
+
+/**
+ * The 3 × 3 box blur (boxBlur3) of the logarithms (logInto) of `src`, into `out`: each row's
+ * logarithms are taken into a row of their own and blurred along the row from there, so that no
+ * plane of logarithms is written and read again.
+ */
+export function logBlur3(src: Float32Array, w: number, h: number, out: Float32Array) {
+  if (blurBuffer.length < w * h) blurBuffer = new Float32Array(w * h);
+  if (logRow.length < w) logRow = new Float32Array(w);
+  const bits = bitsOf(src), row = logRow;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0, i = y * w; x < w; x++, i++) row[x] = lnOfBits(bits[i]);
+    blurRow(row, 0, w, blurBuffer, y * w);
+  }
+  blurColumns(blurBuffer, w, h, out);
+}
+let logRow = new Float32Array(0);
 
 /** Scratch kept between searches: the per-pixel planes, the Hough accumulator, the blur's row pass. */
 let planes = new Float32Array(0), houghBuffer = new Float32Array(0), blurBuffer = new Float32Array(0);
@@ -56,10 +74,10 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   // megabytes of garbage behind): log whiteness and gradient magnitude.
   if (planes.length < 2 * n) planes = new Float32Array(2 * n);
   const L = planes.subarray(0, n);
-  logInto(whiteness, L);
-  // A 3 × 3 box blur first: a woven or grained surface's fine texture would otherwise scatter the
-  // direction of a faint edge (a strip barely lighter or darker than the surface) over many angles.
-  boxBlur3(L, w, h);
+  // Log whiteness, with a 3 × 3 box blur: a woven or grained surface's fine texture would otherwise
+  // scatter the direction of a faint edge (a strip barely lighter or darker than the surface) over
+  // many angles.
+  logBlur3(whiteness, w, h, L);
   // Sobel gradient; edge pixels: the strongest few per cent, above a floor.
   const mag = planes.subarray(n, 2 * n);
   // The border keeps no gradient (read as a neighbour by the thinning below).
@@ -246,18 +264,23 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
 /** In-place 3 × 3 box blur (edges: the pixels inside the image only). */
 export function boxBlur3(a: Float32Array, w: number, h: number) {
   if (blurBuffer.length < w * h) blurBuffer = new Float32Array(w * h);
-  const tmp = blurBuffer;
-  // The borders apart, so that the inner loops test nothing (sums in the same order throughout).
-  for (let y = 0; y < h; y++) {
-    const r = y * w;
-    if (w === 1) {
-      tmp[r] = a[r];
-      continue;
-    }
-    tmp[r] = (a[r] + a[r + 1]) / 2;
-    for (let i = r + 1, end = r + w - 1; i < end; i++) tmp[i] = (a[i] + a[i - 1] + a[i + 1]) / 3;
-    tmp[r + w - 1] = (a[r + w - 1] + a[r + w - 2]) / 2;
+  for (let y = 0; y < h; y++) blurRow(a, y * w, w, blurBuffer, y * w);
+  blurColumns(blurBuffer, w, h, a);
+}
+
+/** One row of w values from src[from] blurred along the row into out[to] (the borders apart, so that the inner loop tests nothing). */
+function blurRow(src: Float32Array, from: number, w: number, out: Float32Array, to: number) {
+  if (w === 1) {
+    out[to] = src[from];
+    return;
   }
+  out[to] = (src[from] + src[from + 1]) / 2;
+  for (let x = 1, i = from + 1; x < w - 1; x++, i++) out[to + x] = (src[i] + src[i - 1] + src[i + 1]) / 3;
+  out[to + w - 1] = (src[from + w - 1] + src[from + w - 2]) / 2;
+}
+
+/** The rows' blur (tmp) blurred down the columns into a (sums in the same order as the rows'). */
+function blurColumns(tmp: Float32Array, w: number, h: number, a: Float32Array) {
   if (h === 1) {
     a.set(tmp.subarray(0, w));
     return;
