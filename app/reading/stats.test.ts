@@ -32,4 +32,16 @@ describe("median", () => {
     expect(median([4, 1, 3, 2])).toBe(2.5);
     expect(median([])).toBeNaN();
   });
+  it("equals the sorted list's middle on random lists with ties, odd and even lengths, NaN and infinities", () => {
+    let seed = 23;
+    const rnd = () => (seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31;
+    for (let t = 0; t < 300; t++) {
+      const n = 1 + Math.floor(rnd() * 40);
+      const a = Array.from({ length: n }, () => (rnd() < 0.3 ? Math.floor(rnd() * 4) : rnd() * 10 - 5));
+      if (t % 10 === 0) a[0] = NaN;
+      if (t % 7 === 0) a[n - 1] = -Infinity;
+      const s = Float64Array.from(a).sort(), m = n >> 1;
+      expect(median(a)).toBe(n % 2 ? s[m] : (s[m - 1] + s[m]) / 2);
+    }
+  });
 });

@@ -2,11 +2,22 @@
 
 /** Median of a list (NaN for an empty list). */
 export function median(a: readonly number[]): number {
-  if (!a.length) return NaN;
-  // A typed copy sorts numerically without a comparator call per step.
-  const s = Float64Array.from(a).sort();
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+  const n = a.length;
+  if (!n) return NaN;
+  const s = Float64Array.from(a);
+  const m = n >> 1;
+  for (let i = 0; i < n; i++)
+    if (s[i] !== s[i]) {
+      // NaN among them: the sorted list's middle, as a sort orders them (NaN last).
+      s.sort();
+      return n % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+    }
+  // By selection (no full sort): the value of rank m, and for an even count the largest below it.
+  select(s, m);
+  if (n % 2) return s[m];
+  let below = -Infinity;
+  for (let k = 0; k < m; k++) if (s[k] > below) below = s[k];
+  return (below + s[m]) / 2;
 }
 
 /**
@@ -28,7 +39,7 @@ export function quantileOf(values: Float32Array, q: number): number {
 }
 
 /** Reorders `a` so that a[k] is the value of rank k, smaller ones before it and larger after (quickselect). */
-function select(a: Float32Array, k: number) {
+function select(a: Float32Array | Float64Array, k: number) {
   let lo = 0, hi = a.length - 1;
   while (hi > lo) {
     // Median of three as the pivot.
