@@ -9,7 +9,8 @@
 //   -> CIELAB D65 and sRGB hex per cell.
 // Pure: no database, no HTTP. Coordinates are in the original photo's pixels.
 import { deltaE2000, hexToRgb, labToHex, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, correctLinear, type Lab, type Rgb, type WhiteCorrection } from "./colour";
-import { decodePhoto, sampleQuad, type RgbImage } from "./image";
+import { decodePhoto, type RgbImage } from "./image";
+import { sampleQuad } from "./region-sample";
 import type { StripChart } from "./chart";
 
 export type Point = [number, number];

@@ -3,7 +3,8 @@
 import { describe, expect, it } from "vitest";
 import { deltaE2000, linearRgbToLab, linearToSrgb, srgbToLinear, type Rgb } from "./colour";
 import { halfSampleMode, markAdditiveGlare } from "./glare";
-import { sampleQuad, type RgbImage } from "./image";
+import type { RgbImage } from "./image";
+import { sampleQuad } from "./region-sample";
 
 describe("halfSampleMode", () => {
   it("finds the dense cluster under a long tail on one side", () => {

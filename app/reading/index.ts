@@ -16,7 +16,8 @@ import { judgeStrip, type PadReading } from "./judge";
 import { matchSwatches } from "./match";
 import { measurePads, type PadMeasurement } from "./measure-pads";
 
-export { ReadingError, sampleQuad, decodePhoto, type RegionSample, type RgbImage } from "./image";
+export { ReadingError, decodePhoto, type RgbImage } from "./image";
+export { sampleQuad, type RegionSample } from "./region-sample";
 export { whiteCorrectionMatrix, correctLinear, bradfordMatrix } from "./colour";
 export { parseChart, exportChart, ChartError, type StripChart, type ChartPad } from "./chart";
 export { matchSwatches } from "./match";

@@ -2,7 +2,8 @@ import { describe, expect, it } from "vitest";
 import { parseChart } from "./chart";
 import { deltaE2000, hexToRgb, linearToSrgb, srgbToLinear } from "./colour";
 import type { StripGeometry } from "./geometry";
-import { sampleQuad, type RgbImage } from "./image";
+import type { RgbImage } from "./image";
+import { sampleQuad } from "./region-sample";
 import { consistentBare, measurePads, quadAt } from "./measure-pads";
 
 // A small synthetic strip (invented colours): horizontal, 20 px wide, one pad at x 90–110, the

@@ -4,7 +4,8 @@
 import type { StripChart } from "./chart";
 import { correctLinear, deltaE2000, hexToRgb, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix, type Lab, type Mat3, type Rgb } from "./colour";
 import type { StripGeometry } from "./geometry";
-import { ReadingError, sampleQuad, type RegionSample, type RgbImage } from "./image";
+import { ReadingError, type RgbImage } from "./image";
+import { sampleQuad, type RegionSample } from "./region-sample";
 import { median } from "./stats";
 
 export type PadMeasurement = {
