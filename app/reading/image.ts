@@ -58,6 +58,8 @@ export type StartedDecode = {
   format?: string;
   /** A progressive (or interlaced) photo: decoded scan by scan, slower than a baseline one. */
   progressive?: boolean;
+  /** The photo embeds a colour profile: its decode converts every pixel through it to sRGB. */
+  hasProfile?: boolean;
   decoded: Promise<DecodedPhoto>;
 };
 
@@ -106,7 +108,7 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
     },
   );
   decoded.catch(() => {}); // the caller awaits it when it needs the pixels
-  return { original, working, format: meta.format, progressive: !!meta.isProgressive, decoded };
+  return { original, working, format: meta.format, progressive: !!meta.isProgressive, hasProfile: !!meta.hasProfile, decoded };
 }
 
 /** Axis-aligned square crop around a point, as a small WebP. */

@@ -17,6 +17,12 @@ describe("startDecode", () => {
       expect([image.width, image.height]).toEqual([started.working.width, started.working.height]);
     }
   });
+  it("tells a photo with an embedded colour profile from one without", async () => {
+    const plain = await grey(640, 480);
+    const profiled = await sharp(plain).withIccProfile("srgb").jpeg().toBuffer();
+    expect((await startDecode(plain)).hasProfile).toBe(false);
+    expect((await startDecode(profiled)).hasProfile).toBe(true);
+  });
 });
 
 describe("decodeSearchCopy", () => {
@@ -41,19 +47,20 @@ describe("decodeSearchCopy", () => {
 
 describe("searchDecodePays", () => {
   it("decodes the search copy apart from a photo at least twice the working size, whatever its format", () => {
-    expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 }, "png")).toBe(true);
+    expect(searchDecodePays({ width: 4032, height: 3024 }, { width: 1600, height: 1200 }, { format: "png" })).toBe(true);
     expect(searchDecodePays({ width: 3200, height: 2400 }, { width: 1600, height: 1200 })).toBe(true);
   });
-  it("from a JPEG or WebP nearer the working size only when its own decode is slow: progressive, or resized", () => {
-    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "jpeg")).toBe(true);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "jpeg", true)).toBe(true);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "webp")).toBe(false);
-    expect(searchDecodePays({ width: 1600, height: 1200 }, { width: 1600, height: 1200 }, "jpeg")).toBe(false);
-    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, "png")).toBe(false);
-    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, "tiff", true)).toBe(false);
+  it("from a JPEG or WebP nearer the working size only when its own decode is slow: progressive, resized, or colour-managed", () => {
+    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, { format: "jpeg" })).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", progressive: true })).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", hasProfile: true })).toBe(true);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "webp" })).toBe(false);
+    expect(searchDecodePays({ width: 1600, height: 1200 }, { width: 1600, height: 1200 }, { format: "jpeg" })).toBe(false);
+    expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, { format: "png", hasProfile: true })).toBe(false);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "tiff", progressive: true })).toBe(false);
   });
   it("never for a photo already about the size of a search copy", () => {
-    expect(searchDecodePays({ width: 560, height: 420 }, { width: 560, height: 420 }, "jpeg", true)).toBe(false);
+    expect(searchDecodePays({ width: 560, height: 420 }, { width: 560, height: 420 }, { format: "jpeg", progressive: true, hasProfile: true })).toBe(false);
   });
 });
 

@@ -16,21 +16,21 @@ const SHRINK_ON_LOAD = new Set(["jpeg", "webp"]);
  * Whether decoding the search copy apart from the working copy saves time. A photo at least twice
  * the working size: both decodes shrink on load and the small one costs a fraction of the working
  * one. A JPEG or WebP nearer the working size (their decoders shrink on load too): only when its
- * working decode is slow, a progressive JPEG's many scans or a resize to the working size; a
- * baseline JPEG decoded at its own size takes a few milliseconds, and a second decode beside it
- * only slows it down on a machine with few cores. Otherwise the search copy is reduced from the
- * working copy (search-copy.ts makeSearchCopy).
+ * working decode is slow, a progressive JPEG's many scans, a resize to the working size, or an
+ * embedded colour profile (every pixel converted through it to sRGB; the small copy converts a
+ * ninth or less as many); a baseline JPEG in sRGB decoded at its own size takes a few
+ * milliseconds, and a second decode beside it only slows it down on a machine with few cores.
+ * Otherwise the search copy is reduced from the working copy (search-copy.ts makeSearchCopy).
  */
 export function searchDecodePays(
   original: { width: number; height: number },
   working: { width: number; height: number },
-  format?: string,
-  progressive = false,
+  photo: Pick<StartedDecode, "format" | "progressive" | "hasProfile"> = {},
 ): boolean {
   if (searchFactor(working.width, working.height) <= 1) return false;
   const long = Math.max(original.width, original.height), workLong = Math.max(working.width, working.height);
   if (long >= 2 * workLong) return true;
-  return !!format && SHRINK_ON_LOAD.has(format) && (progressive || long > workLong);
+  return !!photo.format && SHRINK_ON_LOAD.has(photo.format) && (!!photo.progressive || !!photo.hasProfile || long > workLong);
 }
 
 /**
@@ -41,7 +41,7 @@ export function searchDecodePays(
  * Undefined when the search copy is better reduced from the working copy.
  */
 export async function earlySearch(photo: Buffer, started: StartedDecode, chart: StripChart): Promise<EarlySearch | undefined> {
-  if (!searchDecodePays(started.original, started.working, started.format, started.progressive)) return undefined;
+  if (!searchDecodePays(started.original, started.working, started)) return undefined;
   let decoded = false;
   started.decoded.then(
     () => (decoded = true),
