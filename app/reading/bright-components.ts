@@ -35,23 +35,17 @@ export function runsAbove(values: Float32Array, threshold: number, w: number, h:
   for (let y = 0; y < h; y++) {
     rowStart[y] = n;
     const row = y * w;
-    if (within) {
-      for (let k = within.rowStart[y], end = within.rowStart[y + 1]; k < end; k++) {
-        const x1 = within.x[2 * k + 1];
-        for (let i = within.x[2 * k]; i <= x1; i++) {
-          if (!(values[row + i] > threshold)) continue;
-          const x0 = i;
-          while (i < x1 && values[row + i + 1] > threshold) i++;
-          (x[2 * n] = x0), (x[2 * n + 1] = i), n++, (pixels += i - x0 + 1);
-        }
-      }
-    } else if (!rowMax || rowMax[y] > threshold)
-      for (let i = 0; i < w; i++) {
+    // The spans looked at: the lower level's runs, else the whole row (unless its maximum is not above).
+    const k0 = within ? within.rowStart[y] : 0, k1 = within ? within.rowStart[y + 1] : !rowMax || rowMax[y] > threshold ? 1 : 0;
+    for (let k = k0; k < k1; k++) {
+      const x1 = within ? within.x[2 * k + 1] : w - 1;
+      for (let i = within ? within.x[2 * k] : 0; i <= x1; i++) {
         if (!(values[row + i] > threshold)) continue;
         const x0 = i;
-        while (i + 1 < w && values[row + i + 1] > threshold) i++;
+        while (i < x1 && values[row + i + 1] > threshold) i++;
         (x[2 * n] = x0), (x[2 * n + 1] = i), n++, (pixels += i - x0 + 1);
       }
+    }
   }
   rowStart[h] = n;
   return { h, rowStart, x, pixels };
@@ -62,8 +56,11 @@ export function runsAbove(values: Float32Array, threshold: number, w: number, h:
  * image moments (see componentsOfRuns).
  */
 export function components(values: Float32Array, threshold: number, w: number, h: number, minArea: number, rowMax?: Float32Array): StripCandidate[] {
-  return componentsOfRuns(runsAbove(values, threshold, w, h, undefined, rowMax), minArea);
+  componentRuns = runsAbove(values, threshold, w, h, undefined, rowMax, componentRuns);
+  return componentsOfRuns(componentRuns, minArea);
 }
+/** The runs components() takes, kept between calls. */
+let componentRuns: Runs | undefined;
 
 /**
  * Connected components (4-connected) of rows of runs, with their image moments, in one pass: each
