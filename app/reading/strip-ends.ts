@@ -27,19 +27,23 @@ export function middleValues(profile: Profile, values: Float32Array, axisLength:
  */
 export function walkEnd(profile: Profile, values: Float32Array, threshold: number, maxGap: number, dir: 1 | -1): StripEnd {
   const idx0 = Math.round(-profile.t0);
-  let last = 0, belowRun = 0, truncated = false;
-  for (let t = 0; ; t += dir) {
-    const i = idx0 + t;
-    if (i < 0 || i >= profile.n || !profile.valid[i]) {
-      truncated = true;
-      break;
-    }
-    if (values[i] > threshold) (last = t), (belowRun = 0);
-    else if (++belowRun > maxGap) break;
-  }
+  const w = walk(profile, values, threshold, maxGap, dir, idx0);
   // Reaching the photo's edge after more than half a gap of surface: the strip ended before it.
-  if (truncated && belowRun > maxGap / 2) truncated = false;
-  return { end: last + dir * 0.5, truncated };
+  return { end: w.last - idx0 + dir * 0.5, truncated: w.edge && !(w.belowRun > maxGap / 2) };
+}
+
+/**
+ * Walks the profile from index `i0` in direction `dir` while `values` stays above `threshold`,
+ * bridging runs below it of at most `maxGap` px: the last index above it (i0 when none), the run
+ * below it where the walk stopped, and whether it stopped at the photo's edge (an invalid sample).
+ */
+function walk(profile: Profile, values: Float32Array, threshold: number, maxGap: number, dir: 1 | -1, i0: number) {
+  let last = i0, belowRun = 0;
+  for (let i = i0; ; i += dir) {
+    if (i < 0 || i >= profile.n || !profile.valid[i]) return { last, belowRun, edge: true };
+    if (values[i] > threshold) (last = i), (belowRun = 0);
+    else if (++belowRun > maxGap) return { last, belowRun, edge: false };
+  }
 }
 
 /**
@@ -75,12 +79,8 @@ export function endShowsAt(profile: Profile, values: Float32Array, threshold: nu
   const at = (t: number) => Math.round(t - profile.t0);
   const i0 = at(fromT);
   if (i0 < 0 || i0 >= profile.n || !profile.valid[i0] || !(values[i0] > threshold)) return false;
-  let last = i0, below = 0, i = i0;
-  for (; ; i += dir) {
-    if (i < 0 || i >= profile.n || !profile.valid[i]) return false;
-    if (values[i] > threshold) (last = i), (below = 0);
-    else if (++below > maxGap) break;
-  }
+  const { last, edge } = walk(profile, values, threshold, maxGap, dir, i0);
+  if (edge) return false;
   if (Math.abs(profile.t0 + last + dir * 0.5 - endT) > tolerance) return false;
   let n = 0, low = 0;
   for (let k = 1; k <= clear; k++) {
