@@ -58,7 +58,7 @@ export type SampleOptions = {
  * Work arrays of region samples, kept from one region to the next (grown as needed): a read
  * samples a dozen regions of thousands of pixels each, whose arrays would otherwise be garbage.
  */
-const scratch = { idx: new Int32Array(0), f32: Array.from({ length: 5 }, () => new Float32Array(0)), lin: new Float32Array(0), u8: [new Uint8Array(0), new Uint8Array(0), new Uint8Array(0), new Uint8Array(0)] };
+const scratch = { idx: new Int32Array(0), f32: Array.from({ length: 6 }, () => new Float32Array(0)), u8: Array.from({ length: 4 }, () => new Uint8Array(0)) };
 /** The k-th kept Float32Array of at least n values (its first n, as a view). */
 function f32(k: number, n: number): Float32Array {
   if (scratch.f32[k].length < n) scratch.f32[k] = new Float32Array(Math.max(n, 2 * scratch.f32[k].length));
@@ -72,8 +72,7 @@ function u8(k: number, n: number): Uint8Array {
 
 /** The region's glare as the lamp's light added to the pad's (glare.ts); null when none shows. */
 function additiveGlare(data: Uint8Array, idx: Int32Array, n: number, clipped: Uint8Array, lamp: Rgb): Uint8Array | null {
-  if (scratch.lin.length < 3 * n) scratch.lin = new Float32Array(Math.max(3 * n, 2 * scratch.lin.length));
-  const lin = scratch.lin.subarray(0, 3 * n), usable = u8(2, n), glare = u8(3, n);
+  const lin = f32(5, 3 * n), usable = u8(2, n), glare = u8(3, n);
   for (let k = 0; k < n; k++) {
     const o = idx[k];
     (lin[3 * k] = SRGB8_TO_LINEAR[data[o]]), (lin[3 * k + 1] = SRGB8_TO_LINEAR[data[o + 1]]), (lin[3 * k + 2] = SRGB8_TO_LINEAR[data[o + 2]]);

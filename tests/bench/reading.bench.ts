@@ -25,7 +25,8 @@ import { asRenderChart } from "../render/types";
 // The figures are those of a reader process (app/jobs/read-pool.ts): started again with its V8
 // flags when run without them.
 // `--plain-node` runs without them (to compare).
-if (!process.argv.includes("--plain-node") && !READER_V8_FLAGS.every((f) => process.execArgv.includes(f))) {
+const readerFlags = READER_V8_FLAGS.every((f) => process.execArgv.includes(f));
+if (!process.argv.includes("--plain-node") && !readerFlags) {
   const again = spawnSync(process.execPath, [...READER_V8_FLAGS, ...process.execArgv, ...process.argv.slice(1)], { stdio: "inherit" });
   process.exit(again.status ?? 1);
 }
@@ -120,5 +121,5 @@ const worst = rows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
 console.log(`photos ${rows.length}; read and decode: medians of ${runs} rounds after a warm-up (${warm === "all" ? "every photo read once" : "the first photo"}); decode = sharp decode + downscale to the working size`);
 console.log("ratio = median read / median decode; fastest = fastest read / fastest decode (the machine's noise left out)");
 console.log(`mean ratio ${mean.toFixed(2)} (target ≤ 1.5); worst ${worst.ratio.toFixed(2)} (${worst.name}; target ≤ 3)`);
-const flags = READER_V8_FLAGS.every((f) => process.execArgv.includes(f)) ? `V8 flags of a reader process: ${READER_V8_FLAGS.join(" ")}` : "Node's default V8 flags";
+const flags = readerFlags ? `V8 flags of a reader process: ${READER_V8_FLAGS.join(" ")}` : "Node's default V8 flags";
 console.log(`peak memory (rss) ${(rssPeak / 2 ** 20).toFixed(0)} MiB; ${flags}`);
