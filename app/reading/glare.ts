@@ -7,6 +7,7 @@
 // when the glare covers most of the pad (a cut against the median stops working once the glare's
 // halo covers half of it). A spot so wide that hardly any of the region is free of it leaves its
 // densest levels in the halo: the pad then reads paler and uneven, and goes to review as uneven.
+import { select } from "./stats";
 
 /**
  * The half-sample mode of ascending values: the middle of the shortest interval holding half of
@@ -63,6 +64,15 @@ export function markAdditiveGlare(linear: Float32Array, usable: Uint8Array, lamp
   if (kept.sorted.length < m) kept.sorted = new Float32Array(Math.max(m, 2 * kept.sorted.length));
   const sorted = kept.sorted.subarray(0, m);
   for (let k = 0, j = 0; k < n; k++) if (usable[k]) sorted[j++] = level[k];
+  // No glare shows unless a spot stands out: some pixels far brighter than the middle of the
+  // region (the brightest 3 % above 1.5 × its median level). A pad's own unevenness (a reaction
+  // still spreading, its paper's grain) is left to the median's rules, since its densest level
+  // may lie at its darker end. Both ranks are found by selection: most pads show no glare, and
+  // only then are all their levels sorted.
+  const top = Math.floor(0.97 * (m - 1)), mid = (m - 1) >> 1;
+  select(sorted, top);
+  if (mid < top) select(sorted.subarray(0, top), mid);
+  if (!(sorted[top] > EVIDENT_GLARE * sorted[mid])) return -1;
   sorted.sort();
   const own = halfSampleMode(sorted);
   // Noise from below the pad's own level: 1.4826 × the median distance under it (σ of a normal),
@@ -70,11 +80,6 @@ export function markAdditiveGlare(linear: Float32Array, usable: Uint8Array, lamp
   let below = 0;
   while (below < m && sorted[below] < own) below++;
   const sigma = below ? 1.4826 * (own - sorted[below - 1 - (below >> 1)]) : 0;
-  // No glare shows unless a spot stands out: some pixels far brighter than the middle of the
-  // region (the brightest 3 % above 1.5 × its median level). A pad's own unevenness (a reaction
-  // still spreading, its paper's grain) is left to the median's rules, since its densest level
-  // may lie at its darker end.
-  if (!(sorted[Math.floor(0.97 * (m - 1))] > EVIDENT_GLARE * sorted[(m - 1) >> 1])) return -1;
   const cut = own + Math.max(GLARE_SIGMAS * sigma, GLARE_MIN_SHARE * own);
   let count = 0;
   for (let k = 0; k < n; k++) if (usable[k] && level[k] > cut) (glare[k] = 1), count++;

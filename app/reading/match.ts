@@ -42,7 +42,21 @@ function bestOnSegment(x: Lab, p: Lab, q: Lab): { t: number; d: number } {
   return d <= bd ? { t, d } : { t: bt, d: bd };
 }
 
+/**
+ * The last match made on each pad: a read matches each pad's colour twice (whether the strip
+ * shows at all, then its reading), the same colour against the same swatches.
+ */
+const lastMatch = new WeakMap<ChartPad, { swatches: ChartPad["swatches"]; x: Lab; m: SwatchMatch }>();
+
 export function matchSwatches(pad: ChartPad, x: Lab): SwatchMatch {
+  const last = lastMatch.get(pad);
+  if (last && last.swatches === pad.swatches && last.x.l === x.l && last.x.a === x.a && last.x.b === x.b) return { ...last.m };
+  const m = matchOnPath(pad, x);
+  lastMatch.set(pad, { swatches: pad.swatches, x: { l: x.l, a: x.a, b: x.b }, m });
+  return { ...m };
+}
+
+function matchOnPath(pad: ChartPad, x: Lab): SwatchMatch {
   const s = pad.swatches;
   const segs: { i: number; t: number; d: number }[] = [];
   for (let i = 0; i < s.length - 1; i++) segs.push({ i, ...bestOnSegment(x, s[i].lab, s[i + 1].lab) });

@@ -39,7 +39,7 @@ export function quantileOf(values: Float32Array, q: number): number {
 }
 
 /** Reorders `a` so that a[k] is the value of rank k, smaller ones before it and larger after (quickselect). */
-function select(a: Float32Array | Float64Array, k: number) {
+export function select(a: Float32Array | Float64Array, k: number) {
   let lo = 0, hi = a.length - 1;
   while (hi > lo) {
     // Median of three as the pivot.
