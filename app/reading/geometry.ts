@@ -5,7 +5,7 @@ export type Interval = [number, number];
 /** Receives the engine's diagnostics, one line each (the read-strip command's --trace). */
 export type Trace = ((line: string) => void) | undefined;
 
-/** Writes one diagnostic line when a trace is attached (objects as JSON). */
+/** Writes one diagnostic line when a trace is attached (objects as JSON); callers build costly parts only when it is. */
 export function traceLine(trace: Trace, ...parts: unknown[]) {
   trace?.(parts.map((p) => (typeof p === "string" ? p : JSON.stringify(p))).join(" "));
 }

@@ -96,7 +96,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
     if (fromWidth * 1.5 < minPxPerMm || fromWidth / 2.5 > maxPxPerMm) return null;
     const g = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm, maxPxPerMm);
     if (g && (g.pxPerMm < minPxPerMm || g.pxPerMm > maxPxPerMm)) {
-      traceLine(trace, g.pxPerMm < minPxPerMm ? "too small" : "too large", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
+      if (trace) traceLine(trace, g.pxPerMm < minPxPerMm ? "too small" : "too large", { c: g.centre.map(Math.round), s: +g.pxPerMm.toFixed(2) });
       return null;
     }
     return g;
@@ -134,7 +134,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   const tryEdges = () => {
     edgesTried = true;
     for (const c of edgeList()) {
-      traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
+      if (trace) traceLine(trace, "edge pair", { cx: c.cx, cy: c.cy, a: c.angle, l: c.length, w: c.width, s: c.score });
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
       if (settled(best)) return true;
@@ -144,7 +144,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
   // A pale strip lost on a pale, lined surface: its pads, a row of coloured blobs.
   const tryPadRows = () => {
     for (const c of padRowCandidates(img, search.factor, chart)) {
-      traceLine(trace, "pad row", { cx: +c.cx.toFixed(1), cy: +c.cy.toFixed(1), a: +c.angle.toFixed(2), l: +c.length.toFixed(1), w: +c.width.toFixed(1), n: c.n });
+      if (trace) traceLine(trace, "pad row", { cx: +c.cx.toFixed(1), cy: +c.cy.toFixed(1), a: +c.angle.toFixed(2), l: +c.length.toFixed(1), w: +c.width.toFixed(1), n: c.n });
       const g = fit(axisOf(c, search));
       if (g && better(g, best)) best = g;
       if (settled(best)) return true;
@@ -174,7 +174,7 @@ export function locateStrip(img: RgbImage, chart: StripChart, trace?: Trace, ear
     tryPadRows()
   )
     return refitWholeStrip(img, chart, layout, padEndMm, best!, trace);
-  if (best) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
+  if (best && trace) traceLine(trace, "chosen", { c: best.centre.map(Math.round), w: +best.widthPx.toFixed(1), s: +best.pxPerMm.toFixed(2), fit: +best.fitScore.toFixed(1), cost: +best.colourCost.toFixed(1), lengthOk: best.lengthOk, convincing: best.convincing });
   // No candidate shows the chart's pads standing out from bare plastic between them.
   if (!best || !best.convincing) throw new ReadingError("no_strip", NO_STRIP);
   return refitWholeStrip(img, chart, layout, padEndMm, best, trace);

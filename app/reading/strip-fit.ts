@@ -92,7 +92,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
     if (ends) [plus, minus] = ends;
     else free = true;
   }
-  traceLine(trace, "walk", { c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }, plus, minus, "pxPerMm(width)", scaleFromWidth, "length/chart", (plus.end - minus.end) / chart.strip.lengthMm);
+  if (trace) traceLine(trace, "walk", { c: [Math.round(axis.cx), Math.round(axis.cy)], a: +Math.atan2(axis.uy, axis.ux).toFixed(2), w0: +axis0.width.toFixed(1), l0: Math.round(axis0.length) }, plus, minus, "pxPerMm(width)", scaleFromWidth, "length/chart", (plus.end - minus.end) / chart.strip.lengthMm);
   let scale = (plus.end - minus.end) / chart.strip.lengthMm;
   const ratio = scale / scaleFromWidth;
   let lengthOk = true;
@@ -103,7 +103,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   const { fits, best: fitted } = searchLayout(chart, layout, profile, diff, { plus, minus, scale, scaleFromWidth, lengthOk, free, padEndMm });
   if (!fitted) return null;
   let best: LayoutFit = fitted;
-  traceLine(trace, "fit", fits.map((f) => ({ s: +f.score.toFixed(1), pads: +f.padScore.toFixed(1), gaps: +f.gapScore.toFixed(1), d: f.dir, t: Math.round(tAt(f, 0)), k: +pxPerMm(f).toFixed(2) })), "lengthOk", lengthOk, "w", widthPx.toFixed(1));
+  if (trace) traceLine(trace, "fit", fits.map((f) => ({ s: +f.score.toFixed(1), pads: +f.padScore.toFixed(1), gaps: +f.gapScore.toFixed(1), d: f.dir, t: Math.round(tAt(f, 0)), k: +pxPerMm(f).toFixed(2) })), "lengthOk", lengthOk, "w", widthPx.toFixed(1));
   // The pad pattern fits both ways round (or from either end): the placement whose colours lie
   // closer to the chart's swatches (after a white correction from the bare plastic) wins.
   // So does the placement a pad's pitch along from the best (or the best's origin) unless it scores
@@ -114,7 +114,7 @@ export function fitStrip(prepared: PreparedAxis, chart: StripChart, layout: Layo
   let chosenCost: number;
   if (rivals.length >= 2) {
     const costs = rivals.map((f) => placementColourCost(chart, layout, profile, diff.bare, f));
-    traceLine(trace, "placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
+    if (trace) traceLine(trace, "placement by colour", costs.map((c) => c.toFixed(1)).join(" "));
     const order = costs.map((_, i) => i).sort((a, b) => costs[a] - costs[b]);
     const [i0, i1] = order;
     // A pitch partner that scores far lower wins only when its own colours lie near the chart:
@@ -206,7 +206,7 @@ export function fitAnyLength(img: RgbImage, chart: StripChart, layout: Layout, p
   // pads' sides tell the strip's width and where it lies, and the fit is tried again there.
   const pads = axisFromPads(img, chart, prepared.axis, prepared.profile, prepared.diff);
   if (!pads) return out;
-  traceLine(trace, "width from the pads", { w: +prepared.axis.width.toFixed(1), pads: +pads.width.toFixed(1), off: +((pads.cx - prepared.axis.cx) * -prepared.axis.uy + (pads.cy - prepared.axis.cy) * prepared.axis.ux).toFixed(1) });
+  if (trace) traceLine(trace, "width from the pads", { w: +prepared.axis.width.toFixed(1), pads: +pads.width.toFixed(1), off: +((pads.cx - prepared.axis.cx) * -prepared.axis.uy + (pads.cy - prepared.axis.cy) * prepared.axis.ux).toFixed(1) });
   const p = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, minPxPerMm, maxPxPerMm, pads, true);
   return p && padsWin(out, p) ? p : out;
 }
@@ -253,14 +253,16 @@ export function refitWholeStrip(img: RgbImage, chart: StripChart, layout: Layout
   const tm = (g.tipT + g.handleT) / 2, len = Math.abs(g.handleT - g.tipT);
   if (g.axisSpan >= 0.75 * len) return g;
   const axis0: Axis = { cx: g.centre[0] + tm * g.u[0], cy: g.centre[1] + tm * g.u[1], ux: g.u[0], uy: g.u[1], width: g.widthPx, length: len * 0.95 };
-  const refined = refinedAxis(img, axis0);
   // The whole strip's edges run where the candidate's did: its profile and fit would be the same.
+  // Looked for close to the placed edges first, then from the whole strip's outline.
+  const close = refineAxis(img, axis0, CLOSE);
+  const refined = sameEdges(g, close) ? close : refinedAxis(img, axis0);
   if (sameEdges(g, refined)) {
     traceLine(trace, "whole strip", "edges as placed");
     return g;
   }
   const again = fitAnyLength(img, chart, layout, padEndMm, axis0, trace, 0, Infinity, refined);
-  if (again) traceLine(trace, "whole strip", { fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing });
+  if (again && trace) traceLine(trace, "whole strip", { fit: +again.fitScore.toFixed(1), was: +g.fitScore.toFixed(1), cost: +again.colourCost.toFixed(1), wasCost: +g.colourCost.toFixed(1), convincing: again.convincing });
   // Nor may the whole strip's placement move the pads to colours clearly further from the chart
   // (one pad along, onto the surface past the tip).
   return again && again.convincing && again.fitScore >= 0.9 * g.fitScore && again.colourCost <= g.colourCost + WHOLE_STRIP_COST_SLACK ? again : g;
