@@ -49,6 +49,36 @@ describe("markAdditiveGlare", () => {
     expect(g1[0]).toBe(0);
     expect(g1[20 * 40 + 20]).toBe(1);
   });
+  it("tells glare from none by two selected ranks exactly as with every level sorted", () => {
+    // Reference: all levels sorted first, then the brightest 3 % against 1.5 × the median.
+    const evident = (linear: Float32Array, usable: Uint8Array, lamp: Rgb) => {
+      const levels: number[] = [];
+      for (let k = 0; k < usable.length; k++)
+        if (usable[k]) levels.push(Math.fround((linear[3 * k] * (1 / lamp[0]) + linear[3 * k + 1] * (1 / lamp[1]) + linear[3 * k + 2] * (1 / lamp[2])) / 3));
+      const sorted = Float32Array.from(levels).sort(), m = sorted.length;
+      return sorted[Math.floor(0.97 * (m - 1))] > 1.5 * sorted[(m - 1) >> 1];
+    };
+    const lamp: Rgb = [1, 0.85, 0.6];
+    let seed = 7;
+    const rand = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+    let both = 0;
+    for (let trial = 0; trial < 60; trial++) {
+      const n = 20 + Math.floor(rand() * 400), share = rand() * 0.1, lift = 0.5 + rand() * 1.5;
+      const linear = new Float32Array(3 * n), usable = new Uint8Array(n);
+      for (let k = 0; k < n; k++) {
+        const spot = rand() < share ? lift : 0;
+        for (let c = 0; c < 3; c++) linear[3 * k + c] = (0.1 + 0.05 * rand() + spot) * lamp[c];
+        usable[k] = rand() < 0.95 ? 1 : 0;
+      }
+      const marks = new Uint8Array(n);
+      const shows = markAdditiveGlare(linear, usable, lamp, marks) >= 0;
+      expect(shows).toBe(evident(linear, usable, lamp));
+      if (shows) both++;
+    }
+    // Both outcomes came up.
+    expect(both).toBeGreaterThan(5);
+    expect(both).toBeLessThan(55);
+  });
 });
 
 describe("sampleQuad with the lamp's colour", () => {

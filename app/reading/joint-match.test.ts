@@ -63,4 +63,20 @@ describe("joint matching of an analyte on several pads", () => {
     expect(m.deltaE).toBeCloseTo(root, 6);
     expect(m.padDeltaE[0]).toBeCloseTo(deltaE2000(colours[0], at(m.swatchIndex)[0]), 6);
   });
+  it("a pad's colour matched again gives the same match, and a pad with other swatches is matched afresh", () => {
+    const pad = wide.pads[2];
+    const x = { l: 55, a: 20, b: 5 };
+    const first = matchSwatches(pad, x);
+    first.value = -1; // a caller changing its copy does not change the next answer
+    const again = matchSwatches(pad, { ...x });
+    expect(again.value).not.toBe(-1);
+    expect(again).toEqual(matchSwatches({ ...pad }, x));
+    const reversed = { ...pad, swatches: [...pad.swatches].reverse().map((s, k) => ({ ...s, value: pad.swatches[k].value })) };
+    expect(matchSwatches(reversed, x).value).not.toBeCloseTo(again.value, 3);
+    // Mutating the pad's swatch list in place (a new list) is seen too.
+    const copy = { ...pad };
+    matchSwatches(copy, x);
+    copy.swatches = reversed.swatches;
+    expect(matchSwatches(copy, x).value).toBe(matchSwatches(reversed, x).value);
+  });
 });
