@@ -1,5 +1,6 @@
 // Photo decoding (header checks, the working copy) and pad crops.
 import sharp, { type Metadata, type OutputInfo } from "sharp";
+import { embedsSrgbProfile } from "./colour-profile";
 
 export type ReadingErrorCode = "not_an_image" | "truncated" | "too_small" | "too_large" | "no_strip" | "too_few_pads" | "bad_chart";
 
@@ -22,13 +23,20 @@ export const MIN_SIDE = 200;
 /** Long side of the copy the reader works on. */
 export const WORK_LONG_SIDE = 1600;
 
-export function sharpInputOptions() {
-  return { limitInputPixels: MAX_INPUT_PIXELS, failOn: "truncated" as const, sequentialRead: true };
+/**
+ * sharp's input options for a photo. `ignoreIcc`: the photo's embedded profile is sRGB itself
+ * (colour-profile.ts): its pixels are taken as they are, with no colour transform to sRGB.
+ */
+export function sharpInputOptions(ignoreIcc = false) {
+  return { limitInputPixels: MAX_INPUT_PIXELS, failOn: "truncated" as const, sequentialRead: true, ...(ignoreIcc ? { ignoreIcc } : {}) };
 }
 
-/** The sharp pipeline the reader decodes with (also used by the benchmark as the baseline). */
-export function workingPipeline(photo: Buffer, longSide = WORK_LONG_SIDE) {
-  return sharp(photo, sharpInputOptions())
+/**
+ * The sharp pipeline the reader decodes with. The benchmark's baseline is this pipeline as sharp
+ * runs it by default (`ignoreIcc` false: every embedded profile converted through).
+ */
+export function workingPipeline(photo: Buffer, longSide = WORK_LONG_SIDE, ignoreIcc = false) {
+  return sharp(photo, sharpInputOptions(ignoreIcc))
     .rotate()
     .resize({ width: longSide, height: longSide, fit: "inside", withoutEnlargement: true })
     .removeAlpha()
@@ -58,8 +66,14 @@ export type StartedDecode = {
   format?: string;
   /** A progressive (or interlaced) photo: decoded scan by scan, slower than a baseline one. */
   progressive?: boolean;
-  /** The photo embeds a colour profile: its decode converts every pixel through it to sRGB. */
+  /**
+   * The photo embeds a colour profile: unless it is sRGB (`srgbProfile`), its decode converts
+   * every pixel through it to sRGB. (Phone photos embedding sRGB keep their search decode beside
+   * the working one, as before the transform was skipped: the same search copy, the same readings.)
+   */
   hasProfile?: boolean;
+  /** The photo embeds an sRGB profile: decoded with no colour transform (colour-profile.ts). */
+  srgbProfile?: boolean;
   decoded: Promise<DecodedPhoto>;
 };
 
@@ -77,7 +91,8 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
   // The header's checks come first; a photo over the pixel cap is refused by both.
   // The decode is queued first: starting a sharp pipeline takes a fraction of a millisecond.
-  const outP = workingPipeline(photo, longSide).toBuffer({ resolveWithObject: true });
+  const srgbProfile = embedsSrgbProfile(photo);
+  const outP = workingPipeline(photo, longSide, srgbProfile).toBuffer({ resolveWithObject: true });
   const metaP = sharp(photo, sharpInputOptions()).metadata();
   outP.catch(() => {}); // awaited later, unless the header already refused the photo
   let meta: Metadata;
@@ -109,7 +124,7 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
     },
   );
   decoded.catch(() => {}); // the caller awaits it when it needs the pixels
-  return { original, working, format: meta.format, progressive: !!meta.isProgressive, hasProfile: !!meta.hasProfile, decoded };
+  return { original, working, format: meta.format, progressive: !!meta.isProgressive, hasProfile: !!meta.hasProfile, srgbProfile, decoded };
 }
 
 /** Axis-aligned square crop around a point, as a small WebP. */

@@ -18,7 +18,8 @@ const SHRINK_ON_LOAD = new Set(["jpeg", "webp"]);
  * one. A JPEG or WebP nearer the working size (their decoders shrink on load too): only when its
  * working decode is slow, a progressive JPEG's many scans, a resize to the working size, or an
  * embedded colour profile (every pixel converted through it to sRGB; the small copy converts a
- * ninth or less as many); a baseline JPEG in sRGB decoded at its own size takes a few
+ * ninth or less as many; a profile that is sRGB itself is no longer converted, and such photos
+ * keep this search decode and so their readings); a baseline JPEG in sRGB decoded at its own size takes a few
  * milliseconds, and a second decode beside it only slows it down on a machine with few cores.
  * Otherwise the search copy is reduced from the working copy (search-copy.ts makeSearchCopy).
  */
@@ -47,7 +48,7 @@ export async function earlySearch(photo: Buffer, started: StartedDecode, chart: 
     () => (decoded = true),
     () => (decoded = true),
   );
-  const search = await decodeSearchCopy(photo, started.working);
+  const search = await decodeSearchCopy(photo, started.working, started.srgbProfile);
   if (!search) return undefined;
   const early: EarlySearch = { search, wide: brightCandidates(search, chart, WIDE_DIV) };
   if (!decoded && wideLooksOff(early.wide!, chart)) early.edges = edgePairCandidates(search, chart);
@@ -59,12 +60,12 @@ export async function earlySearch(photo: Buffer, started: StartedDecode, chart: 
  * factor (sides rounded down), or null when there is nothing to reduce or the decode fails (the
  * search copy is then made from the working copy).
  */
-export async function decodeSearchCopy(photo: Buffer, working: { width: number; height: number }): Promise<SearchCopy | null> {
+export async function decodeSearchCopy(photo: Buffer, working: { width: number; height: number }, srgbProfile = false): Promise<SearchCopy | null> {
   const f = searchFactor(working.width, working.height);
   if (f <= 1) return null;
   const w = Math.floor(working.width / f), h = Math.floor(working.height / f);
   try {
-    const { data, info } = await sharp(photo, sharpInputOptions())
+    const { data, info } = await sharp(photo, sharpInputOptions(srgbProfile))
       .rotate()
       .resize(w, h, { fit: "fill", kernel: "linear" })
       .removeAlpha()
