@@ -56,4 +56,20 @@ describe("boxMean", () => {
     expect([...out]).toEqual([...fresh]);
     expect([...boxMean(src, 3, 3, 1)]).toEqual([...fresh]);
   });
+  it("matches a box summed pixel by pixel, at every radius from none to wider than the image", () => {
+    let seed = 11;
+    const rand = () => (seed = (seed * 48271) % 2147483647) / 2147483647;
+    for (const [w, h] of [[17, 9], [5, 23], [40, 31]])
+      for (const r of [0, 1, 3, 8, 45]) {
+        const src = Float32Array.from({ length: w * h }, rand);
+        const m = boxMean(src, w, h, r);
+        for (let y = 0; y < h; y++)
+          for (let x = 0; x < w; x++) {
+            let s = 0, n = 0;
+            for (let yy = Math.max(0, y - r); yy <= Math.min(h - 1, y + r); yy++)
+              for (let xx = Math.max(0, x - r); xx <= Math.min(w - 1, x + r); xx++) (s += src[yy * w + xx]), n++;
+            expect(m[y * w + x]).toBeCloseTo(s / n, 5);
+          }
+      }
+  });
 });

@@ -114,13 +114,19 @@ export function boxMean(src: Float32Array, w: number, h: number, r: number, out 
       I[(y + 1) * (w + 1) + x + 1] = I[y * (w + 1) + x + 1] + row;
     }
   }
+  // Columns whose box lies wholly inside the row range [0, w): no clipping to work out there.
+  const xa = Math.min(w, r), xb = Math.max(xa, w - r);
   for (let y = 0; y < h; y++) {
     const y0 = Math.max(0, y - r), y1 = Math.min(h, y + r + 1);
-    for (let x = 0; x < w; x++) {
+    const top = y0 * (w + 1), bottom = y1 * (w + 1), rows = y1 - y0, o = y * w;
+    const edge = (x: number) => {
       const x0 = Math.max(0, x - r), x1 = Math.min(w, x + r + 1);
-      const s = I[y1 * (w + 1) + x1] - I[y0 * (w + 1) + x1] - I[y1 * (w + 1) + x0] + I[y0 * (w + 1) + x0];
-      out[y * w + x] = s / ((y1 - y0) * (x1 - x0));
-    }
+      out[o + x] = (I[bottom + x1] - I[top + x1] - I[bottom + x0] + I[top + x0]) / (rows * (x1 - x0));
+    };
+    for (let x = 0; x < xa; x++) edge(x);
+    const area = rows * (2 * r + 1);
+    for (let x = xa; x < xb; x++) out[o + x] = (I[bottom + x + r + 1] - I[top + x + r + 1] - I[bottom + x - r] + I[top + x - r]) / area;
+    for (let x = xb; x < w; x++) edge(x);
   }
   return out;
 }
