@@ -68,9 +68,10 @@ describe("joint matching of an analyte on several pads", () => {
     const x = { l: 55, a: 20, b: 5 };
     const first = matchSwatches(pad, x);
     first.value = -1; // a caller changing its copy does not change the next answer
-    const again = matchSwatches(pad, { ...x });
+    const again = matchSwatches(pad, x);
     expect(again.value).not.toBe(-1);
     expect(again).toEqual(matchSwatches({ ...pad }, x));
+    expect(matchSwatches(pad, { ...x })).toEqual(again);
     const reversed = { ...pad, swatches: [...pad.swatches].reverse().map((s, k) => ({ ...s, value: pad.swatches[k].value })) };
     expect(matchSwatches(reversed, x).value).not.toBeCloseTo(again.value, 3);
     // Mutating the pad's swatch list in place (a new list) is seen too.
@@ -78,5 +79,10 @@ describe("joint matching of an analyte on several pads", () => {
     matchSwatches(copy, x);
     copy.swatches = reversed.swatches;
     expect(matchSwatches(copy, x).value).toBe(matchSwatches(reversed, x).value);
+    // A colour object changed in place is matched afresh.
+    const y = { ...x };
+    const before = matchSwatches(pad, y).value;
+    y.a = -30;
+    expect(matchSwatches(pad, y).value).not.toBeCloseTo(before, 3);
   });
 });

@@ -43,16 +43,18 @@ function bestOnSegment(x: Lab, p: Lab, q: Lab): { t: number; d: number } {
 }
 
 /**
- * The last match made on each pad: a read matches each pad's colour twice (whether the strip
- * shows at all, then its reading), the same colour against the same swatches.
+ * The last match made on each pad: a read matches each pad's measured colour twice (whether the
+ * strip shows at all, then its reading), the same colour object against the same swatches. Kept
+ * by the colour object itself, so that the next read's colours, new objects, are matched afresh
+ * even when their values are the same.
  */
-const lastMatch = new WeakMap<ChartPad, { swatches: ChartPad["swatches"]; x: Lab; m: SwatchMatch }>();
+const lastMatch = new WeakMap<ChartPad, { swatches: ChartPad["swatches"]; x: Lab; l: number; a: number; b: number; m: SwatchMatch }>();
 
 export function matchSwatches(pad: ChartPad, x: Lab): SwatchMatch {
   const last = lastMatch.get(pad);
-  if (last && last.swatches === pad.swatches && last.x.l === x.l && last.x.a === x.a && last.x.b === x.b) return { ...last.m };
+  if (last && last.x === x && last.swatches === pad.swatches && last.l === x.l && last.a === x.a && last.b === x.b) return { ...last.m };
   const m = matchOnPath(pad, x);
-  lastMatch.set(pad, { swatches: pad.swatches, x: { l: x.l, a: x.a, b: x.b }, m });
+  lastMatch.set(pad, { swatches: pad.swatches, x, l: x.l, a: x.a, b: x.b, m });
   return { ...m };
 }
 
