@@ -6,7 +6,9 @@ import {
   bradfordMatrix,
   correctLinear,
   deltaE2000,
+  deltaE2000Along,
   hexToLab,
+  lerpLab,
   hexToRgb,
   labToHex,
   linearRgbToLab,
@@ -88,6 +90,17 @@ const CSS_LAB_D65: [string, number, number, number][] = [
   ["#ff8000", 67.0525, 42.8204, 74.0198],
   ["#663399", 32.9028, 42.8865, -47.1491],
 ];
+
+describe("CIEDE2000 along a segment", () => {
+  it("gives exactly deltaE2000 to the interpolated colour, on the Sharma pairs as segment ends", () => {
+    SHARMA_2005.forEach((row, i) => {
+      const p: Lab = { l: row[0], a: row[1], b: row[2] }, q: Lab = { l: row[3], a: row[4], b: row[5] };
+      const x: Lab = { l: SHARMA_2005[(i + 7) % 34][0], a: SHARMA_2005[(i + 7) % 34][1], b: SHARMA_2005[(i + 7) % 34][2] };
+      const along = deltaE2000Along(x);
+      for (const t of [0, 0.13, 0.5, 0.77, 1]) expect(along(p, q, t)).toBe(deltaE2000(x, lerpLab(p, q, t)));
+    });
+  });
+});
 
 describe("sRGB -> CIELAB D65 (CSS Color 4 conversion code)", () => {
   for (const [hex, l, a, b] of CSS_LAB_D65) {

@@ -182,6 +182,19 @@ export function deltaE2000(x: Lab, y: Lab): number {
   return ciede2000({ mode: "lab65", l: x.l, a: x.a, b: x.b }, { mode: "lab65", l: y.l, a: y.a, b: y.b });
 }
 
+/**
+ * CIEDE2000 from one colour `x` to points along segments (lerpLab(p, q, t)), for searches that
+ * evaluate thousands of such points: culori's objects are made once and refilled, not made anew
+ * per point (the same values as deltaE2000(x, lerpLab(p, q, t))).
+ */
+export function deltaE2000Along(x: Lab): (p: Lab, q: Lab, t: number) => number {
+  const from = { mode: "lab65" as const, l: x.l, a: x.a, b: x.b }, to = { mode: "lab65" as const, l: 0, a: 0, b: 0 };
+  return (p, q, t) => {
+    (to.l = p.l + (q.l - p.l) * t), (to.a = p.a + (q.a - p.a) * t), (to.b = p.b + (q.b - p.b) * t);
+    return ciede2000(from, to);
+  };
+}
+
 export function lerpLab(x: Lab, y: Lab, t: number): Lab {
   return { l: x.l + (y.l - x.l) * t, a: x.a + (y.a - x.a) * t, b: x.b + (y.b - x.b) * t };
 }

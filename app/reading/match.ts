@@ -5,7 +5,7 @@
 // CIEDE2000 difference is found, and the segment with the least difference wins. Its
 // fractional position gives the value, linearly between the two swatch values.
 import type { ChartPad } from "./chart";
-import { deltaE2000, lerpLab, type Lab } from "./colour";
+import { deltaE2000, deltaE2000Along, type Lab } from "./colour";
 
 export type SwatchMatch = {
   /** Fractional position on the swatch scale (0 = first swatch). */
@@ -20,25 +20,25 @@ export type SwatchMatch = {
   rivalIndex: number;
 };
 
-function bestOnSegment(x: Lab, p: Lab, q: Lab): { t: number; d: number } {
+function bestOnSegment(dx: (p: Lab, q: Lab, t: number) => number, p: Lab, q: Lab): { t: number; d: number } {
   // Coarse scan then golden-section refinement of ΔE00 along the segment.
   const N = 16;
   let bt = 0, bd = Infinity;
   for (let k = 0; k <= N; k++) {
     const t = k / N;
-    const d = deltaE2000(x, lerpLab(p, q, t));
+    const d = dx(p, q, t);
     if (d < bd) (bd = d), (bt = t);
   }
   let lo = Math.max(0, bt - 1 / N), hi = Math.min(1, bt + 1 / N);
   const g = (Math.sqrt(5) - 1) / 2;
   let c = hi - g * (hi - lo), dd = lo + g * (hi - lo);
-  let fc = deltaE2000(x, lerpLab(p, q, c)), fd = deltaE2000(x, lerpLab(p, q, dd));
+  let fc = dx(p, q, c), fd = dx(p, q, dd);
   for (let it = 0; it < 30; it++) {
-    if (fc < fd) (hi = dd), (dd = c), (fd = fc), (c = hi - g * (hi - lo)), (fc = deltaE2000(x, lerpLab(p, q, c)));
-    else (lo = c), (c = dd), (fc = fd), (dd = lo + g * (hi - lo)), (fd = deltaE2000(x, lerpLab(p, q, dd)));
+    if (fc < fd) (hi = dd), (dd = c), (fd = fc), (c = hi - g * (hi - lo)), (fc = dx(p, q, c));
+    else (lo = c), (c = dd), (fc = fd), (dd = lo + g * (hi - lo)), (fd = dx(p, q, dd));
   }
   const t = (lo + hi) / 2;
-  const d = deltaE2000(x, lerpLab(p, q, t));
+  const d = dx(p, q, t);
   return d <= bd ? { t, d } : { t: bt, d: bd };
 }
 
@@ -61,7 +61,8 @@ export function matchSwatches(pad: ChartPad, x: Lab): SwatchMatch {
 function matchOnPath(pad: ChartPad, x: Lab): SwatchMatch {
   const s = pad.swatches;
   const segs: { i: number; t: number; d: number }[] = [];
-  for (let i = 0; i < s.length - 1; i++) segs.push({ i, ...bestOnSegment(x, s[i].lab, s[i + 1].lab) });
+  const dx = deltaE2000Along(x);
+  for (let i = 0; i < s.length - 1; i++) segs.push({ i, ...bestOnSegment(dx, s[i].lab, s[i + 1].lab) });
   let best = segs[0];
   for (const g of segs) if (g.d < best.d - 1e-12) best = g;
   const idx = best.i + best.t;
