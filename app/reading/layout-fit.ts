@@ -4,7 +4,7 @@
 // to the chart's swatches (white-corrected from its own gaps) wins.
 import type { Profile } from "./axis-profile";
 import type { StripChart } from "./chart";
-import { correctLinear, deltaE2000, hexToRgb, lerpLab, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix } from "./colour";
+import { correctLinear, deltaE2000Along, hexToRgb, linearRgbToLab, srgbToLinear, whiteCorrectionMatrix } from "./colour";
 import type { Interval } from "./geometry";
 import type { PlasticDifference } from "./plastic-difference";
 import { median } from "./stats";
@@ -244,9 +244,10 @@ export function placementColourCost(chart: StripChart, layout: Layout, profile: 
     const lin = correctLinear(wm, c.map((v) => srgbToLinear(v / n / 255)));
     const lab = linearRgbToLab(lin[0], lin[1], lin[2]);
     let best = Infinity;
+    const along = deltaE2000Along(lab);
     for (let j = 0; j < p.swatches.length; j++) {
-      best = Math.min(best, deltaE2000(lab, p.swatches[j].lab));
-      if (j > 0) best = Math.min(best, deltaE2000(lab, lerpLab(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5)));
+      best = Math.min(best, along(p.swatches[j].lab, p.swatches[j].lab, 0));
+      if (j > 0) best = Math.min(best, along(p.swatches[j - 1].lab, p.swatches[j].lab, 0.5));
     }
     cost += Math.min(best, 50);
   });
