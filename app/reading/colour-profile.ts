@@ -77,12 +77,16 @@ export function jpegIccProfile(jpeg: Uint8Array): Uint8Array | null | undefined 
   return out;
 }
 
+/** The four-character signature at byte `o` of a profile (a tag's, a type's, a header field's). */
+function signatureAt(p: Uint8Array, o: number): string {
+  return String.fromCharCode(p[o], p[o + 1], p[o + 2], p[o + 3]);
+}
+
 /** Reads a profile's tag table: each tag's signature with its offset and size, checked against the profile's length. */
 function tagTable(p: Uint8Array): Map<string, { offset: number; size: number }> | null {
   if (p.length < 132) return null;
   const view = new DataView(p.buffer, p.byteOffset, p.length);
-  const str = (o: number) => String.fromCharCode(p[o], p[o + 1], p[o + 2], p[o + 3]);
-  if (view.getUint32(0) !== p.length || str(36) !== "acsp") return null;
+  if (view.getUint32(0) !== p.length || signatureAt(p, 36) !== "acsp") return null;
   const n = view.getUint32(128);
   if (n > 200 || 132 + 12 * n > p.length) return null;
   const tags = new Map<string, { offset: number; size: number }>();
@@ -90,7 +94,7 @@ function tagTable(p: Uint8Array): Map<string, { offset: number; size: number }> 
     const at = 132 + 12 * k;
     const offset = view.getUint32(at + 4), size = view.getUint32(at + 8);
     if (offset + size > p.length || size < 8) return null;
-    tags.set(str(at), { offset, size });
+    tags.set(signatureAt(p, at), { offset, size });
   }
   return tags;
 }
@@ -98,7 +102,7 @@ function tagTable(p: Uint8Array): Map<string, { offset: number; size: number }> 
 /** Whether a tone curve tag ('curv' or 'para') follows sRGB's within CURVE_TOLERANCE. */
 function curveIsSrgb(p: Uint8Array, tag: { offset: number; size: number }): boolean {
   const view = new DataView(p.buffer, p.byteOffset + tag.offset, tag.size);
-  const type = String.fromCharCode(p[tag.offset], p[tag.offset + 1], p[tag.offset + 2], p[tag.offset + 3]);
+  const type = signatureAt(p, tag.offset);
   let f: ((v: number) => number) | null = null;
   if (type === "curv") {
     const n = view.getUint32(8);
@@ -133,12 +137,11 @@ export function isSrgbProfile(p: Uint8Array): boolean {
   const tags = tagTable(p);
   if (!tags) return false;
   const view = new DataView(p.buffer, p.byteOffset, p.length);
-  const str = (o: number) => String.fromCharCode(p[o], p[o + 1], p[o + 2], p[o + 3]);
-  if (str(16) !== "RGB " || str(20) !== "XYZ " || !["mntr", "scnr"].includes(str(12))) return false;
+  if (signatureAt(p, 16) !== "RGB " || signatureAt(p, 20) !== "XYZ " || !["mntr", "scnr"].includes(signatureAt(p, 12))) return false;
   for (const lut of ["A2B0", "A2B1", "A2B2", "D2B0", "D2B1", "D2B2"]) if (tags.has(lut)) return false;
   for (const [sig, want] of Object.entries(SRGB_D50_COLORANTS)) {
     const t = tags.get(sig);
-    if (!t || t.size < 20 || str(t.offset) !== "XYZ ") return false;
+    if (!t || t.size < 20 || signatureAt(p, t.offset) !== "XYZ ") return false;
     for (let i = 0; i < 3; i++) if (!(Math.abs(view.getInt32(t.offset + 8 + 4 * i) / 65536 - want[i]) <= COLORANT_TOLERANCE)) return false;
   }
   for (const sig of ["rTRC", "gTRC", "bTRC"]) {

@@ -89,8 +89,8 @@ export async function startDecode(photo: Buffer, longSide = WORK_LONG_SIDE): Pro
   if (!Buffer.isBuffer(photo) && !((photo as unknown) instanceof Uint8Array))
     throw new ReadingError("not_an_image", "No photo was given.");
   if (photo.length < 16) throw new ReadingError("not_an_image", "This file is too short to be a photo.");
-  // The header's checks come first; a photo over the pixel cap is refused by both.
-  // The decode is queued first: starting a sharp pipeline takes a fraction of a millisecond.
+  // The decode is queued before the header is read (starting a sharp pipeline takes a fraction of
+  // a millisecond); the header's checks still decide first: a photo over the pixel cap is refused by both.
   const srgbProfile = embedsSrgbProfile(photo);
   const outP = workingPipeline(photo, longSide, srgbProfile).toBuffer({ resolveWithObject: true });
   const metaP = sharp(photo, sharpInputOptions()).metadata();

@@ -19,8 +19,9 @@ const SHRINK_ON_LOAD = new Set(["jpeg", "webp"]);
  * working decode is slow, a progressive JPEG's many scans, a resize to the working size, or an
  * embedded colour profile (every pixel converted through it to sRGB; the small copy converts a
  * ninth or less as many; a profile that is sRGB itself is no longer converted, and such photos
- * keep this search decode and so their readings); a baseline JPEG in sRGB decoded at its own size takes a few
- * milliseconds, and a second decode beside it only slows it down on a machine with few cores.
+ * keep this search decode and so their readings); a baseline JPEG in sRGB decoded at its own
+ * size takes a few milliseconds, and a second decode beside it only slows it down on a machine
+ * with few cores.
  * Otherwise the search copy is reduced from the working copy (search-copy.ts makeSearchCopy).
  */
 export function searchDecodePays(
