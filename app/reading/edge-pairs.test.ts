@@ -103,3 +103,24 @@ describe("edgePairCandidates on a textured surface", () => {
     expect(band).toBeDefined();
   });
 });
+
+describe("edgePairCandidates across the wrap of directions", () => {
+  it("finds a band upright or a degree or two off it, whose edges' votes wrap round 0° and 180°", () => {
+    // A bright band upright or a degree or two off: its long edges' gradients lie within a step or
+    // two of 0° (180°), where some of their votes pass that end and land at the other, each at the
+    // line's offset in its own row (a vote at the mirrored offset would split the line in two).
+    for (const tilt of [-2, -1, 0, 1, 2]) {
+      const w = 200, h = 240, whiteness = new Float32Array(w * h).fill(0.3);
+      const a = ((90 + tilt) * Math.PI) / 180, ux = Math.cos(a), uy = Math.sin(a);
+      for (let y = 0; y < h; y++)
+        for (let x = 0; x < w; x++) {
+          const dx = x - 100, dy = y - 120, t = dx * ux + dy * uy, s = -dx * uy + dy * ux;
+          if (Math.abs(t) < 95 && Math.abs(s) < 6) whiteness[y * w + x] = 0.8;
+        }
+      const cands = edgePairCandidates({ w, h, factor: 1, whiteness }, chart);
+      const band = cands.find((c) => Math.hypot(c.cx - 100, c.cy - 120) < 10 && Math.abs(Math.sin(c.angle - a)) < 0.05 && Math.abs(c.width - 12) <= 2);
+      expect(band, `tilt ${tilt}°`).toBeDefined();
+      expect(band!.length).toBeGreaterThan(150);
+    }
+  });
+});

@@ -83,16 +83,22 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   // The border keeps no gradient (read as a neighbour by the thinning below).
   mag.fill(0);
   const hist = new Uint32Array(256);
-  for (let y = 1; y < h - 1; y++)
-    for (let x = 1; x < w - 1; x++) {
-      const i = y * w + x;
-      const gx = L[i - w + 1] + 2 * L[i + 1] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - 1] - L[i + w - 1];
-      const gy = L[i + w - 1] + 2 * L[i + w] + L[i + w + 1] - L[i - w - 1] - 2 * L[i - w] - L[i - w + 1];
-      const m = Math.sqrt(gx * gx + gy * gy) / 8;
+  for (let y = 1; y < h - 1; y++) {
+    // The 3 × 3 neighbourhood slides along the row in registers (n: north, s: south; W, C, E:
+    // west, centre, east columns): three loads per pixel, the same sums in the same order.
+    let i = y * w + 1;
+    let nW = L[i - w - 1], nC = L[i - w], cW = L[i - 1], cC = L[i], sW = L[i + w - 1], sC = L[i + w];
+    for (let x = 1; x < w - 1; x++, i++) {
+      const nE = L[i - w + 1], cE = L[i + 1], sE = L[i + w + 1];
+      const gx = nE + 2 * cE + sE - nW - 2 * cW - sW;
+      const gy = sW + 2 * sC + sE - nW - 2 * nC - nE;
+      const m = Math.sqrt(gx * gx + gy * gy) * 0.125;
       mag[i] = m;
       // Only magnitudes at or above the floor can set the threshold (most pixels lie below it).
       if (m >= EDGE_FLOOR) hist[Math.min(255, (m * 1000) | 0)]++;
+      (nW = nC), (nC = nE), (cW = cC), (cC = cE), (sW = sC), (sC = sE);
     }
+  }
   let thr = 0;
   for (let b = 255, acc = 0; b >= 0; b--) {
     acc += hist[b];
@@ -131,18 +137,30 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
       const a = Math.atan2(gradY, gradX);
       let th = a < 0 ? a + Math.PI : a;
       if (th >= Math.PI) th -= Math.PI;
-      const k0 = Math.round((th * nT) / Math.PI);
-      (ei[nEdges] = i), (et[nEdges++] = k0 % nT);
-      // A vote for each direction within ±3° of the gradient's, less the further off: an edge's
-      // direction from a 3 × 3 gradient is only that precise on a stepped (aliased) or grainy edge.
-      for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) {
-        let k = k0 + dk, sign = 1;
-        if (k < 0) (k += nT), (sign = -1);
-        else if (k >= nT) (k -= nT), (sign = -1);
-        const r = Math.round(sign * (x * cosT[k] + y * sinT[k])) + diag;
-        acc[k * nR + r] += voteWeight[dk + ANGLE_REACH];
-      }
+      (ei[nEdges] = i), (et[nEdges++] = Math.round((th * nT) / Math.PI) % nT);
     }
+  // Edge pixels grouped by their angle step (a counting sort), their coordinates in that order.
+  const byAngle = new Int32Array(nT + 1);
+  for (let j = 0; j < nEdges; j++) byAngle[et[j] + 1]++;
+  for (let k = 0; k < nT; k++) byAngle[k + 1] += byAngle[k];
+  const fill = byAngle.slice(0, nT), edgeX = new Int32Array(nEdges), edgeY = new Int32Array(nEdges);
+  for (let j = 0; j < nEdges; j++) {
+    const at = fill[et[j]]++, x = ei[j] % w;
+    (edgeX[at] = x), (edgeY[at] = (ei[j] - x) / w);
+  }
+  // Each edge pixel votes for each direction within ±3° of its gradient's, less the further off:
+  // an edge's direction from a 3 × 3 gradient is only that precise on a stepped (aliased) or grainy
+  // edge. Directions are taken modulo 180° (a line's normal at θ + 180° is its normal at θ, the
+  // offset taken along it), so a vote past either end lands on the other, at its own row's offset.
+  // The votes are cast one direction at a time (one row of the accumulator, in cache); every
+  // weight is a quarter, so the sums are exact in any order.
+  for (let k = 0; k < nT; k++) {
+    const row = k * nR, c = cosT[k], sn = sinT[k];
+    for (let dk = -ANGLE_REACH; dk <= ANGLE_REACH; dk++) {
+      const weight = voteWeight[dk + ANGLE_REACH], from = (k - dk + nT) % nT;
+      for (let j = byAngle[from], end = byAngle[from + 1]; j < end; j++) acc[row + Math.round(edgeX[j] * c + edgeY[j] * sn) + diag] += weight;
+    }
+  }
   const aspect = chart.strip.lengthMm / chart.strip.widthMm;
   const wMin = 3, wMax = Math.max(6, (0.9 * Math.max(w, h)) / aspect * 1.4);
   const minVotes = Math.max(8, Math.min(40, (0.1 * Math.max(w, h) * 0.35)));
@@ -187,13 +205,6 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
   const order = new Uint32Array(nPairs);
   for (let i = 0; i < nPairs; i++) order[i] = i;
   order.sort((a, b) => pairScore[b] - pairScore[a] || a - b);
-  // Edge pixels grouped by their angle step (a counting sort), so that a pair's extent looks only
-  // at the pixels within reach of its angle.
-  const byAngle = new Int32Array(nT + 1);
-  for (let j = 0; j < nEdges; j++) byAngle[et[j] + 1]++;
-  for (let k = 0; k < nT; k++) byAngle[k + 1] += byAngle[k];
-  const fill = byAngle.slice(0, nT), sorted = new Int32Array(nEdges);
-  for (let j = 0; j < nEdges; j++) sorted[fill[et[j]]++] = j;
   const out: StripCandidate[] = [];
   const chosen: Pair[] = [];
   // Positions along the lines of a pair's edge pixels (a typed array, sorted without a comparator).
@@ -211,7 +222,7 @@ export function edgePairCandidates(s: SearchCopy, chart: StripChart, maxOut = 8)
     for (let dk = -(ANGLE_REACH + 1); dk <= ANGLE_REACH + 1; dk++) {
       const k = (p.k + dk + nT) % nT;
       for (let m = byAngle[k]; m < byAngle[k + 1]; m++) {
-        const at = ei[sorted[m]], ex = at % w, ey = (at - ex) / w;
+        const ex = edgeX[m], ey = edgeY[m];
         const r = ex * c + ey * sn + diag;
         const on1 = Math.abs(r - p.r1) <= 1.5, on2 = Math.abs(r - p.r2) <= 1.5;
         if (!on1 && !on2) continue;
