@@ -66,11 +66,7 @@ export type StartedDecode = {
   format?: string;
   /** A progressive (or interlaced) photo: decoded scan by scan, slower than a baseline one. */
   progressive?: boolean;
-  /**
-   * The photo embeds a colour profile: unless it is sRGB (`srgbProfile`), its decode converts
-   * every pixel through it to sRGB. (Phone photos embedding sRGB keep their search decode beside
-   * the working one, as before the transform was skipped: the same search copy, the same readings.)
-   */
+  /** The photo embeds a colour profile: unless it is sRGB (`srgbProfile`), its decode converts every pixel through it to sRGB. */
   hasProfile?: boolean;
   /** The photo embeds an sRGB profile: decoded with no colour transform (colour-profile.ts). */
   srgbProfile?: boolean;

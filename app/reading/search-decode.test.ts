@@ -54,6 +54,10 @@ describe("searchDecodePays", () => {
     expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, { format: "jpeg" })).toBe(true);
     expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", progressive: true })).toBe(true);
     expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", hasProfile: true })).toBe(true);
+    // A profile that is sRGB itself is not converted: the working decode is fast, no second decode beside it.
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", hasProfile: true, srgbProfile: true })).toBe(false);
+    expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "jpeg", hasProfile: true, srgbProfile: true, progressive: true })).toBe(true);
+    expect(searchDecodePays({ width: 4000, height: 3000 }, { width: 1600, height: 1200 }, { format: "jpeg", hasProfile: true, srgbProfile: true })).toBe(true);
     expect(searchDecodePays({ width: 1000, height: 1334 }, { width: 1000, height: 1334 }, { format: "webp" })).toBe(false);
     expect(searchDecodePays({ width: 1600, height: 1200 }, { width: 1600, height: 1200 }, { format: "jpeg" })).toBe(false);
     expect(searchDecodePays({ width: 2016, height: 1512 }, { width: 1600, height: 1200 }, { format: "png", hasProfile: true })).toBe(false);

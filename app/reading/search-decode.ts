@@ -17,31 +17,24 @@ const SHRINK_ON_LOAD = new Set(["jpeg", "webp"]);
  * the working size: both decodes shrink on load and the small one costs a fraction of the working
  * one. A JPEG or WebP nearer the working size (their decoders shrink on load too): only when its
  * working decode is slow, a progressive JPEG's many scans, a resize to the working size, or an
- * embedded colour profile (every pixel converted through it to sRGB; the small copy converts a
- * ninth or less as many; a profile that is sRGB itself is no longer converted, and such photos
- * keep this search decode and so their readings); a baseline JPEG in sRGB decoded at its own
- * size takes a few milliseconds, and a second decode beside it only slows it down on a machine
- * with few cores.
+ * embedded colour profile other than sRGB (every pixel converted through it; the small copy
+ * converts a ninth or less as many). A baseline JPEG decoded at its own size with no transform,
+ * one in sRGB or embedding sRGB's own profile (colour-profile.ts), takes a few milliseconds, and a
+ * second decode beside it only slows it down on a machine with few cores.
  * Otherwise the search copy is reduced from the working copy (search-copy.ts makeSearchCopy).
  */
 export function searchDecodePays(
   original: { width: number; height: number },
   working: { width: number; height: number },
-  photo: Pick<StartedDecode, "format" | "progressive" | "hasProfile"> = {},
+  photo: Pick<StartedDecode, "format" | "progressive" | "hasProfile" | "srgbProfile"> = {},
 ): boolean {
   if (searchFactor(working.width, working.height) <= 1) return false;
   const long = Math.max(original.width, original.height), workLong = Math.max(working.width, working.height);
   if (long >= 2 * workLong) return true;
-  return !!photo.format && SHRINK_ON_LOAD.has(photo.format) && (!!photo.progressive || !!photo.hasProfile || long > workLong);
+  const converted = !!photo.hasProfile && !photo.srgbProfile;
+  return !!photo.format && SHRINK_ON_LOAD.has(photo.format) && (!!photo.progressive || converted || long > workLong);
 }
 
-/**
- * The search work done while the working copy is still being decoded: the search copy decoded
- * small, its wide-scale candidates, and the edge-pair candidates too when none of the wide
- * scale's best few has the strip's proportions (locate.ts wideLooksOff: the edge pairs are then
- * tried first) and the working decode is still running, so that they cost no wall time.
- * Undefined when the search copy is better reduced from the working copy.
- */
 export async function earlySearch(photo: Buffer, started: StartedDecode, chart: StripChart): Promise<EarlySearch | undefined> {
   if (!searchDecodePays(started.original, started.working, started)) return undefined;
   let decoded = false;
