@@ -1,12 +1,24 @@
 // The search copy on small synthetic arrays (values worked out by hand).
 import { describe, expect, it } from "vitest";
-import { boxMean, makeSearchCopy } from "./search-copy";
+import { boxMean, makeSearchCopy, searchFactor } from "./search-copy";
 
 function solid(width: number, height: number, rgb: [number, number, number]) {
   const data = new Uint8Array(width * height * 3);
   for (let i = 0; i < width * height; i++) data.set(rgb, i * 3);
   return { width, height, data };
 }
+
+describe("searchFactor", () => {
+  it("takes the smallest whole reduction that brings the long side to 400 px or less", () => {
+    expect(searchFactor(400, 300)).toBe(1);
+    expect(searchFactor(401, 300)).toBe(2);
+    expect(searchFactor(1000, 1334)).toBe(4); // 250 × 333
+    expect(searchFactor(1024, 768)).toBe(3); // 341 × 256
+    expect(searchFactor(1200, 1600)).toBe(4);
+    expect(searchFactor(1600, 1200, 200)).toBe(8);
+    expect(searchFactor(120, 90)).toBe(1);
+  });
+});
 
 describe("makeSearchCopy", () => {
   it("reduces by a whole factor towards the target long side", () => {

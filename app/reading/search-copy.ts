@@ -12,7 +12,10 @@ export type SearchCopy = {
   whiteness: Float32Array;
 };
 
-/** Long side of the search copy, in pixels (approximately: the reduction is a whole factor). */
+/**
+ * The search copy's long side is at most this many pixels (the working copy reduced by the
+ * smallest whole factor that brings it there): every search pass costs in proportion to it.
+ */
 export const SEARCH_LONG_SIDE = 400;
 
 const ENCODED_TO_LINEAR = (() => {
@@ -26,9 +29,14 @@ const ENCODED_TO_LINEAR = (() => {
  * saturation). Both factors scale with the light, so a ratio against the local
  * background is unchanged by shadows and light falloff.
  */
-/** The whole reduction from a working image of this size to its search copy. */
+/**
+ * The whole reduction from a working image of this size to its search copy: the smallest that
+ * brings the long side to `target` or less (a 1334 px photo's copy is 333 px long, not 444: its
+ * search passes take half the time, and a strip at the smallest readable size is still as many
+ * pixels wide there as in a 1600 px photo's 400 px copy).
+ */
 export function searchFactor(width: number, height: number, target = SEARCH_LONG_SIDE): number {
-  return Math.max(1, Math.round(Math.max(width, height) / target));
+  return Math.max(1, Math.ceil(Math.max(width, height) / target));
 }
 
 /** Whiteness of one pixel from its linear RGB (see makeSearchCopy). */
