@@ -169,39 +169,43 @@ export function scoreCandidate(c: StripCandidate, chart: StripChart): number {
 
 /**
  * The k-th largest of the values above `floor` (k ≥ 1), or NaN when fewer lie above it: a small
- * min-heap of the k largest seen, one comparison for most values.
+ * min-heap of the k largest seen. Once it is full, every value in it lies above the floor, so a
+ * value is only compared with its smallest (a comparison that is rarely true, so well predicted,
+ * where the floor splits the values about evenly).
  */
 export function kthLargestAbove(values: Float32Array, floor: number, k: number): number {
   const heap = new Float64Array(k);
-  let n = 0;
-  for (let i = 0; i < values.length; i++) {
+  let n = 0, i = 0;
+  // Filling the heap: values above the floor, sifted up.
+  for (; i < values.length && n < k; i++) {
     const v = values[i];
     if (!(v > floor)) continue;
-    if (n < k) {
-      // Sift up.
-      let j = n++;
-      while (j > 0) {
-        const p = (j - 1) >> 1;
-        if (heap[p] <= v) break;
-        heap[j] = heap[p];
-        j = p;
-      }
-      heap[j] = v;
-    } else if (v > heap[0]) {
-      // Replace the smallest and sift down.
-      let j = 0;
-      for (;;) {
-        const l = 2 * j + 1;
-        if (l >= k) break;
-        const c = l + 1 < k && heap[l + 1] < heap[l] ? l + 1 : l;
-        if (heap[c] >= v) break;
-        heap[j] = heap[c];
-        j = c;
-      }
-      heap[j] = v;
+    let j = n++;
+    while (j > 0) {
+      const p = (j - 1) >> 1;
+      if (heap[p] <= v) break;
+      heap[j] = heap[p];
+      j = p;
     }
+    heap[j] = v;
   }
-  return n === k ? heap[0] : NaN;
+  if (n < k) return NaN;
+  // Full: a value above the smallest replaces it and is sifted down.
+  for (; i < values.length; i++) {
+    const v = values[i];
+    if (!(v > heap[0])) continue;
+    let j = 0;
+    for (;;) {
+      const l = 2 * j + 1;
+      if (l >= k) break;
+      const c = l + 1 < k && heap[l + 1] < heap[l] ? l + 1 : l;
+      if (heap[c] >= v) break;
+      heap[j] = heap[c];
+      j = c;
+    }
+    heap[j] = v;
+  }
+  return heap[0];
 }
 
 /** The whiteness-to-background ratio, and the runs of each level of the ladder, kept between searches. */
