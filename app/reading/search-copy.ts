@@ -60,6 +60,9 @@ export function searchCopyFromReduced(rgb: RgbImage, factor: number): SearchCopy
   return { w, h, factor, whiteness };
 }
 
+/** Linear values by block sum for blocks of `sumToLinearPer`² pixels summed (see makeSearchCopy), kept between copies. */
+let sumToLinear = new Float32Array(0), sumToLinearPer = 0;
+
 export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): SearchCopy {
   const f = searchFactor(img.width, img.height, target);
   const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
@@ -72,8 +75,16 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
   // approximation of the linear mean for searching): a block's sum × toLut is its index in the
   // table. Each block is summed where it lies (its rows one after another in the working copy),
   // with no running sums kept per column.
-  const lut = ENCODED_TO_LINEAR;
+  // Each block's channel sum (a whole number, at most 255 per pixel summed) straight to its
+  // linear value: sum × toLut is its index in ENCODED_TO_LINEAR, taken once per possible sum.
   const toLut = 4095 / 255 / (per * per);
+  const maxSum = 255 * per * per;
+  if (sumToLinearPer !== per) {
+    sumToLinear = new Float32Array(maxSum + 1);
+    for (let v = 0; v <= maxSum; v++) sumToLinear[v] = ENCODED_TO_LINEAR[(v * toLut + 0.5) | 0];
+    sumToLinearPer = per;
+  }
+  const lut = sumToLinear;
   const colBytes = 3 * step, blockBytes = 3 * f;
   for (let sy = 0; sy < h; sy++) {
     const rowO = sy * f * rowBytes;
@@ -85,7 +96,7 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
         const r = data[o] + data[o + 3] + data[o + 6] + data[o + r1] + data[o + r1 + 3] + data[o + r1 + 6] + data[o + r2] + data[o + r2 + 3] + data[o + r2 + 6];
         const g = data[o + 1] + data[o + 4] + data[o + 7] + data[o + r1 + 1] + data[o + r1 + 4] + data[o + r1 + 7] + data[o + r2 + 1] + data[o + r2 + 4] + data[o + r2 + 7];
         const b = data[o + 2] + data[o + 5] + data[o + 8] + data[o + r1 + 2] + data[o + r1 + 5] + data[o + r1 + 8] + data[o + r2 + 2] + data[o + r2 + 5] + data[o + r2 + 8];
-        whiteness[i] = whitenessOf(lut[(r * toLut + 0.5) | 0], lut[(g * toLut + 0.5) | 0], lut[(b * toLut + 0.5) | 0]);
+        whiteness[i] = whitenessOf(lut[r], lut[g], lut[b]);
       }
     } else if (f === 4 && step === 2) {
       const r2 = 2 * rowBytes;
@@ -93,14 +104,14 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
         const r = data[o] + data[o + 6] + data[o + r2] + data[o + r2 + 6];
         const g = data[o + 1] + data[o + 7] + data[o + r2 + 1] + data[o + r2 + 7];
         const b = data[o + 2] + data[o + 8] + data[o + r2 + 2] + data[o + r2 + 8];
-        whiteness[i] = whitenessOf(lut[(r * toLut + 0.5) | 0], lut[(g * toLut + 0.5) | 0], lut[(b * toLut + 0.5) | 0]);
+        whiteness[i] = whitenessOf(lut[r], lut[g], lut[b]);
       }
     } else
       for (let sx = 0; sx < w; sx++, i++) {
         let r = 0, g = 0, b = 0;
         for (let dy = 0; dy < f; dy += step)
           for (let dx = 0, o = rowO + dy * rowBytes + sx * blockBytes; dx < f; dx += step, o += colBytes) (r += data[o]), (g += data[o + 1]), (b += data[o + 2]);
-        whiteness[i] = whitenessOf(lut[(r * toLut + 0.5) | 0], lut[(g * toLut + 0.5) | 0], lut[(b * toLut + 0.5) | 0]);
+        whiteness[i] = whitenessOf(lut[r], lut[g], lut[b]);
       }
   }
   return { w, h, factor: f, whiteness };
