@@ -22,6 +22,9 @@ export type EdgeSections = {
 /** Both edges (left, right) as lines s = p + q × t (px across, t along). */
 export type EdgeLines = { q: number; pL: number; pR: number; score: number };
 
+/** Each section's shift (in samples) along a line of the slope tried, kept between calls. */
+let shiftBuffer = new Int32Array(0);
+
 /**
  * The median over the sections of their steps along lines of slope q, at every `stride`-th sample
  * offset (a step spreads over several samples; for the slope search, the samples between are
@@ -31,7 +34,9 @@ export type EdgeLines = { q: number; pL: number; pR: number; score: number };
  */
 function medianAlong(sec: EdgeSections, q: number, out: Float64Array, vals: Float64Array, stride: 1 | 2, of = sec.grads) {
   const n = out.length, K = sec.ts.length;
-  const shifts = sec.ts.map((t) => Math.round((q * t) / sec.ds));
+  if (shiftBuffer.length < K) shiftBuffer = new Int32Array(2 * K);
+  const shifts = shiftBuffer;
+  for (let k = 0; k < K; k++) shifts[k] = Math.round((q * sec.ts[k]) / sec.ds);
   for (let i = 0; i < n; i += stride) {
     let m = 0;
     for (let k = 0; k < K; k++) {
