@@ -25,11 +25,6 @@ const ENCODED_TO_LINEAR = (() => {
 })();
 
 /**
- * Reduced copy with a per-pixel whiteness in linear light: luminance times (1 − 0.6 ×
- * saturation). Both factors scale with the light, so a ratio against the local
- * background is unchanged by shadows and light falloff.
- */
-/**
  * The whole reduction from a working image of this size to its search copy: the smallest that
  * brings the long side to `target` or less (a 1334 px photo's copy is 333 px long, not 444: its
  * search passes take half the time, and a strip at the smallest readable size is still as many
@@ -63,6 +58,11 @@ export function searchCopyFromReduced(rgb: RgbImage, factor: number): SearchCopy
 /** Linear values by block sum for blocks of `sumToLinearPer`² pixels summed (see makeSearchCopy), kept between copies. */
 let sumToLinear = new Float32Array(0), sumToLinearPer = 0;
 
+/**
+ * Reduced copy with a per-pixel whiteness in linear light: luminance times (1 − 0.6 ×
+ * saturation). Both factors scale with the light, so a ratio against the local
+ * background is unchanged by shadows and light falloff.
+ */
 export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): SearchCopy {
   const f = searchFactor(img.width, img.height, target);
   const w = Math.floor(img.width / f), h = Math.floor(img.height / f);
@@ -72,14 +72,13 @@ export function makeSearchCopy(img: RgbImage, target = SEARCH_LONG_SIDE): Search
   const step = f >= 4 ? 2 : 1;
   const per = Math.ceil(f / step);
   // Block means of the encoded values, then the sRGB transfer function (a close enough
-  // approximation of the linear mean for searching): a block's sum × toLut is its index in the
-  // table. Each block is summed where it lies (its rows one after another in the working copy),
-  // with no running sums kept per column.
-  // Each block's channel sum (a whole number, at most 255 per pixel summed) straight to its
-  // linear value: sum × toLut is its index in ENCODED_TO_LINEAR, taken once per possible sum.
+  // approximation of the linear mean for searching): a block's channel sum (a whole number) ×
+  // toLut is its index in ENCODED_TO_LINEAR, looked up once per possible sum into a table by sum.
+  // Each block is summed where it lies (its rows one after another in the working copy), with no
+  // running sums kept per column.
   const toLut = 4095 / 255 / (per * per);
-  const maxSum = 255 * per * per;
   if (sumToLinearPer !== per) {
+    const maxSum = 255 * per * per;
     sumToLinear = new Float32Array(maxSum + 1);
     for (let v = 0; v <= maxSum; v++) sumToLinear[v] = ENCODED_TO_LINEAR[(v * toLut + 0.5) | 0];
     sumToLinearPer = per;

@@ -35,6 +35,13 @@ export function searchDecodePays(
   return !!photo.format && SHRINK_ON_LOAD.has(photo.format) && (!!photo.progressive || converted || long > workLong);
 }
 
+/**
+ * The search work done while the working copy is still being decoded: the search copy decoded
+ * small, its wide-scale candidates, and the edge-pair candidates too when none of the wide
+ * scale's best few has the strip's proportions (locate.ts wideLooksOff: the edge pairs are then
+ * tried first) and the working decode is still running, so that they cost no wall time.
+ * Undefined when the search copy is better reduced from the working copy.
+ */
 export async function earlySearch(photo: Buffer, started: StartedDecode, chart: StripChart): Promise<EarlySearch | undefined> {
   if (!searchDecodePays(started.original, started.working, started)) return undefined;
   let decoded = false;
