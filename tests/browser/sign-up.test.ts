@@ -26,6 +26,8 @@ describe("signing up", () => {
     await page.getByLabel("Password").fill("a-long-password");
     await page.getByRole("button", { name: "Create account" }).click();
     await page.waitForURL(/\/check-email/);
+    // The address changes as the navigation commits; the new page may render a moment later.
+    await page.getByText(email).waitFor();
     expect(await page.textContent("body")).toContain(email);
     await screenshot(page, "02-check-email");
 
